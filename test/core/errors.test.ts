@@ -1,0 +1,32 @@
+import { describe, expect, it } from "vitest";
+import { DimensionError, LeewayError, NonFiniteError, OptionError, SnapshotError, StateError, describeValue } from "@leeway/core";
+
+describe("error classes", () => {
+  it("carry stable codes and name the parameter, the value and what is allowed", () => {
+    const option = new OptionError("Cusum", "h", -1, "a finite number > 0");
+    expect(option).toBeInstanceOf(LeewayError);
+    expect(option).toBeInstanceOf(Error);
+    expect(option.code).toBe("E_OPTION");
+    expect(option.name).toBe("OptionError");
+    expect(option.message).toBe("Cusum: option h must be a finite number > 0, got -1");
+    expect(new NonFiniteError("Moments", "x", Number.NaN).message).toBe("Moments: x must be a finite number, got NaN");
+    expect(new NonFiniteError("Moments", "x", Infinity).code).toBe("E_NON_FINITE");
+    const dim = new DimensionError("Pool", "x", 256, 255);
+    expect(dim.code).toBe("E_DIMENSION");
+    expect(dim.message).toBe("Pool: x must have length 256, got length 255");
+    expect(new SnapshotError("leeway.stats.moments", "state.count", "is missing").message).toBe("snapshot of leeway.stats.moments: state.count is missing");
+    expect(new SnapshotError("k", "p", "x").code).toBe("E_SNAPSHOT");
+    expect(new StateError("Engine", "nothing to acknowledge").code).toBe("E_STATE");
+  });
+
+  it("describe values readably", () => {
+    expect(describeValue(-0)).toBe("-0");
+    expect(describeValue("abc")).toBe('"abc"');
+    expect(describeValue([1, 2])).toBe("an array of length 2");
+    expect(describeValue(new Float64Array(3))).toBe("a Float64Array of length 3");
+    expect(describeValue(undefined)).toBe("undefined");
+    expect(describeValue({})).toBe("an object");
+    expect(describeValue(() => 1)).toBe("a function");
+    expect(describeValue("x".repeat(100)).length).toBeLessThan(70);
+  });
+});
