@@ -1,1 +1,12 @@
-export {};
+export type { ChangeReading, ChangeTest, ChangeStatus, ChangeDirection, ChangeSides } from "./change-test.js";
+export { Cusum } from "./cusum.js";
+export type { CusumOptions, CusumState } from "./cusum.js";
+export { PageHinkley } from "./page-hinkley.js";
+export type { PageHinkleyOptions, PageHinkleyState } from "./page-hinkley.js";
+export { EwmaChart } from "./ewma-chart.js";
+export type { EwmaChartOptions, EwmaChartState, EwmaLimits } from "./ewma-chart.js";
+export { cusumArl } from "./cusum-arl.js";
+export type { CusumArlOptions } from "./cusum-arl.js";
+export { ewmaArl } from "./ewma-arl.js";
+export type { EwmaArlOptions } from "./ewma-arl.js";
+export { normalCdf } from "./normal-cdf.js";

@@ -1,0 +1,348 @@
+import {
+  envelope,
+  finiteNumber,
+  integerInRange,
+  nonFiniteOption,
+  NonFiniteError,
+  nonNegativeNumber,
+  openSnapshot,
+  optionsObject,
+  positiveNumber,
+  OptionError,
+  SnapshotError,
+  type NonFinitePolicy,
+  type Snapshot,
+} from "@leeway/core";
+import type { ChangeDirection, ChangeReading, ChangeSides, ChangeTest } from "./change-test.js";
+import { burnInSigma, burnInStep, emptyBurnIn, readBurnIn, type BurnIn } from "./burn-in.js";
+import { scanStart, sidesOption, warningFractionOption } from "./options.js";
+import { buildFromSnapshot, definedOnly } from "./restore-support.js";
+
+/** Options of {@link Cusum}. Give `mean` and `sigma`, or `burnIn` to estimate them. */
+export interface CusumOptions {
+  /** Reference value k, in σ units (default 0.5: tuned to a 1σ shift). */
+  k?: number;
+  /** Decision interval h, in σ units (default 5). */
+  h?: number;
+  /** In-control mean μ₀, in score units. */
+  mean?: number;
+  /** In-control standard deviation σ, in score units (> 0). */
+  sigma?: number;
+  /** Estimate μ₀ and σ from the first `burnIn` samples (≥ 2) instead. */
+  burnIn?: number;
+  /** Fast initial response: both sums start (and restart) at this value, in σ units, in [0, h) (Lucas & Crosier 1982 use h/2). Default 0. */
+  headStart?: number;
+  /** `"both"` (default), `"up"` or `"down"`. */
+  direction?: ChangeSides;
+  /** `"warning"` once the statistic passes this fraction of h (default 0.5). */
+  warningFraction?: number;
+  /** `"refuse"` (default) or `"skip"` non-finite samples. */
+  nonFinite?: NonFinitePolicy;
+}
+
+/** Plain state of a {@link Cusum} snapshot. */
+export interface CusumState {
+  k: number;
+  h: number;
+  headStart: number;
+  direction: ChangeSides;
+  warningFraction: number;
+  nonFinite: NonFinitePolicy;
+  burnInLength: number;
+  burnIn: BurnIn | null;
+  mean: number | null;
+  sigma: number | null;
+  upper: number;
+  lower: number;
+  upperZero: number;
+  lowerZero: number;
+  count: number;
+  skipped: number;
+}
+
+const NAME = "Cusum";
+const KNOWN = ["k", "h", "mean", "sigma", "burnIn", "headStart", "direction", "warningFraction", "nonFinite"] as const;
+
+/**
+ * Tabular CUSUM (Page, 1954), two-sided or one-sided, on standardized samples zᵢ = (xᵢ − μ₀)/σ:
+ *
+ *   C⁺ᵢ = max(0, C⁺ᵢ₋₁ + zᵢ − k),  C⁻ᵢ = max(0, C⁻ᵢ₋₁ − zᵢ − k),  alarm when C⁺ᵢ > h or C⁻ᵢ > h
+ *
+ * (k: reference value, h: decision interval, both in σ; Montgomery, *Introduction to Statistical Quality
+ * Control*, §9.1). The statistic is the larger watched side; the onset is the sample after that side was
+ * last zero. Optional fast initial response (head start, Lucas & Crosier 1982). μ₀ and σ are given, or
+ * estimated from a burn-in (the sample mean and sample standard deviation of the first `burnIn` samples,
+ * extended while those are all equal). The test does not reset itself after an alarm: call `restart()`,
+ * which sets both sums back to the head start and keeps μ₀ and σ (given or estimated).
+ * @example
+ * const cusum = new Cusum({ mean: 0, sigma: 1, k: 0.5, h: 4 });
+ * cusum.observe(1.5).statistic; // 1
+ * cusum.scan(new Float64Array([1.5, 1.5, 1.5, 1.5])); // 3 (C⁺ = 2, 3, 4, 5: the fourth passes h = 4)
+ */
+export class Cusum implements ChangeTest {
+  static readonly kind = "leeway.change.cusum";
+  static readonly version = 1;
+  readonly name = NAME;
+  readonly #k: number; // reference value, in σ
+  readonly #h: number; // decision interval, in σ
+  readonly #headStart: number; // initial value of both sums, in σ
+  readonly #direction: ChangeSides;
+  readonly #hUp: number; // h for the watched upper side, +∞ when not watched
+  readonly #hDown: number;
+  readonly #warningFraction: number;
+  readonly #nonFinite: NonFinitePolicy;
+  readonly #burnInLength: number;
+  #burnIn: BurnIn | null;
+  #mean: number; // μ₀ (NaN while burning in)
+  #sigma: number; // σ (NaN while burning in)
+  #invSigma: number; // 1/σ, so that the loop multiplies
+  #upper: number; // C⁺
+  #lower: number; // C⁻
+  #upperZero: number; // stream index of the last sample at which C⁺ was 0
+  #lowerZero: number;
+  #count = 0;
+  #skipped = 0;
+
+  constructor(options: CusumOptions = {}) {
+    const o = optionsObject<CusumOptions>(NAME, options, KNOWN);
+    this.#k = o.k === undefined ? 0.5 : nonNegativeNumber(NAME, "k", o.k);
+    this.#h = o.h === undefined ? 5 : positiveNumber(NAME, "h", o.h);
+    this.#headStart = o.headStart === undefined ? 0 : nonNegativeNumber(NAME, "headStart", o.headStart);
+    if (this.#headStart >= this.#h) throw new OptionError(NAME, "headStart", o.headStart, `a number in [0, h) = [0, ${this.#h})`);
+    this.#direction = sidesOption(NAME, o.direction, "both");
+    this.#hUp = this.#direction === "down" ? Infinity : this.#h;
+    this.#hDown = this.#direction === "up" ? Infinity : this.#h;
+    this.#warningFraction = warningFractionOption(NAME, o.warningFraction);
+    this.#nonFinite = nonFiniteOption(NAME, o.nonFinite);
+    const given = o.mean !== undefined || o.sigma !== undefined;
+    if (given) {
+      if (o.burnIn !== undefined) throw new OptionError(NAME, "burnIn", o.burnIn, "absent when mean and sigma are given");
+      this.#mean = finiteNumber(NAME, "mean", o.mean);
+      this.#sigma = positiveNumber(NAME, "sigma", o.sigma);
+      this.#burnInLength = 0;
+      this.#burnIn = null;
+    } else {
+      if (o.burnIn === undefined) throw new OptionError(NAME, "burnIn", o.burnIn, "an integer >= 2 when mean and sigma are not given");
+      this.#burnInLength = integerInRange(NAME, "burnIn", o.burnIn, 2, 2 ** 31 - 1);
+      this.#mean = Number.NaN;
+      this.#sigma = Number.NaN;
+      this.#burnIn = emptyBurnIn();
+    }
+    this.#invSigma = 1 / this.#sigma;
+    this.#upper = this.#headStart;
+    this.#lower = this.#headStart;
+    this.#upperZero = -1;
+    this.#lowerZero = -1;
+  }
+
+  /** The decision interval h, in σ. */
+  get threshold(): number {
+    return this.#h;
+  }
+  /** The upper sum C⁺, in σ. */
+  get upper(): number {
+    return this.#upper;
+  }
+  /** The lower sum C⁻, in σ. */
+  get lower(): number {
+    return this.#lower;
+  }
+  /** μ₀ (given or estimated), or null while burning in. */
+  get mean(): number | null {
+    return this.#burnIn === null ? this.#mean : null;
+  }
+  /** σ (given or estimated), or null while burning in. */
+  get sigma(): number | null {
+    return this.#burnIn === null ? this.#sigma : null;
+  }
+  /** Finite samples taken (burn-in included). */
+  get count(): number {
+    return this.#count;
+  }
+  /** Non-finite samples skipped. */
+  get skipped(): number {
+    return this.#skipped;
+  }
+
+  observe(x: number): ChangeReading {
+    const i = this.#count + this.#skipped;
+    if (!(x - x === 0)) {
+      if (this.#nonFinite === "refuse") throw new NonFiniteError(NAME, "x", x);
+      this.#skipped += 1;
+      return this.#reading(i);
+    }
+    this.#count += 1;
+    if (this.#burnIn !== null) {
+      if (burnInStep(this.#burnIn, x, this.#burnInLength)) this.#endBurnIn(i);
+      return this.#reading(i);
+    }
+    const z = (x - this.#mean) * this.#invSigma;
+    let up = this.#upper + (z - this.#k);
+    up = up > 0 ? up : 0;
+    let lo = this.#lower + (-z - this.#k);
+    lo = lo > 0 ? lo : 0;
+    if (up === 0) this.#upperZero = i;
+    if (lo === 0) this.#lowerZero = i;
+    this.#upper = up;
+    this.#lower = lo;
+    return this.#reading(i);
+  }
+
+  scan(xs: Float64Array, from = 0): number {
+    let j = scanStart(NAME, xs, from);
+    const n = xs.length;
+    for (; j < n && this.#burnIn !== null; j++) this.observe(xs[j] as number);
+    if (j >= n) return -1;
+    const mu = this.#mean;
+    const inv = this.#invSigma;
+    const k = this.#k;
+    const hUp = this.#hUp;
+    const hDown = this.#hDown;
+    const refuse = this.#nonFinite === "refuse";
+    let up = this.#upper;
+    let lo = this.#lower;
+    let uz = this.#upperZero;
+    let lz = this.#lowerZero;
+    let count = this.#count;
+    let skipped = this.#skipped;
+    let found = -1;
+    for (; j < n; j++) {
+      const x = xs[j] as number;
+      if (!(x - x === 0)) {
+        if (refuse) break;
+        skipped++;
+        continue;
+      }
+      const idx = count + skipped;
+      count++;
+      const z = (x - mu) * inv;
+      up = up + (z - k);
+      up = up > 0 ? up : 0;
+      lo = lo + (-z - k);
+      lo = lo > 0 ? lo : 0;
+      uz = up === 0 ? idx : uz;
+      lz = lo === 0 ? idx : lz;
+      if (up > hUp || lo > hDown) {
+        found = j;
+        break;
+      }
+    }
+    this.#upper = up;
+    this.#lower = lo;
+    this.#upperZero = uz;
+    this.#lowerZero = lz;
+    this.#count = count;
+    this.#skipped = skipped;
+    if (j < n && found < 0) throw new NonFiniteError(NAME, `xs[${j}]`, xs[j]);
+    return found;
+  }
+
+  restart(): void {
+    const i = this.#count + this.#skipped;
+    this.#upper = this.#headStart;
+    this.#lower = this.#headStart;
+    this.#upperZero = i - 1;
+    this.#lowerZero = i - 1;
+  }
+
+  snapshot(): Snapshot<CusumState> {
+    const known = this.#burnIn === null;
+    return envelope(Cusum.kind, Cusum.version, {
+      k: this.#k,
+      h: this.#h,
+      headStart: this.#headStart,
+      direction: this.#direction,
+      warningFraction: this.#warningFraction,
+      nonFinite: this.#nonFinite,
+      burnInLength: this.#burnInLength,
+      burnIn: this.#burnIn === null ? null : { ...this.#burnIn },
+      mean: known ? this.#mean : null,
+      sigma: known ? this.#sigma : null,
+      upper: this.#upper,
+      lower: this.#lower,
+      upperZero: this.#upperZero,
+      lowerZero: this.#lowerZero,
+      count: this.#count,
+      skipped: this.#skipped,
+    });
+  }
+
+  /** Rebuilds a Cusum from {@link Cusum.snapshot}; it continues exactly where the original was. */
+  static restore(snapshot: unknown): Cusum {
+    const r = openSnapshot(snapshot, Cusum.kind, Cusum.version);
+    const k = r.number("k");
+    const h = r.number("h");
+    const headStart = r.number("headStart");
+    const direction = r.oneOf("direction", ["up", "down", "both"] as const);
+    const warningFraction = r.number("warningFraction");
+    const nonFinite = r.oneOf("nonFinite", ["refuse", "skip"] as const);
+    const burnInLength = r.integer("burnInLength", 0, 2 ** 31 - 1);
+    const burnIn = r.objectOrNull("burnIn") === null ? null : readBurnIn(r);
+    const mean = r.numberOrNull("mean");
+    const sigma = r.numberOrNull("sigma");
+    const count = r.integer("count", 0, Number.MAX_SAFE_INTEGER);
+    const skipped = r.integer("skipped", 0, Number.MAX_SAFE_INTEGER);
+    const last = count + skipped - 1;
+    const upper = r.numberIn("upper", 0, Number.MAX_VALUE);
+    const lower = r.numberIn("lower", 0, Number.MAX_VALUE);
+    const upperZero = r.integer("upperZero", -1, last);
+    const lowerZero = r.integer("lowerZero", -1, last);
+    const known = burnIn === null;
+    if (known !== (mean !== null) || known !== (sigma !== null)) r.fail("burnIn", "must be null exactly when mean and sigma are known");
+    if (!known && burnInLength === 0) r.fail("burnInLength", "must be > 0 while burning in");
+    if (burnIn !== null && burnIn.count > count) r.fail("burnIn.count", "cannot exceed count");
+    const test = buildFromSnapshot(Cusum.kind, () =>
+      new Cusum(definedOnly<CusumOptions>({
+        k, h, headStart, direction, warningFraction, nonFinite,
+        mean: burnInLength === 0 ? (mean as number) : undefined,
+        sigma: burnInLength === 0 ? (sigma as number) : undefined,
+        burnIn: burnInLength > 0 ? burnInLength : undefined,
+      })),
+    );
+    if (burnInLength > 0 && known) {
+      // the burn-in has ended: μ₀ and σ were estimated
+      if (!((sigma as number) > 0)) throw new SnapshotError(Cusum.kind, "state.sigma", `must be > 0, got ${String(sigma)}`);
+      test.#burnIn = null;
+      test.#mean = mean as number;
+      test.#sigma = sigma as number;
+      test.#invSigma = 1 / (sigma as number);
+    } else if (burnIn !== null) {
+      test.#burnIn = burnIn;
+    }
+    test.#upper = upper;
+    test.#lower = lower;
+    test.#upperZero = upperZero;
+    test.#lowerZero = lowerZero;
+    test.#count = count;
+    test.#skipped = skipped;
+    return test;
+  }
+
+  #endBurnIn(i: number): void {
+    const b = this.#burnIn as BurnIn;
+    this.#mean = b.mean;
+    this.#sigma = burnInSigma(b);
+    this.#invSigma = 1 / this.#sigma;
+    this.#burnIn = null;
+    this.#upperZero = i;
+    this.#lowerZero = i;
+  }
+
+  #reading(i: number): ChangeReading {
+    if (this.#burnIn !== null) return { index: i, status: "stable", statistic: 0, threshold: this.#h, skipped: this.#skipped };
+    const watchUp = this.#direction !== "down";
+    const watchDown = this.#direction !== "up";
+    const up = watchUp ? this.#upper : 0;
+    const lo = watchDown ? this.#lower : 0;
+    const statistic = up >= lo ? up : lo;
+    const change = this.#upper > this.#hUp || this.#lower > this.#hDown;
+    const status = change ? "change" : statistic > this.#warningFraction * this.#h ? "warning" : "stable";
+    const reading: ChangeReading = { index: i, status, statistic, threshold: this.#h, skipped: this.#skipped };
+    if (statistic > 0) {
+      const direction: ChangeDirection = up >= lo ? "up" : "down";
+      reading.direction = direction;
+      reading.onset = (direction === "up" ? this.#upperZero : this.#lowerZero) + 1;
+    }
+    return reading;
+  }
+}

@@ -1,0 +1,341 @@
+import {
+  envelope,
+  finiteNumber,
+  integerInRange,
+  nonFiniteOption,
+  NonFiniteError,
+  numberInRange,
+  oneOf,
+  openSnapshot,
+  optionsObject,
+  positiveNumber,
+  OptionError,
+  SnapshotError,
+  type NonFinitePolicy,
+  type Snapshot,
+} from "@leeway/core";
+import type { ChangeDirection, ChangeReading, ChangeSides, ChangeTest } from "./change-test.js";
+import { burnInSigma, burnInStep, emptyBurnIn, readBurnIn, type BurnIn } from "./burn-in.js";
+import { scanStart, sidesOption, warningFractionOption } from "./options.js";
+import { buildFromSnapshot, definedOnly } from "./restore-support.js";
+
+/** Which control limits an {@link EwmaChart} uses. */
+export type EwmaLimits = "asymptotic" | "exact";
+
+/** Options of {@link EwmaChart}. Give `mean` and `sigma`, or `burnIn` to estimate them. */
+export interface EwmaChartOptions {
+  /** Smoothing constant λ in (0, 1] (default 0.2). */
+  lambda?: number;
+  /** Limit width L, in standard deviations of the EWMA statistic (default 3). */
+  L?: number;
+  /** `"asymptotic"` (default: the fixed limits the published ARL tables assume) or `"exact"` (time-varying). */
+  limits?: EwmaLimits;
+  /** In-control mean μ₀, in score units. */
+  mean?: number;
+  /** In-control standard deviation σ of one sample, in score units (> 0). */
+  sigma?: number;
+  /** Estimate μ₀ and σ from the first `burnIn` samples (≥ 2) instead. */
+  burnIn?: number;
+  /** `"both"` (default), `"up"` or `"down"`. */
+  direction?: ChangeSides;
+  /** `"warning"` once the statistic passes this fraction of L (default 0.5). */
+  warningFraction?: number;
+  /** `"refuse"` (default) or `"skip"` non-finite samples. */
+  nonFinite?: NonFinitePolicy;
+}
+
+/** Plain state of an {@link EwmaChart} snapshot. */
+export interface EwmaChartState {
+  lambda: number;
+  L: number;
+  limits: EwmaLimits;
+  direction: ChangeSides;
+  warningFraction: number;
+  nonFinite: NonFinitePolicy;
+  burnInLength: number;
+  burnIn: BurnIn | null;
+  mean: number | null;
+  sigma: number | null;
+  z: number;
+  decay: number;
+  upperZero: number;
+  lowerZero: number;
+  count: number;
+  skipped: number;
+}
+
+const NAME = "EwmaChart";
+const KNOWN = ["lambda", "L", "limits", "mean", "sigma", "burnIn", "direction", "warningFraction", "nonFinite"] as const;
+
+/**
+ * EWMA control chart (Roberts, 1959; Lucas & Saccucci, 1990). On standardized samples uᵢ = (xᵢ − μ₀)/σ,
+ *
+ *   zᵢ = λ·uᵢ + (1 − λ)·zᵢ₋₁,  z₀ = 0,  alarm when |zᵢ| > L·√(λ/(2 − λ)·(1 − (1 − λ)^{2i}))
+ *
+ * with the exact limits, or L·√(λ/(2 − λ)) with the asymptotic ones (λ: smoothing constant, L: limit
+ * width). The statistic is |zᵢ| divided by the standard deviation of zᵢ, so the threshold is L; the
+ * comparison is done on squares, without a square root. The onset is the sample after zᵢ last sat on the
+ * other side of μ₀. `restart()` sets z back to 0 (and the exact limits back to their start) and keeps μ₀, σ.
+ * @example
+ * const chart = new EwmaChart({ mean: 0, sigma: 1, lambda: 1, L: 3 }); // λ = 1: a Shewhart chart
+ * chart.observe(2.5).status; // "warning"
+ * chart.observe(3.5).status; // "change"
+ */
+export class EwmaChart implements ChangeTest {
+  static readonly kind = "leeway.change.ewma-chart";
+  static readonly version = 1;
+  readonly name = NAME;
+  readonly #lambda: number; // λ
+  readonly #L: number; // L
+  readonly #limits: EwmaLimits;
+  readonly #direction: ChangeSides;
+  readonly #warningFraction: number;
+  readonly #nonFinite: NonFinitePolicy;
+  readonly #variance: number; // λ/(2 − λ): the asymptotic variance of z in σ²
+  readonly #boundUp: number; // L²·λ/(2 − λ) for a watched upper side, +∞ otherwise
+  readonly #boundDown: number;
+  readonly #decayStep: number; // (1 − λ)² for exact limits, 0 for asymptotic ones
+  readonly #burnInLength: number;
+  #burnIn: BurnIn | null;
+  #mean: number;
+  #sigma: number;
+  #invSigma: number;
+  #z = 0; // EWMA statistic, in σ
+  #decay = 1; // (1 − λ)^{2i}
+  #upperZero = -1; // stream index of the last sample with z ≤ 0
+  #lowerZero = -1; // … with z ≥ 0
+  #count = 0;
+  #skipped = 0;
+
+  constructor(options: EwmaChartOptions = {}) {
+    const o = optionsObject<EwmaChartOptions>(NAME, options, KNOWN);
+    this.#lambda = o.lambda === undefined ? 0.2 : numberInRange(NAME, "lambda", o.lambda, { min: 0, max: 1, minExclusive: true });
+    this.#L = o.L === undefined ? 3 : positiveNumber(NAME, "L", o.L);
+    this.#limits = o.limits === undefined ? "asymptotic" : oneOf(NAME, "limits", o.limits, ["asymptotic", "exact"] as const);
+    this.#direction = sidesOption(NAME, o.direction, "both");
+    this.#warningFraction = warningFractionOption(NAME, o.warningFraction);
+    this.#nonFinite = nonFiniteOption(NAME, o.nonFinite);
+    this.#variance = this.#lambda / (2 - this.#lambda);
+    const bound = this.#L * this.#L * this.#variance;
+    this.#boundUp = this.#direction === "down" ? Infinity : bound;
+    this.#boundDown = this.#direction === "up" ? Infinity : bound;
+    this.#decayStep = this.#limits === "exact" ? (1 - this.#lambda) * (1 - this.#lambda) : 0;
+    const given = o.mean !== undefined || o.sigma !== undefined;
+    if (given) {
+      if (o.burnIn !== undefined) throw new OptionError(NAME, "burnIn", o.burnIn, "absent when mean and sigma are given");
+      this.#mean = finiteNumber(NAME, "mean", o.mean);
+      this.#sigma = positiveNumber(NAME, "sigma", o.sigma);
+      this.#burnInLength = 0;
+      this.#burnIn = null;
+    } else {
+      if (o.burnIn === undefined) throw new OptionError(NAME, "burnIn", o.burnIn, "an integer >= 2 when mean and sigma are not given");
+      this.#burnInLength = integerInRange(NAME, "burnIn", o.burnIn, 2, 2 ** 31 - 1);
+      this.#mean = Number.NaN;
+      this.#sigma = Number.NaN;
+      this.#burnIn = emptyBurnIn();
+    }
+    this.#invSigma = 1 / this.#sigma;
+  }
+
+  /** The limit width L. */
+  get threshold(): number {
+    return this.#L;
+  }
+  /** The EWMA statistic in score units, μ₀ + σ·z (μ₀ while burning in: NaN). */
+  get ewma(): number {
+    return this.#mean + this.#sigma * this.#z;
+  }
+  /** μ₀ (given or estimated), or null while burning in. */
+  get mean(): number | null {
+    return this.#burnIn === null ? this.#mean : null;
+  }
+  /** σ (given or estimated), or null while burning in. */
+  get sigma(): number | null {
+    return this.#burnIn === null ? this.#sigma : null;
+  }
+  /** Finite samples taken (burn-in included). */
+  get count(): number {
+    return this.#count;
+  }
+  /** Non-finite samples skipped. */
+  get skipped(): number {
+    return this.#skipped;
+  }
+
+  observe(x: number): ChangeReading {
+    const i = this.#count + this.#skipped;
+    if (!(x - x === 0)) {
+      if (this.#nonFinite === "refuse") throw new NonFiniteError(NAME, "x", x);
+      this.#skipped += 1;
+      return this.#reading(i);
+    }
+    this.#count += 1;
+    if (this.#burnIn !== null) {
+      if (burnInStep(this.#burnIn, x, this.#burnInLength)) this.#endBurnIn(i);
+      return this.#reading(i);
+    }
+    const u = (x - this.#mean) * this.#invSigma;
+    const z = (1 - this.#lambda) * this.#z + this.#lambda * u;
+    this.#z = z;
+    this.#decay = this.#decay * this.#decayStep;
+    if (z <= 0) this.#upperZero = i;
+    if (z >= 0) this.#lowerZero = i;
+    return this.#reading(i);
+  }
+
+  scan(xs: Float64Array, from = 0): number {
+    let j = scanStart(NAME, xs, from);
+    const n = xs.length;
+    for (; j < n && this.#burnIn !== null; j++) this.observe(xs[j] as number);
+    if (j >= n) return -1;
+    const mu = this.#mean;
+    const inv = this.#invSigma;
+    const lam = this.#lambda;
+    const keep = 1 - lam;
+    const step = this.#decayStep;
+    const bUp = this.#boundUp;
+    const bDown = this.#boundDown;
+    const refuse = this.#nonFinite === "refuse";
+    let z = this.#z;
+    let q = this.#decay;
+    let uz = this.#upperZero;
+    let lz = this.#lowerZero;
+    let count = this.#count;
+    let skipped = this.#skipped;
+    let found = -1;
+    for (; j < n; j++) {
+      const x = xs[j] as number;
+      if (!(x - x === 0)) {
+        if (refuse) break;
+        skipped++;
+        continue;
+      }
+      const idx = count + skipped;
+      count++;
+      const u = (x - mu) * inv;
+      z = keep * z + lam * u;
+      q = q * step;
+      uz = z <= 0 ? idx : uz;
+      lz = z >= 0 ? idx : lz;
+      if (z * z > (z > 0 ? bUp : bDown) * (1 - q)) {
+        found = j;
+        break;
+      }
+    }
+    this.#z = z;
+    this.#decay = q;
+    this.#upperZero = uz;
+    this.#lowerZero = lz;
+    this.#count = count;
+    this.#skipped = skipped;
+    if (j < n && found < 0) throw new NonFiniteError(NAME, `xs[${j}]`, xs[j]);
+    return found;
+  }
+
+  restart(): void {
+    const i = this.#count + this.#skipped;
+    this.#z = 0;
+    this.#decay = 1;
+    this.#upperZero = i - 1;
+    this.#lowerZero = i - 1;
+  }
+
+  snapshot(): Snapshot<EwmaChartState> {
+    const known = this.#burnIn === null;
+    return envelope(EwmaChart.kind, EwmaChart.version, {
+      lambda: this.#lambda,
+      L: this.#L,
+      limits: this.#limits,
+      direction: this.#direction,
+      warningFraction: this.#warningFraction,
+      nonFinite: this.#nonFinite,
+      burnInLength: this.#burnInLength,
+      burnIn: this.#burnIn === null ? null : { ...this.#burnIn },
+      mean: known ? this.#mean : null,
+      sigma: known ? this.#sigma : null,
+      z: this.#z,
+      decay: this.#decay,
+      upperZero: this.#upperZero,
+      lowerZero: this.#lowerZero,
+      count: this.#count,
+      skipped: this.#skipped,
+    });
+  }
+
+  /** Rebuilds an EwmaChart from {@link EwmaChart.snapshot}; it continues exactly where the original was. */
+  static restore(snapshot: unknown): EwmaChart {
+    const r = openSnapshot(snapshot, EwmaChart.kind, EwmaChart.version);
+    const lambda = r.number("lambda");
+    const L = r.number("L");
+    const limits = r.oneOf("limits", ["asymptotic", "exact"] as const);
+    const direction = r.oneOf("direction", ["up", "down", "both"] as const);
+    const warningFraction = r.number("warningFraction");
+    const nonFinite = r.oneOf("nonFinite", ["refuse", "skip"] as const);
+    const burnInLength = r.integer("burnInLength", 0, 2 ** 31 - 1);
+    const burnIn = r.objectOrNull("burnIn") === null ? null : readBurnIn(r);
+    const mean = r.numberOrNull("mean");
+    const sigma = r.numberOrNull("sigma");
+    const count = r.integer("count", 0, Number.MAX_SAFE_INTEGER);
+    const skipped = r.integer("skipped", 0, Number.MAX_SAFE_INTEGER);
+    const last = count + skipped - 1;
+    const z = r.number("z");
+    const decay = r.numberIn("decay", 0, 1);
+    const upperZero = r.integer("upperZero", -1, last);
+    const lowerZero = r.integer("lowerZero", -1, last);
+    const known = burnIn === null;
+    if (known !== (mean !== null) || known !== (sigma !== null)) r.fail("burnIn", "must be null exactly when mean and sigma are known");
+    if (!known && burnInLength === 0) r.fail("burnInLength", "must be > 0 while burning in");
+    if (burnIn !== null && burnIn.count > count) r.fail("burnIn.count", "cannot exceed count");
+    const test = buildFromSnapshot(EwmaChart.kind, () =>
+      new EwmaChart(definedOnly<EwmaChartOptions>({
+        lambda, L, limits, direction, warningFraction, nonFinite,
+        mean: burnInLength === 0 ? (mean as number) : undefined,
+        sigma: burnInLength === 0 ? (sigma as number) : undefined,
+        burnIn: burnInLength > 0 ? burnInLength : undefined,
+      })),
+    );
+    if (burnInLength > 0 && known) {
+      if (!((sigma as number) > 0)) throw new SnapshotError(EwmaChart.kind, "state.sigma", `must be > 0, got ${String(sigma)}`);
+      test.#burnIn = null;
+      test.#mean = mean as number;
+      test.#sigma = sigma as number;
+      test.#invSigma = 1 / (sigma as number);
+    } else if (burnIn !== null) {
+      test.#burnIn = burnIn;
+    }
+    test.#z = z;
+    test.#decay = decay;
+    test.#upperZero = upperZero;
+    test.#lowerZero = lowerZero;
+    test.#count = count;
+    test.#skipped = skipped;
+    return test;
+  }
+
+  #endBurnIn(i: number): void {
+    const b = this.#burnIn as BurnIn;
+    this.#mean = b.mean;
+    this.#sigma = burnInSigma(b);
+    this.#invSigma = 1 / this.#sigma;
+    this.#burnIn = null;
+    this.#upperZero = i;
+    this.#lowerZero = i;
+  }
+
+  #reading(i: number): ChangeReading {
+    if (this.#burnIn !== null || this.#count === 0) return { index: i, status: "stable", statistic: 0, threshold: this.#L, skipped: this.#skipped };
+    const z = this.#z;
+    const spread = 1 - this.#decay;
+    const watched = z > 0 ? this.#direction !== "down" : z < 0 ? this.#direction !== "up" : false;
+    const statistic = watched && spread > 0 ? Math.sqrt((z * z) / (this.#variance * spread)) : 0;
+    const change = z * z > (z > 0 ? this.#boundUp : this.#boundDown) * spread;
+    const status = change ? "change" : statistic > this.#warningFraction * this.#L ? "warning" : "stable";
+    const reading: ChangeReading = { index: i, status, statistic, threshold: this.#L, skipped: this.#skipped };
+    if (watched) {
+      const direction: ChangeDirection = z > 0 ? "up" : "down";
+      reading.direction = direction;
+      reading.onset = (direction === "up" ? this.#upperZero : this.#lowerZero) + 1;
+    }
+    return reading;
+  }
+}
