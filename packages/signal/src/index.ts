@@ -1,1 +1,15 @@
-export {};
+export { RealFft, isPowerOfTwo, MAX_FFT_SIZE } from "./real-fft.js";
+export { makeWindow, WINDOW_NAMES } from "./window.js";
+export type { Window, WindowName } from "./window.js";
+export { SpectrumAnalyzer } from "./spectrum-analyzer.js";
+export type { SpectrumAnalyzerOptions } from "./spectrum-analyzer.js";
+export { reduceBins } from "./reduce-bins.js";
+export type { BinReduction } from "./reduce-bins.js";
+export { toDecibels } from "./decibels.js";
+export { BandEnergies } from "./band-energies.js";
+export type { BandEnergiesOptions } from "./band-energies.js";
+export { timeFeatures, rms, peak, crestFactor, skewness, kurtosis } from "./time-features.js";
+export type { TimeFeatures } from "./time-features.js";
+export { velocitySpectrum, velocityRms } from "./velocity.js";
+export { Framer } from "./framer.js";
+export type { FramerOptions, FramerState } from "./framer.js";
