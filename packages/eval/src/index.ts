@@ -1,1 +1,30 @@
-export {};
+export { replay, replayAsync, scoreOnly } from "./replay.js";
+export type { Pipeline, ReplayOptions, ReplayResult, ScoreSample, ScoreOnlyEngine } from "./replay.js";
+export { evaluate, findResponses, summarizeDelays, checkEvaluateOptions, EVALUATE_OPTIONS, RESPONSE_CLASSES } from "./evaluate.js";
+export type {
+  EvaluateOptions,
+  ReplayMetrics,
+  EventResult,
+  Response,
+  ResponseClass,
+  ConfusionTable,
+  DelaySummary,
+  ResponseTally,
+  RunLengths,
+  ScoreAreas,
+  ScoreMetrics,
+} from "./evaluate.js";
+export { Timeline } from "./timeline.js";
+export { responseClass, RESPONSE_ACTIONS } from "./responses.js";
+export { anomalyMask, EVENT_CAUSES } from "./labels.js";
+export type { LabelledEvent, EventCause, ReplayLabels } from "./labels.js";
+export { rocAuc, mannWhitney } from "./roc-auc.js";
+export type { MannWhitney } from "./roc-auc.js";
+export { prAuc } from "./pr-auc.js";
+export { poissonInterval, poissonCdf } from "./poisson-interval.js";
+export type { PoissonInterval } from "./poisson-interval.js";
+export { compare, comparisonRow } from "./compare.js";
+export type { Comparison, ComparisonRow, PolicyUnderTest, SuiteScenario } from "./compare.js";
+export { comparisonMarkdown } from "./comparison-table.js";
+export { decimate, lowPassKernel } from "./decimate.js";
+export type { DecimateOptions } from "./decimate.js";

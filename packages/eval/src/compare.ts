@@ -1,0 +1,149 @@
+import { OptionError, optionsObject } from "@leeway/core";
+import { EVALUATE_OPTIONS, checkEvaluateOptions, type EvaluateOptions, type ReplayMetrics, type ResponseClass } from "./evaluate.js";
+import type { ReplayLabels } from "./labels.js";
+import { poissonInterval } from "./poisson-interval.js";
+import { replay, type Pipeline } from "./replay.js";
+import { comparisonMarkdown } from "./comparison-table.js";
+
+/** One scenario of a comparison suite: a stream that can be produced afresh, and its truth. */
+export interface SuiteScenario<S> {
+  name: string;
+  /** Called once per policy; must yield the same samples each time. */
+  stream(): Iterable<S>;
+  labels?: ReplayLabels;
+}
+
+/** A policy to compare: a name and a factory of a fresh pipeline for each scenario. */
+export interface PolicyUnderTest<S> {
+  name: string;
+  create(scenario: SuiteScenario<S>): Pipeline<S>;
+}
+
+/** The metrics of one policy over some scenarios, pooled (one row of the table). */
+export interface ComparisonRow {
+  policy: string;
+  /** Scenario names pooled into the row (one for a per-scenario row). */
+  scenarios: string[];
+  samples: number;
+  events: number;
+  detected: number;
+  /** Detected events whose response claimed the true cause. */
+  correctCause: number;
+  missed: number;
+  /** Over every detected event of the pooled scenarios, in samples; null with none detected. */
+  meanDelay: number | null;
+  medianDelay: number | null;
+  falseAlarms: number;
+  /** In-control samples, pooled. */
+  exposure: number;
+  falseAlarmsPer10k: number | null;
+  /** Pooled in-control ARL, exposure / false alarms; null with no false alarm. */
+  arl: number | null;
+  arlLower: number;
+  /** Null when unbounded (no false alarm). */
+  arlUpper: number | null;
+  retrains: number;
+  retrainsByTruth: Record<ResponseClass, number>;
+  modeSwitches: number;
+  /** Samples learnt during degradation and anomaly events. */
+  learnedDuringFaults: number;
+  /** Mean over the scenarios that have anomaly labels of both classes, of the reference score's area (the live score's when no reference was given); null when none. */
+  rocAuc: number | null;
+  prAuc: number | null;
+}
+
+/** What {@link compare} returns. */
+export interface Comparison {
+  /** One row per policy, pooled over the suite. */
+  rows: ComparisonRow[];
+  /** One row per policy and scenario. */
+  perScenario: ComparisonRow[];
+  /** Full metrics per policy and scenario. */
+  metrics: { policy: string; scenario: string; metrics: ReplayMetrics }[];
+  /** The pooled table in Markdown, then a per-scenario table. */
+  markdown: string;
+  /** `{ suite, rows, perScenario }` as JSON text. */
+  json: string;
+}
+
+/**
+ * Replays every policy over every scenario of a suite and tabulates the
+ * metrics of {@link evaluate}, one row per policy (counts summed; the false
+ * alarm rate and ARL pooled over the in-control samples, with the exact
+ * Poisson interval of Garwood, 1936; delays over all detected events; areas
+ * averaged over scenarios), plus one row per policy and scenario.
+ * @example
+ * const table = compare(
+ *   [{ name: "frozen only", create: () => frozenPipeline() }, { name: "gated", create: () => gatedPipeline() }],
+ *   [{ name: "clog", stream: () => clogScores, labels: { events: [{ cause: "anomaly", start: 500, end: 560 }] } }],
+ * );
+ * table.markdown; // "| policy | scenarios | events | ... |"
+ */
+export function compare<S>(policies: readonly PolicyUnderTest<S>[], suite: readonly SuiteScenario<S>[], options?: EvaluateOptions): Comparison {
+  const opts = optionsObject<EvaluateOptions>("compare", options, EVALUATE_OPTIONS);
+  const { level } = checkEvaluateOptions("compare", opts);
+  checkNamed("compare", "policies", policies);
+  checkNamed("compare", "suite", suite);
+  const metrics: Comparison["metrics"] = [];
+  const rows: ComparisonRow[] = [];
+  const perScenario: ComparisonRow[] = [];
+  for (const policy of policies) {
+    const own: { scenario: string; metrics: ReplayMetrics }[] = [];
+    for (const scenario of suite) {
+      const result = replay(policy.create(scenario), scenario.stream(), scenario.labels, { ...opts, keepDecisions: false });
+      own.push({ scenario: scenario.name, metrics: result.metrics });
+      metrics.push({ policy: policy.name, scenario: scenario.name, metrics: result.metrics });
+      perScenario.push(comparisonRow(policy.name, [{ scenario: scenario.name, metrics: result.metrics }], level));
+    }
+    rows.push(comparisonRow(policy.name, own, level));
+  }
+  const json = JSON.stringify({ suite: suite.map((s) => s.name), rows, perScenario }, null, 2);
+  return { rows, perScenario, metrics, markdown: comparisonMarkdown(rows, perScenario), json };
+}
+
+/** Pools the metrics of several scenarios into one {@link ComparisonRow}. */
+export function comparisonRow(policy: string, runs: readonly { scenario: string; metrics: ReplayMetrics }[], level = 0.95): ComparisonRow {
+  const sum = (f: (m: ReplayMetrics) => number): number => runs.reduce((s, r) => s + f(r.metrics), 0);
+  const delays = runs.flatMap((r) => r.metrics.perEvent.map((e) => e.delay).filter((d): d is number => d !== null)).sort((a, b) => a - b);
+  const falseAlarms = sum((m) => m.falseAlarms);
+  const exposure = sum((m) => m.runLengths.exposure);
+  const counts = poissonInterval(falseAlarms, level);
+  const retrainsByTruth: Record<ResponseClass, number> = { "concept-drift": 0, degradation: 0, anomaly: 0, none: 0 };
+  for (const r of runs) for (const key of Object.keys(retrainsByTruth) as ResponseClass[]) retrainsByTruth[key] += r.metrics.retrains.byTruth[key];
+  const areas = runs.map((r) => r.metrics.scores?.reference ?? r.metrics.scores?.live ?? null).filter((a) => a !== null);
+  const mid = delays.length >> 1;
+  return {
+    policy,
+    scenarios: runs.map((r) => r.scenario),
+    samples: sum((m) => m.samples),
+    events: sum((m) => m.events),
+    detected: sum((m) => m.detected),
+    correctCause: sum((m) => m.correctCause),
+    missed: sum((m) => m.missed),
+    meanDelay: delays.length > 0 ? delays.reduce((s, d) => s + d, 0) / delays.length : null,
+    medianDelay: delays.length === 0 ? null : delays.length % 2 === 1 ? (delays[mid] as number) : 0.5 * ((delays[mid - 1] as number) + (delays[mid] as number)),
+    falseAlarms,
+    exposure,
+    falseAlarmsPer10k: exposure > 0 ? (1e4 * falseAlarms) / exposure : null,
+    arl: falseAlarms > 0 ? exposure / falseAlarms : null,
+    arlLower: exposure / counts.upper,
+    arlUpper: counts.lower > 0 ? exposure / counts.lower : null,
+    retrains: sum((m) => m.retrains.count),
+    retrainsByTruth,
+    modeSwitches: sum((m) => m.modeSwitches.count),
+    learnedDuringFaults: sum((m) => m.learnedDuring.degradation + m.learnedDuring.anomaly),
+    rocAuc: areas.length > 0 ? areas.reduce((s, a) => s + a.rocAuc, 0) / areas.length : null,
+    prAuc: areas.length > 0 ? areas.reduce((s, a) => s + a.prAuc, 0) / areas.length : null,
+  };
+}
+
+function checkNamed(component: string, option: string, items: unknown): void {
+  if (!Array.isArray(items) || items.length === 0) throw new OptionError(component, option, items, "a non-empty array");
+  const seen = new Set<string>();
+  items.forEach((item: unknown, i) => {
+    const name = (item as { name?: unknown } | null)?.name;
+    if (typeof name !== "string" || name.length === 0) throw new OptionError(component, `${option}[${i}].name`, name, "a non-empty string");
+    if (seen.has(name)) throw new OptionError(component, `${option}[${i}].name`, name, "a name not used by another entry");
+    seen.add(name);
+  });
+}
