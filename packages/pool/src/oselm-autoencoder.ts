@@ -1,0 +1,678 @@
+import {
+  DimensionError,
+  OptionError,
+  StateError,
+  SnapshotError,
+  checkedSize,
+  envelope,
+  integerInRange,
+  nonFiniteOption,
+  numberInRange,
+  oneOf,
+  openSnapshot,
+  optionsObject,
+  positiveInteger,
+  positiveNumber,
+  seedOption,
+  toPlainArray,
+  MAX_SNAPSHOT_ELEMENTS,
+  type NonFinitePolicy,
+  type Snapshot,
+} from "@leeway/core";
+import { CholeskyDecomposition, Matrix } from "ml-matrix";
+import { ACTIVATIONS, type Activation } from "./activation.js";
+import { hiddenForward, outputResidual } from "./forward.js";
+import { drawHiddenLayer, type HiddenLayer } from "./hidden-layer.js";
+import { scaleInto, scalingOption, standardizeFrom, type Scaling, type ScalingOption } from "./scaling.js";
+import { shermanMorrisonStep, UpdateWorkspace, type Refusal } from "./sherman-morrison.js";
+import { allocate, bytesPerElement, DTYPES, type Dtype, type Vector } from "./vector.js";
+import { woodburyChunk } from "./woodbury.js";
+
+const COMPONENT = "OselmAutoencoder";
+/** Largest accepted number of inputs n. */
+export const MAX_INPUTS = 2 ** 20;
+/** Largest accepted number of hidden units L (L² must fit a snapshot array). */
+export const MAX_HIDDEN = 4096;
+const LAYER = Symbol("hidden layer");
+const REFUSALS = ["hPh-not-positive", "gain-not-finite", "p-overflow"] as const;
+
+/** Options of {@link OselmAutoencoder}. */
+export interface OselmAutoencoderOptions {
+  /** n, the length of every input vector (for example 256 spectrum bins). */
+  inputs: number;
+  /** L, the number of hidden units (for example 32). */
+  hidden: number;
+  /** Seed of the random hidden layer (a finite number or a non-empty string). */
+  seed: number | string;
+  /** g of the hidden layer; default "sigmoid". */
+  activation?: Activation;
+  /** Ridge δ = 1/C added to the Gram matrix: P = (HᵀH + δI)⁻¹; default 0.01. */
+  ridge?: number;
+  /** Forgetting factor λ in (0, 1]; 1 (default) weighs every sample equally, λ < 1 weighs a sample learnt m steps ago by λ^m (memory ≈ 1/(1 − λ) samples). */
+  forgetting?: number;
+  /** Bound on trace(P) enforced by variable forgetting when λ < 1; default L/δ, the trace of the prior P = I/δ. */
+  traceBound?: number;
+  /** Element type of β and P (and of the hidden weights); default "float64". */
+  dtype?: Dtype;
+  /** Input scaling; default "none". */
+  scaling?: ScalingOption;
+  /** "refuse" (default) or "skip" non-finite samples in learn, learnChunk and fit; score always refuses them. */
+  nonFinite?: NonFinitePolicy;
+}
+
+/** What {@link OselmAutoencoder.health} reports. */
+export interface AutoencoderHealth {
+  /** Rows learnt (fit rows plus sequential updates). */
+  count: number;
+  /** Non-finite samples skipped under nonFinite: "skip". */
+  skipped: number;
+  /** Updates refused with E_STATE (the state stayed as it was). */
+  refused: number;
+  /** Why the last refused update was refused, or null. */
+  lastRefusal: string | null;
+  /** Updates whose forgetting factor was raised to hold trace(P) at its bound. */
+  windupLimited: number;
+  /** trace(P) now, and its bound. */
+  trace: number;
+  traceBound: number;
+  /** Smallest diagonal entry of P (must be > 0). */
+  minDiagonal: number;
+  /** Largest |P_ij − P_ji| (0 by construction). */
+  maxAsymmetry: number;
+  /** Every entry of β and P is finite. */
+  finite: boolean;
+  /** finite, symmetric, positive diagonal and trace within its bound (when λ < 1). */
+  ok: boolean;
+}
+
+/** The plain state in a snapshot of {@link OselmAutoencoder}. */
+export interface OselmAutoencoderState {
+  inputs: number;
+  hidden: number;
+  activation: Activation;
+  ridge: number;
+  forgetting: number;
+  traceBound: number;
+  dtype: Dtype;
+  nonFinite: NonFinitePolicy;
+  seed: string;
+  hiddenChecksum: number;
+  scaling: Scaling["mode"];
+  offset: number[] | null;
+  scale: number[] | null;
+  fitted: boolean;
+  count: number;
+  skipped: number;
+  refused: number;
+  windupLimited: number;
+  lastRefusal: string | null;
+  /** β, L × n row-major. */
+  beta: number[];
+  /** The upper triangle of P, row by row (L(L+1)/2 numbers). */
+  p: number[];
+}
+
+interface InternalOptions extends OselmAutoencoderOptions {
+  [LAYER]?: HiddenLayer;
+}
+
+/**
+ * An autoencoder that learns one sample at a time: a random hidden layer
+ * h = g(W·z + b) and output weights β (L × n) fitted by regularized recursive
+ * least squares so that βᵀh reconstructs z. Method: OS-ELM (Liang, Huang,
+ * Saratchandran & Sundararajan, 2006, IEEE TNN 17(6)) with the regularized start
+ * P₀ = (H₀ᵀH₀ + δI)⁻¹ (Huynh & Won, 2011), the batch-one Sherman–Morrison update,
+ * the chunk Woodbury update, exponential forgetting (Haykin, Adaptive Filter
+ * Theory, RLS) and a bounded-trace variable forgetting factor against covariance
+ * wind-up (Goodwin & Sin, 1984). The score is the mean squared reconstruction
+ * error in scaled units.
+ * @example
+ * const model = new OselmAutoencoder({ inputs: 4, hidden: 8, activation: "identity", ridge: 1e-9, seed: 1 });
+ * model.learn(Float64Array.of(1, 2, 3, 4));
+ * model.score(Float64Array.of(-2, 0.5, 7, 1)) < 1e-6; // true: linear, L ≥ n
+ */
+export class OselmAutoencoder {
+  static readonly kind = "leeway.pool.oselm-autoencoder";
+  static readonly version = 1;
+
+  readonly #n: number;
+  readonly #L: number;
+  readonly #activation: Activation;
+  readonly #ridge: number; // δ = 1/C
+  readonly #forgetting: number; // λ
+  readonly #traceBound: number;
+  readonly #dtype: Dtype;
+  readonly #nonFinite: NonFinitePolicy;
+  readonly #seed: string;
+  readonly #layer: HiddenLayer;
+  #scaling: Scaling;
+  #fitted: boolean;
+  #beta: Vector;
+  #p: Vector;
+  #count = 0;
+  #skipped = 0;
+  #refused = 0;
+  #windupLimited = 0;
+  #lastRefusal: string | null = null;
+  #scored = false;
+  readonly #z: Float64Array;
+  readonly #h: Float64Array;
+  readonly #e: Float64Array;
+  readonly #ws: UpdateWorkspace;
+
+  constructor(options: OselmAutoencoderOptions) {
+    const o = optionsObject<InternalOptions>(COMPONENT, options, [
+      "inputs", "hidden", "seed", "activation", "ridge", "forgetting", "traceBound", "dtype", "scaling", "nonFinite",
+    ]);
+    if (o.inputs === undefined) throw new OptionError(COMPONENT, "inputs", undefined, `an integer in [1, ${MAX_INPUTS}]`);
+    this.#n = positiveInteger(COMPONENT, "inputs", o.inputs, MAX_INPUTS);
+    this.#L = integerInRange(COMPONENT, "hidden", o.hidden, 1, MAX_HIDDEN);
+    if (this.#n * this.#L > MAX_SNAPSHOT_ELEMENTS) {
+      throw new OptionError(COMPONENT, "hidden", o.hidden, `at most ${Math.floor(MAX_SNAPSHOT_ELEMENTS / this.#n)} for ${this.#n} inputs (L·n ≤ ${MAX_SNAPSHOT_ELEMENTS})`);
+    }
+    this.#seed = String(seedOption(COMPONENT, "seed", o.seed));
+    this.#activation = o.activation === undefined ? "sigmoid" : oneOf(COMPONENT, "activation", o.activation, ACTIVATIONS);
+    this.#ridge = o.ridge === undefined ? 0.01 : positiveNumber(COMPONENT, "ridge", o.ridge);
+    this.#forgetting = o.forgetting === undefined ? 1 : numberInRange(COMPONENT, "forgetting", o.forgetting, { min: 0, max: 1, minExclusive: true });
+    this.#traceBound = o.traceBound === undefined ? this.#L / this.#ridge : positiveNumber(COMPONENT, "traceBound", o.traceBound);
+    if (!(this.#traceBound < Infinity)) throw new OptionError(COMPONENT, "traceBound", o.traceBound, "a finite number > 0 (L/ridge is too large)");
+    this.#dtype = o.dtype === undefined ? "float64" : oneOf(COMPONENT, "dtype", o.dtype, DTYPES);
+    this.#nonFinite = nonFiniteOption(COMPONENT, o.nonFinite);
+    this.#scaling = scalingOption(COMPONENT, o.scaling, this.#n);
+    this.#fitted = this.#scaling.mode !== "standardize";
+    this.#layer = o[LAYER] ?? drawHiddenLayer(this.#seed, this.#n, this.#L, this.#dtype, this.#activation !== "identity");
+    this.#beta = allocate(this.#dtype, this.#L * this.#n);
+    this.#p = allocate(this.#dtype, this.#L * this.#L);
+    this.#resetPrior();
+    this.#z = new Float64Array(this.#n);
+    this.#h = new Float64Array(this.#L);
+    this.#e = new Float64Array(this.#n);
+    this.#ws = new UpdateWorkspace(this.#L);
+  }
+
+  /** n, the input length. */
+  get inputs(): number {
+    return this.#n;
+  }
+  /** L, the number of hidden units. */
+  get hidden(): number {
+    return this.#L;
+  }
+  /** Element type of the learnable state. */
+  get dtype(): Dtype {
+    return this.#dtype;
+  }
+  /** λ, the forgetting factor. */
+  get forgetting(): number {
+    return this.#forgetting;
+  }
+  /** Rows learnt so far (fit rows plus sequential updates). */
+  get count(): number {
+    return this.#count;
+  }
+  /** Non-finite samples skipped. */
+  get skipped(): number {
+    return this.#skipped;
+  }
+  /** False only for "standardize" scaling before `fit`: nothing can be scored or learnt yet. */
+  get ready(): boolean {
+    return this.#fitted;
+  }
+
+  /**
+   * Batch training by regularized least squares over `rows` (ml-matrix
+   * Cholesky): P = (HᵀH + δI)⁻¹, β = P·HᵀZ, replacing whatever was learnt.
+   * With "standardize" scaling the offsets and scales are learnt from the
+   * same rows first. Returns the number of rows used.
+   */
+  fit(rows: readonly ArrayLike<number>[]): number {
+    if (!Array.isArray(rows) || rows.length === 0) throw new OptionError(COMPONENT, "rows", rows, "a non-empty array of input vectors");
+    const raw: Float64Array[] = [];
+    let skipped = 0;
+    for (let r = 0; r < rows.length; r++) {
+      const copy = new Float64Array(this.#n);
+      if (scaleInto(COMPONENT, `rows[${r}]`, rows[r] as ArrayLike<number>, copy, NO_SCALING, this.#nonFinite === "refuse")) raw.push(copy);
+      else skipped++;
+    }
+    if (raw.length === 0) throw new StateError(COMPONENT, "fit found no finite row to learn from");
+    let scaling = this.#scaling;
+    if (scaling.mode === "standardize") {
+      if (raw.length < 2) throw new StateError(COMPONENT, `"standardize" scaling needs at least 2 finite rows in fit, got ${raw.length}`);
+      scaling = { mode: "standardize", ...standardizeFrom(raw, this.#n) };
+    }
+    const L = this.#L;
+    const n = this.#n;
+    const hRows = new Matrix(raw.length, L);
+    const zRows = new Matrix(raw.length, n);
+    const z = new Float64Array(n);
+    const h = new Float64Array(L);
+    for (let r = 0; r < raw.length; r++) {
+      scaleInto(COMPONENT, "rows", raw[r] as Float64Array, z, scaling, true);
+      hiddenForward(this.#layer, this.#activation, z, h);
+      for (let i = 0; i < L; i++) hRows.set(r, i, h[i] as number);
+      for (let j = 0; j < n; j++) zRows.set(r, j, z[j] as number);
+    }
+    // A = HᵀH + δI, formed symmetric
+    const gram = new Matrix(L, L);
+    for (let i = 0; i < L; i++) {
+      for (let j = i; j < L; j++) {
+        let s = 0;
+        for (let r = 0; r < raw.length; r++) s += hRows.get(r, i) * hRows.get(r, j);
+        if (i === j) s += this.#ridge;
+        gram.set(i, j, s);
+        gram.set(j, i, s);
+      }
+    }
+    const cholesky = new CholeskyDecomposition(gram);
+    if (!cholesky.isPositiveDefinite()) throw new StateError(COMPONENT, "fit: HᵀH + ridge·I is not positive definite in floating point; raise ridge");
+    const p = cholesky.solve(Matrix.eye(L, L));
+    const beta = p.mmul(hRows.transpose().mmul(zRows));
+    const newP = allocate(this.#dtype, L * L);
+    const newBeta = allocate(this.#dtype, L * n);
+    for (let i = 0; i < L; i++) {
+      for (let j = i; j < L; j++) {
+        const v = 0.5 * (p.get(i, j) + p.get(j, i));
+        newP[i * L + j] = v;
+        newP[j * L + i] = v;
+      }
+      for (let j = 0; j < n; j++) newBeta[i * n + j] = beta.get(i, j);
+    }
+    if (!allFinite(newP) || !allFinite(newBeta)) throw new StateError(COMPONENT, "fit produced non-finite output weights; the state was left unchanged");
+    this.#p = newP;
+    this.#beta = newBeta;
+    this.#scaling = scaling;
+    this.#fitted = true;
+    this.#count = raw.length;
+    this.#skipped += skipped;
+    this.#refused = 0;
+    this.#windupLimited = 0;
+    this.#lastRefusal = null;
+    this.#scored = false;
+    return raw.length;
+  }
+
+  /**
+   * Mean squared reconstruction error (1/n)·Σ_j (z_j − (βᵀh)_j)² of one input,
+   * in scaled units. Refuses a wrong length (E_DIMENSION) and non-finite values (E_NON_FINITE).
+   */
+  score(x: ArrayLike<number>): number {
+    this.#requireReady("score");
+    scaleInto(COMPONENT, "x", x, this.#z, this.#scaling, true);
+    hiddenForward(this.#layer, this.#activation, this.#z, this.#h);
+    const loss = outputResidual(this.#beta, this.#h, this.#z, this.#L, this.#n, this.#e);
+    this.#scored = true;
+    return loss;
+  }
+
+  /**
+   * Learns one input by the Sherman–Morrison step and returns its loss before
+   * the update. Returns NaN (and counts it) for a skipped non-finite sample
+   * under nonFinite: "skip". Throws StateError (E_STATE) and keeps the
+   * previous state when the update is numerically unsafe.
+   */
+  learn(x: ArrayLike<number>): number {
+    this.#requireReady("learn");
+    this.#scored = false;
+    if (!scaleInto(COMPONENT, "x", x, this.#z, this.#scaling, this.#nonFinite === "refuse")) {
+      this.#skipped++;
+      return Number.NaN;
+    }
+    hiddenForward(this.#layer, this.#activation, this.#z, this.#h);
+    const loss = outputResidual(this.#beta, this.#h, this.#z, this.#L, this.#n, this.#e);
+    this.#update();
+    return loss;
+  }
+
+  /**
+   * Learns the input most recently passed to {@link score}, reusing its hidden
+   * activations and residual (about half the work of `learn`). Valid only
+   * directly after `score`; anything else in between makes it an E_STATE error.
+   * Returns the loss `score` returned.
+   */
+  learnScored(): number {
+    if (!this.#scored) throw new StateError(COMPONENT, "learnScored needs a score(x) call directly before it");
+    this.#scored = false;
+    let sum = 0;
+    for (let j = 0; j < this.#n; j++) sum += (this.#e[j] as number) ** 2;
+    this.#update();
+    return sum / this.#n;
+  }
+
+  /**
+   * Learns k rows at once by the Woodbury identity (one k × k Cholesky solve);
+   * the result equals k calls of `learn` in order. With λ < 1, when the trace
+   * bound could bind inside the chunk (trace(P)·λ^(−k) above it), the rows are
+   * learnt one by one instead so that the bound is applied exactly as `learn`
+   * does. Returns the number of rows learnt.
+   */
+  learnChunk(rows: readonly ArrayLike<number>[]): number {
+    this.#requireReady("learnChunk");
+    this.#scored = false;
+    if (!Array.isArray(rows)) throw new OptionError(COMPONENT, "rows", rows, "an array of input vectors");
+    const n = this.#n;
+    const L = this.#L;
+    const zRows = new Float64Array(rows.length * n);
+    let k = 0;
+    let skipped = 0;
+    for (let r = 0; r < rows.length; r++) {
+      const z = zRows.subarray(k * n, (k + 1) * n);
+      if (scaleInto(COMPONENT, `rows[${r}]`, rows[r] as ArrayLike<number>, z, this.#scaling, this.#nonFinite === "refuse")) k++;
+      else skipped++;
+    }
+    this.#skipped += skipped;
+    if (k === 0) return 0;
+    if (this.#forgetting < 1 && this.#trace() * Math.pow(this.#forgetting, -k) > this.#traceBound) {
+      for (let r = 0; r < k; r++) {
+        this.#z.set(zRows.subarray(r * n, (r + 1) * n));
+        hiddenForward(this.#layer, this.#activation, this.#z, this.#h);
+        outputResidual(this.#beta, this.#h, this.#z, L, n, this.#e);
+        this.#update();
+      }
+      return k;
+    }
+    const hRows = new Float64Array(k * L);
+    const eRows = new Float64Array(k * n);
+    for (let r = 0; r < k; r++) {
+      const z = zRows.subarray(r * n, (r + 1) * n);
+      const h = hRows.subarray(r * L, (r + 1) * L);
+      hiddenForward(this.#layer, this.#activation, z, h);
+      outputResidual(this.#beta, h, z, L, n, eRows.subarray(r * n, (r + 1) * n));
+    }
+    this.#refuseOn(woodburyChunk(this.#p, this.#beta, hRows, eRows, k, L, n, this.#forgetting));
+    this.#count += k;
+    return k;
+  }
+
+  /**
+   * The reconstruction of x in input units: x̂ = scale ⊙ βᵀh + offset. Writes
+   * into `out` (length n) without allocating when it is given.
+   */
+  reconstruct(x: ArrayLike<number>, out?: Float64Array): Float64Array {
+    if (out !== undefined && (!(out instanceof Float64Array) || out.length !== this.#n)) {
+      throw new DimensionError(COMPONENT, "out", this.#n, out instanceof Float64Array ? out.length : 0);
+    }
+    this.score(x);
+    this.#scored = false;
+    const result = out ?? new Float64Array(this.#n);
+    const { offset, scale } = this.#scaling;
+    for (let j = 0; j < this.#n; j++) {
+      const r = (this.#z[j] as number) - (this.#e[j] as number);
+      result[j] = offset === null || scale === null ? r : r * (scale[j] as number) + (offset[j] as number);
+    }
+    return result;
+  }
+
+  /** The numerical health of the state (O(L² + L·n)); see {@link AutoencoderHealth}. */
+  health(): AutoencoderHealth {
+    const L = this.#L;
+    const p = this.#p;
+    let minDiagonal = Infinity;
+    let maxAsymmetry = 0;
+    for (let i = 0; i < L; i++) {
+      minDiagonal = Math.min(minDiagonal, p[i * L + i] as number);
+      for (let j = i + 1; j < L; j++) maxAsymmetry = Math.max(maxAsymmetry, Math.abs((p[i * L + j] as number) - (p[j * L + i] as number)));
+    }
+    const finite = allFinite(p) && allFinite(this.#beta);
+    const trace = this.#trace();
+    const withinBound = this.#forgetting === 1 || trace <= this.#traceBound * (1 + 1e-9);
+    return {
+      count: this.#count,
+      skipped: this.#skipped,
+      refused: this.#refused,
+      lastRefusal: this.#lastRefusal,
+      windupLimited: this.#windupLimited,
+      trace,
+      traceBound: this.#traceBound,
+      minDiagonal,
+      maxAsymmetry,
+      finite,
+      ok: finite && maxAsymmetry === 0 && minDiagonal > 0 && withinBound,
+    };
+  }
+
+  /** Bytes of learnable state held in memory: (L·n + L²) elements of the dtype, plus 2n float64 for a learnt or given scaling. */
+  stateBytes(): number {
+    return OselmAutoencoder.estimateBytes({ inputs: this.#n, hidden: this.#L, dtype: this.#dtype, scaled: this.#scaling.mode !== "none" });
+  }
+
+  /**
+   * Bytes of learnable state of `members` autoencoders (default 1):
+   * members · ((L·n + L²) · bytes(dtype) + (scaled ? 2n·8 : 0)). The hidden
+   * layer (L·n + L) is not counted: it is drawn again from the seed.
+   * @example
+   * OselmAutoencoder.estimateBytes({ inputs: 256, hidden: 32, members: 4, dtype: "float32" }); // 147456
+   */
+  static estimateBytes(options: { inputs: number; hidden: number; members?: number; dtype?: Dtype; scaled?: boolean }): number {
+    const o = optionsObject<typeof options>("OselmAutoencoder.estimateBytes", options, ["inputs", "hidden", "members", "dtype", "scaled"]);
+    const n = positiveInteger("OselmAutoencoder.estimateBytes", "inputs", o.inputs, MAX_INPUTS);
+    const L = integerInRange("OselmAutoencoder.estimateBytes", "hidden", o.hidden, 1, MAX_HIDDEN);
+    const members = o.members === undefined ? 1 : positiveInteger("OselmAutoencoder.estimateBytes", "members", o.members);
+    const dtype = o.dtype === undefined ? "float64" : oneOf("OselmAutoencoder.estimateBytes", "dtype", o.dtype, DTYPES);
+    const scaled = o.scaled === true;
+    return members * ((L * n + L * L) * bytesPerElement(dtype) + (scaled ? 2 * n * 8 : 0));
+  }
+
+  /** Copies of the hidden weights W (L × n, row-major), biases b and their checksum. */
+  hiddenLayer(): { weights: Float64Array; biases: Float64Array; checksum: number } {
+    return { weights: Float64Array.from(this.#layer.weights), biases: Float64Array.from(this.#layer.biases), checksum: this.#layer.checksum };
+  }
+
+  /** A copy of the output weights β (L × n, row-major). */
+  outputWeights(): Float64Array {
+    return Float64Array.from(this.#beta);
+  }
+
+  /** A copy of P, the inverse of the (weighted, regularized) Gram matrix (L × L, row-major). */
+  inverseGram(): Float64Array {
+    return Float64Array.from(this.#p);
+  }
+
+  /** The scaling in use: its mode and copies of offset and scale (null when none). */
+  scaling(): { mode: Scaling["mode"]; offset: Float64Array | null; scale: Float64Array | null } {
+    const { mode, offset, scale } = this.#scaling;
+    return { mode, offset: offset === null ? null : offset.slice(), scale: scale === null ? null : scale.slice() };
+  }
+
+  /** An independent copy (it shares only the immutable hidden layer). */
+  clone(): OselmAutoencoder {
+    const copy = new OselmAutoencoder(this.#options());
+    copy.#assign(this.#beta.slice(), this.#p.slice(), this.#scaling, this.#fitted);
+    copy.#count = this.#count;
+    copy.#skipped = this.#skipped;
+    copy.#refused = this.#refused;
+    copy.#windupLimited = this.#windupLimited;
+    copy.#lastRefusal = this.#lastRefusal;
+    return copy;
+  }
+
+  /** The whole state as plain data: β, the upper triangle of P, counters, options and the hidden-layer checksum (not the hidden layer). */
+  snapshot(): Snapshot<OselmAutoencoderState> {
+    const L = this.#L;
+    const upper: number[] = [];
+    for (let i = 0; i < L; i++) for (let j = i; j < L; j++) upper.push(this.#p[i * L + j] as number);
+    const { mode, offset, scale } = this.#scaling;
+    return envelope(OselmAutoencoder.kind, OselmAutoencoder.version, {
+      inputs: this.#n,
+      hidden: L,
+      activation: this.#activation,
+      ridge: this.#ridge,
+      forgetting: this.#forgetting,
+      traceBound: this.#traceBound,
+      dtype: this.#dtype,
+      nonFinite: this.#nonFinite,
+      seed: this.#seed,
+      hiddenChecksum: this.#layer.checksum,
+      scaling: mode,
+      offset: offset === null ? null : toPlainArray(offset),
+      scale: scale === null ? null : toPlainArray(scale),
+      fitted: this.#fitted,
+      count: this.#count,
+      skipped: this.#skipped,
+      refused: this.#refused,
+      windupLimited: this.#windupLimited,
+      lastRefusal: this.#lastRefusal,
+      beta: toPlainArray(this.#beta),
+      p: upper,
+    });
+  }
+
+  /**
+   * Rebuilds a model from {@link snapshot}: every size is checked before
+   * anything is allocated, the hidden layer is drawn again from the seed and
+   * must match the stored checksum; the copy continues bit for bit.
+   */
+  static restore(snapshot: unknown): OselmAutoencoder {
+    const kind = OselmAutoencoder.kind;
+    const s = openSnapshot(snapshot, kind, OselmAutoencoder.version);
+    const n = s.integer("inputs", 1, MAX_INPUTS);
+    const L = s.integer("hidden", 1, MAX_HIDDEN);
+    checkedSize(kind, "state.beta", [L, n]);
+    const activation = s.oneOf("activation", ACTIVATIONS);
+    const ridge = s.number("ridge");
+    if (!(ridge > 0)) s.fail("ridge", `must be > 0, got ${ridge}`);
+    const forgetting = s.number("forgetting");
+    if (!(forgetting > 0 && forgetting <= 1)) s.fail("forgetting", `must be in (0, 1], got ${forgetting}`);
+    const traceBound = s.number("traceBound");
+    if (!(traceBound > 0)) s.fail("traceBound", `must be > 0, got ${traceBound}`);
+    const dtype = s.oneOf("dtype", DTYPES);
+    const nonFinite = s.oneOf("nonFinite", ["refuse", "skip"] as const);
+    const seed = s.string("seed");
+    if (seed.length === 0) s.fail("seed", "must be a non-empty string");
+    const checksum = s.integer("hiddenChecksum", 0, 2 ** 32 - 1);
+    const mode = s.oneOf("scaling", ["none", "standardize", "given"] as const);
+    const fitted = s.boolean("fitted");
+    if (mode !== "standardize" && !fitted) s.fail("fitted", `must be true for scaling ${JSON.stringify(mode)}`);
+    const hasScaling = mode === "given" || (mode === "standardize" && fitted);
+    let offset: Float64Array | null = null;
+    let scale: Float64Array | null = null;
+    if (hasScaling) {
+      offset = s.numbers("offset", n);
+      scale = s.numbers("scale", n);
+      for (let j = 0; j < n; j++) if (!((scale[j] as number) > 0)) s.fail(`scale[${j}]`, "must be > 0");
+    } else {
+      if (s.raw("offset") !== null) s.fail("offset", `must be null for scaling ${JSON.stringify(mode)}${mode === "standardize" ? " before fit" : ""}`);
+      if (s.raw("scale") !== null) s.fail("scale", `must be null for scaling ${JSON.stringify(mode)}${mode === "standardize" ? " before fit" : ""}`);
+    }
+    const count = s.integer("count", 0, Number.MAX_SAFE_INTEGER);
+    const skipped = s.integer("skipped", 0, Number.MAX_SAFE_INTEGER);
+    const refused = s.integer("refused", 0, Number.MAX_SAFE_INTEGER);
+    const windupLimited = s.integer("windupLimited", 0, Number.MAX_SAFE_INTEGER);
+    const lastRefusal = s.stringOrNull("lastRefusal");
+    if (lastRefusal !== null && !(REFUSALS as readonly string[]).includes(lastRefusal)) s.fail("lastRefusal", `must be null or one of ${REFUSALS.join(", ")}`);
+    const betaValues = s.numbers("beta", L * n);
+    const upper = s.numbers("p", (L * (L + 1)) / 2);
+    const beta = allocate(dtype, L * n);
+    const p = allocate(dtype, L * L);
+    storeExactly(s.fail.bind(s), "beta", betaValues, beta);
+    let t = 0;
+    for (let i = 0; i < L; i++) {
+      for (let j = i; j < L; j++) {
+        const v = upper[t] as number;
+        if (i === j && !(v > 0)) s.fail(`p[${t}]`, `is a diagonal entry of P and must be > 0, got ${v}`);
+        if (dtype === "float32" && Math.fround(v) !== v) s.fail(`p[${t}]`, `is not a float32 value: ${v}`);
+        p[i * L + j] = v;
+        p[j * L + i] = v;
+        t++;
+      }
+    }
+    const layer = drawHiddenLayer(seed, n, L, dtype, activation !== "identity");
+    if (layer.checksum !== checksum) {
+      throw new SnapshotError(kind, "state.hiddenChecksum", `is ${checksum}, but the hidden layer drawn from seed ${JSON.stringify(seed)} has checksum ${layer.checksum}`);
+    }
+    const options: InternalOptions = { inputs: n, hidden: L, seed, activation, ridge, forgetting, traceBound, dtype, nonFinite, [LAYER]: layer };
+    let model: OselmAutoencoder;
+    try {
+      model = new OselmAutoencoder(options);
+    } catch (error) {
+      throw new SnapshotError(kind, "state", `holds options the model refuses: ${(error as Error).message}`);
+    }
+    model.#assign(beta, p, { mode, offset, scale }, fitted);
+    model.#count = count;
+    model.#skipped = skipped;
+    model.#refused = refused;
+    model.#windupLimited = windupLimited;
+    model.#lastRefusal = lastRefusal;
+    return model;
+  }
+
+  #options(): InternalOptions {
+    return {
+      inputs: this.#n,
+      hidden: this.#L,
+      seed: this.#seed,
+      activation: this.#activation,
+      ridge: this.#ridge,
+      forgetting: this.#forgetting,
+      traceBound: this.#traceBound,
+      dtype: this.#dtype,
+      nonFinite: this.#nonFinite,
+      [LAYER]: this.#layer,
+    };
+  }
+
+  #assign(beta: Vector, p: Vector, scaling: Scaling, fitted: boolean): void {
+    this.#beta = beta;
+    this.#p = p;
+    this.#scaling = {
+      mode: scaling.mode,
+      offset: scaling.offset === null ? null : scaling.offset.slice(),
+      scale: scaling.scale === null ? null : scaling.scale.slice(),
+    };
+    this.#fitted = fitted;
+  }
+
+  /** P = I/δ, β = 0: the start with no batch. */
+  #resetPrior(): void {
+    const L = this.#L;
+    this.#p.fill(0);
+    for (let i = 0; i < L; i++) this.#p[i * L + i] = 1 / this.#ridge;
+    this.#beta.fill(0);
+  }
+
+  #trace(): number {
+    let trace = 0;
+    for (let i = 0; i < this.#L; i++) trace += this.#p[i * this.#L + i] as number;
+    return trace;
+  }
+
+  /** The Sherman–Morrison step from the buffers h and e. */
+  #update(): void {
+    const refusal = shermanMorrisonStep(this.#p, this.#beta, this.#h, this.#e, this.#L, this.#n, this.#forgetting, this.#traceBound, this.#ws);
+    this.#refuseOn(refusal);
+    if (this.#ws.appliedForgetting > this.#forgetting) this.#windupLimited++;
+    this.#count++;
+  }
+
+  #refuseOn(refusal: Refusal): void {
+    if (refusal === null) return;
+    this.#refused++;
+    this.#lastRefusal = refusal;
+    const why = {
+      "hPh-not-positive": "hᵀPh is not a finite positive number (P has lost positive definiteness or h is not finite)",
+      "gain-not-finite": "the gain or the residual is non-finite or absurdly large",
+      "p-overflow": "an entry of P would overflow",
+    }[refusal];
+    throw new StateError(COMPONENT, `update refused: ${why}; the state is unchanged`);
+  }
+
+  #requireReady(operation: string): void {
+    if (!this.#fitted) throw new StateError(COMPONENT, `${operation} needs fit(rows) first: "standardize" scaling is learnt from the rows given to fit`);
+  }
+}
+
+const NO_SCALING: Scaling = { mode: "none", offset: null, scale: null };
+
+function allFinite(values: Vector): boolean {
+  let check = 0;
+  for (let i = 0; i < values.length; i++) check += (values[i] as number) * 0;
+  return check === 0;
+}
+
+function storeExactly(fail: (name: string, problem: string) => never, name: string, values: Float64Array, into: Vector): void {
+  for (let i = 0; i < values.length; i++) {
+    const v = values[i] as number;
+    into[i] = v;
+    if (into[i] !== v) fail(`${name}[${i}]`, `is not a value of the snapshot's dtype: ${v}`);
+  }
+}
+

@@ -1,0 +1,113 @@
+import type { Vector } from "./vector.js";
+
+/** An increment larger than this (|k_i|·|e_j| summed) is refused as absurd. */
+export const MAX_INCREMENT = 1e150;
+/** A state entry that could pass this is refused before it is written. */
+export const MAX_STATE = 1e300;
+
+/** Why an update was refused (null: it was applied). */
+export type Refusal = null | "hPh-not-positive" | "gain-not-finite" | "p-overflow";
+
+/** Scratch vectors and the outcome of the last update. */
+export class UpdateWorkspace {
+  /** u = P·h */
+  readonly u: Float64Array;
+  /** k = u / (λ + hᵀPh), the gain */
+  readonly k: Float64Array;
+  /** The forgetting factor actually applied by the last update. */
+  appliedForgetting = 1;
+  constructor(hidden: number) {
+    this.u = new Float64Array(hidden);
+    this.k = new Float64Array(hidden);
+  }
+}
+
+/**
+ * Forgetting factor that keeps trace(P) at most `bound` (bounded-trace
+ * variable forgetting; Goodwin & Sin 1984, Adaptive Filtering Prediction and
+ * Control, constant-trace algorithm; Åström & Wittenmark, Adaptive Control —
+ * both from memory). With a = tr P, b = ‖Ph‖², c = hᵀPh the next trace is
+ * t(λ) = (a − b/(λ + c))/λ; if t(λ) > bound, λ* solves
+ * bound·λ² + (bound·c − a)·λ + (b − a·c) = 0 and the factor is min(1, max(λ, λ*)).
+ */
+export function boundedForgetting(lambda: number, a: number, b: number, c: number, bound: number): number {
+  if ((a - b / (lambda + c)) / lambda <= bound) return lambda;
+  const p = bound * c - a;
+  const q = Math.max(0, a * c - b);
+  const root = (-p + Math.sqrt(p * p + 4 * bound * q)) / (2 * bound);
+  return Math.min(1, Math.max(lambda, root));
+}
+
+/**
+ * One OS-ELM step for one row h and its residual e = t − βᵀh, by the
+ * Sherman–Morrison formula with exponential forgetting λ (Liang et al. 2006;
+ * Haykin, Adaptive Filter Theory, RLS — both from memory):
+ *   u = P h,  c = hᵀu,  k = u / (λ + c)
+ *   β ← β + k eᵀ
+ *   P ← (P − u kᵀ) / λ
+ * Only multiplications, additions and one division; P is written from its upper
+ * triangle and mirrored, so it stays exactly symmetric. Nothing is written
+ * unless c is a finite positive number, the gain and residual are finite and
+ * bounded, and no entry of P could overflow; the refusal is returned instead.
+ */
+export function shermanMorrisonStep(
+  p: Vector,
+  beta: Vector,
+  h: Float64Array,
+  e: Float64Array,
+  L: number,
+  n: number,
+  lambda: number,
+  traceBound: number,
+  ws: UpdateWorkspace,
+): Refusal {
+  const u = ws.u;
+  const k = ws.k;
+  let c = 0; // hᵀPh
+  let uu = 0; // ‖Ph‖²
+  let trace = 0;
+  for (let i = 0; i < L; i++) {
+    const row = i * L;
+    let s = 0;
+    for (let j = 0; j < L; j++) s += (p[row + j] as number) * (h[j] as number);
+    u[i] = s;
+    c += (h[i] as number) * s;
+    uu += s * s;
+    trace += p[row + i] as number;
+  }
+  if (!(c > 0 && c < Infinity)) return "hPh-not-positive";
+  const applied = lambda < 1 ? boundedForgetting(lambda, trace, uu, c, traceBound) : 1;
+  const inverse = 1 / (applied + c);
+  let kSum = 0;
+  let uMax = 0;
+  for (let i = 0; i < L; i++) {
+    const ui = u[i] as number;
+    const ki = ui * inverse;
+    k[i] = ki;
+    kSum += Math.abs(ki);
+    uMax += Math.abs(ui);
+  }
+  let eSum = 0;
+  for (let j = 0; j < n; j++) eSum += Math.abs(e[j] as number);
+  if (!(kSum * eSum <= MAX_INCREMENT)) return "gain-not-finite";
+  const scale = 1 / applied;
+  if (!((trace + uMax * kSum) * scale <= MAX_STATE)) return "p-overflow";
+  ws.appliedForgetting = applied;
+  // β ← β + k eᵀ
+  for (let i = 0; i < L; i++) {
+    const ki = k[i] as number;
+    const row = i * n;
+    for (let j = 0; j < n; j++) beta[row + j] = (beta[row + j] as number) + ki * (e[j] as number);
+  }
+  // P ← (P − u kᵀ)/λ, upper triangle mirrored
+  for (let i = 0; i < L; i++) {
+    const ui = u[i] as number;
+    const row = i * L;
+    for (let j = i; j < L; j++) {
+      const v = ((p[row + j] as number) - ui * (k[j] as number)) * scale;
+      p[row + j] = v;
+      p[j * L + i] = v;
+    }
+  }
+  return null;
+}
