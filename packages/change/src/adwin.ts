@@ -1,0 +1,442 @@
+import {
+  envelope,
+  integerInRange,
+  nonFiniteOption,
+  NonFiniteError,
+  numberInRange,
+  oneOf,
+  openSnapshot,
+  optionsObject,
+  positiveInteger,
+  positiveNumber,
+  type NonFinitePolicy,
+  type Snapshot,
+} from "@leeway/core";
+import type { ChangeDirection, ChangeReading, ChangeTest } from "./change-test.js";
+import { scanStart, warningFractionOption } from "./options.js";
+import { buildFromSnapshot } from "./restore-support.js";
+
+/** Which bound ε_cut an {@link Adwin} uses. */
+export type AdwinBound = "variance" | "hoeffding";
+
+/** Options of {@link Adwin}. */
+export interface AdwinOptions {
+  /** Confidence δ in (0, 1) (default 0.002): the chance of a false cut per check is at most δ. */
+  delta?: number;
+  /** Buckets per level M of the exponential histogram (default 5; memory and resolution grow with it). */
+  buckets?: number;
+  /** Test the cuts every this many samples (default 32). */
+  checkPeriod?: number;
+  /** Smallest sub-window on either side of a cut, in samples (default 5). */
+  minSubWindow?: number;
+  /** `"variance"` (default: the Bernstein-type bound used in practice) or `"hoeffding"` (for values in [0, 1]). */
+  bound?: AdwinBound;
+  /** Scale of ε_cut: cut when |μ̂₀ − μ̂₁| ≥ threshold·ε_cut (default 1, the published test; calibrate it for a target ARL0). */
+  threshold?: number;
+  /** `"warning"` once the statistic passes this fraction of the threshold (default 0.5). */
+  warningFraction?: number;
+  /** `"refuse"` (default) or `"skip"` non-finite samples. */
+  nonFinite?: NonFinitePolicy;
+}
+
+/** The reading of an {@link Adwin}: a {@link ChangeReading} with the window's width and mean. */
+export interface AdwinReading extends ChangeReading {
+  /** Samples in the adaptive window. */
+  width: number;
+  /** Mean of the window (0 when empty). */
+  mean: number;
+}
+
+/** Plain state of an {@link Adwin} snapshot. */
+export interface AdwinState {
+  delta: number;
+  buckets: number;
+  checkPeriod: number;
+  minSubWindow: number;
+  bound: AdwinBound;
+  threshold: number;
+  warningFraction: number;
+  nonFinite: NonFinitePolicy;
+  levelCounts: number[];
+  bucketTotals: number[];
+  bucketM2: number[];
+  width: number;
+  total: number;
+  m2: number;
+  sinceCheck: number;
+  statistic: number;
+  count: number;
+  skipped: number;
+}
+
+const NAME = "Adwin";
+const KNOWN = ["delta", "buckets", "checkPeriod", "minSubWindow", "bound", "threshold", "warningFraction", "nonFinite"] as const;
+/** Levels of the exponential histogram: bucket sizes 1, 2, 4, … 2^(MAX_LEVELS − 1). */
+const MAX_LEVELS = 52;
+
+/**
+ * ADWIN, the adaptive-window change test of Bifet & Gavaldà (2007), with its exponential histogram
+ * (ADWIN2: M buckets of each size 2^l, memory O(M·log(W/M))). The window W holds the latest samples;
+ * every `checkPeriod` samples each bucket boundary splits it into an older W₀ and a newer W₁ (n₀, n₁
+ * samples, both ≥ `minSubWindow`), and the oldest bucket is dropped while some split has
+ * |μ̂₀ − μ̂₁| ≥ ε_cut, with 1/m = 1/n₀ + 1/n₁, δ′ = δ/n and σ²_W the window's variance:
+ *
+ *   variance bound:  ε_cut = √((2/m)·σ²_W·ln(2/δ′)) + (2/(3m))·ln(2/δ′)
+ *   Hoeffding bound: ε_cut = √((1/(2m))·ln(4/δ′))
+ *
+ * A sample at which the window is cut reads `"change"`; the onset is the first sample of the kept window
+ * and the direction says whether the newer part is higher. The statistic is the largest |μ̂₀ − μ̂₁|/ε_cut
+ * of the latest check (threshold 1 unless scaled). ADWIN re-arms itself by cutting; `restart()` empties
+ * the window.
+ * @example
+ * const adwin = new Adwin({ delta: 0.002 });
+ * const xs = new Float64Array(2000).map((_, i) => (i < 1000 ? 0 : 1));
+ * adwin.scan(xs) >= 1000; // true: the first cut comes after the step
+ */
+export class Adwin implements ChangeTest {
+  static readonly kind = "leeway.change.adwin";
+  static readonly version = 1;
+  readonly name = NAME;
+  readonly #delta: number;
+  readonly #m: number; // M, buckets per level
+  readonly #checkPeriod: number;
+  readonly #minSub: number;
+  readonly #bound: AdwinBound;
+  readonly #threshold: number;
+  readonly #warningFraction: number;
+  readonly #nonFinite: NonFinitePolicy;
+  readonly #cap: number; // M + 1 slots per level
+  readonly #totals: Float64Array; // bucket sums, level-major, oldest first within a level
+  readonly #m2s: Float64Array; // bucket sums of squared deviations
+  readonly #levelCounts: Int32Array;
+  #levels = 0; // levels in use
+  #width = 0; // W, samples in the window
+  #total = 0; // Σ of the window
+  #m2 = 0; // Σ (x − μ̂_W)² of the window
+  #sinceCheck = 0;
+  #statistic = 0;
+  #count = 0;
+  #skipped = 0;
+  // outcome of the latest step, read by observe()
+  #cutStatistic = 0;
+  #cutDirection: ChangeDirection = "up";
+
+  constructor(options: AdwinOptions = {}) {
+    const o = optionsObject<AdwinOptions>(NAME, options, KNOWN);
+    this.#delta = o.delta === undefined ? 0.002 : numberInRange(NAME, "delta", o.delta, { min: 0, max: 1, minExclusive: true, maxExclusive: true });
+    this.#m = o.buckets === undefined ? 5 : integerInRange(NAME, "buckets", o.buckets, 2, 1000);
+    this.#checkPeriod = o.checkPeriod === undefined ? 32 : positiveInteger(NAME, "checkPeriod", o.checkPeriod, 2 ** 20);
+    this.#minSub = o.minSubWindow === undefined ? 5 : positiveInteger(NAME, "minSubWindow", o.minSubWindow, 2 ** 30);
+    this.#bound = o.bound === undefined ? "variance" : oneOf(NAME, "bound", o.bound, ["variance", "hoeffding"] as const);
+    this.#threshold = o.threshold === undefined ? 1 : positiveNumber(NAME, "threshold", o.threshold);
+    this.#warningFraction = warningFractionOption(NAME, o.warningFraction);
+    this.#nonFinite = nonFiniteOption(NAME, o.nonFinite);
+    this.#cap = this.#m + 1;
+    this.#totals = new Float64Array(MAX_LEVELS * this.#cap);
+    this.#m2s = new Float64Array(MAX_LEVELS * this.#cap);
+    this.#levelCounts = new Int32Array(MAX_LEVELS);
+  }
+
+  /** The scale of ε_cut (1 for the published test). */
+  get threshold(): number {
+    return this.#threshold;
+  }
+  /** Samples in the adaptive window. */
+  get width(): number {
+    return this.#width;
+  }
+  /** Mean of the window (0 when empty). */
+  get mean(): number {
+    return this.#width > 0 ? this.#total / this.#width : 0;
+  }
+  /** Population variance of the window (0 when empty). */
+  get variance(): number {
+    return this.#width > 0 ? Math.max(0, this.#m2 / this.#width) : 0;
+  }
+  /** Buckets held (memory is proportional to it). */
+  get bucketCount(): number {
+    let n = 0;
+    for (let l = 0; l < this.#levels; l++) n += this.#levelCounts[l] as number;
+    return n;
+  }
+  /** Finite samples taken. */
+  get count(): number {
+    return this.#count;
+  }
+  /** Non-finite samples skipped. */
+  get skipped(): number {
+    return this.#skipped;
+  }
+
+  observe(x: number): AdwinReading {
+    const i = this.#count + this.#skipped;
+    if (!(x - x === 0)) {
+      if (this.#nonFinite === "refuse") throw new NonFiniteError(NAME, "x", x);
+      this.#skipped += 1;
+      return this.#reading(i, false);
+    }
+    return this.#reading(i, this.#step(x));
+  }
+
+  scan(xs: Float64Array, from = 0): number {
+    const n = xs.length;
+    const refuse = this.#nonFinite === "refuse";
+    for (let j = scanStart(NAME, xs, from); j < n; j++) {
+      const x = xs[j] as number;
+      if (!(x - x === 0)) {
+        if (refuse) throw new NonFiniteError(NAME, `xs[${j}]`, x);
+        this.#skipped += 1;
+        continue;
+      }
+      if (this.#step(x)) return j;
+    }
+    return -1;
+  }
+
+  restart(): void {
+    this.#levelCounts.fill(0);
+    this.#levels = 0;
+    this.#width = 0;
+    this.#total = 0;
+    this.#m2 = 0;
+    this.#sinceCheck = 0;
+    this.#statistic = 0;
+  }
+
+  snapshot(): Snapshot<AdwinState> {
+    const levelCounts: number[] = [];
+    const bucketTotals: number[] = [];
+    const bucketM2: number[] = [];
+    for (let l = 0; l < this.#levels; l++) {
+      const c = this.#levelCounts[l] as number;
+      levelCounts.push(c);
+      for (let b = 0; b < c; b++) {
+        bucketTotals.push(this.#totals[l * this.#cap + b] as number);
+        bucketM2.push(this.#m2s[l * this.#cap + b] as number);
+      }
+    }
+    return envelope(Adwin.kind, Adwin.version, {
+      delta: this.#delta,
+      buckets: this.#m,
+      checkPeriod: this.#checkPeriod,
+      minSubWindow: this.#minSub,
+      bound: this.#bound,
+      threshold: this.#threshold,
+      warningFraction: this.#warningFraction,
+      nonFinite: this.#nonFinite,
+      levelCounts,
+      bucketTotals,
+      bucketM2,
+      width: this.#width,
+      total: this.#total,
+      m2: this.#m2,
+      sinceCheck: this.#sinceCheck,
+      statistic: this.#statistic,
+      count: this.#count,
+      skipped: this.#skipped,
+    });
+  }
+
+  /** Rebuilds an Adwin from {@link Adwin.snapshot}; it continues exactly where the original was. */
+  static restore(snapshot: unknown): Adwin {
+    const r = openSnapshot(snapshot, Adwin.kind, Adwin.version);
+    const delta = r.number("delta");
+    const buckets = r.integer("buckets", 2, 1000);
+    const checkPeriod = r.integer("checkPeriod", 1, 2 ** 20);
+    const minSubWindow = r.integer("minSubWindow", 1, 2 ** 30);
+    const bound = r.oneOf("bound", ["variance", "hoeffding"] as const);
+    const threshold = r.number("threshold");
+    const warningFraction = r.number("warningFraction");
+    const nonFinite = r.oneOf("nonFinite", ["refuse", "skip"] as const);
+    const levelCounts = r.integers("levelCounts", { max: MAX_LEVELS }, 0, buckets);
+    const held = levelCounts.reduce((a, b) => a + b, 0);
+    const bucketTotals = r.numbers("bucketTotals", held);
+    const bucketM2 = r.numbers("bucketM2", held);
+    const count = r.integer("count", 0, Number.MAX_SAFE_INTEGER);
+    const skipped = r.integer("skipped", 0, Number.MAX_SAFE_INTEGER);
+    const width = r.integer("width", 0, count);
+    const total = r.number("total");
+    const m2 = r.numberIn("m2", 0, Number.MAX_VALUE);
+    const sinceCheck = r.integer("sinceCheck", 0, checkPeriod - 1);
+    const statistic = r.numberIn("statistic", 0, Number.MAX_VALUE);
+    let implied = 0;
+    levelCounts.forEach((c, l) => (implied += c * 2 ** l));
+    if (implied !== width) r.fail("width", `must equal the samples held in the buckets (${implied}), got ${width}`);
+    if (levelCounts.length > 0 && levelCounts[levelCounts.length - 1] === 0) r.fail("levelCounts", "must not end with an empty level");
+    for (let b = 0; b < held; b++) if ((bucketM2[b] as number) < 0) r.fail(`bucketM2[${b}]`, "must be >= 0");
+    const test = buildFromSnapshot(Adwin.kind, () => new Adwin({ delta, buckets, checkPeriod, minSubWindow, bound, threshold, warningFraction, nonFinite }));
+    let k = 0;
+    levelCounts.forEach((c, l) => {
+      test.#levelCounts[l] = c;
+      for (let b = 0; b < c; b++, k++) {
+        test.#totals[l * test.#cap + b] = bucketTotals[k] as number;
+        test.#m2s[l * test.#cap + b] = bucketM2[k] as number;
+      }
+    });
+    test.#levels = levelCounts.length;
+    test.#width = width;
+    test.#total = total;
+    test.#m2 = m2;
+    test.#sinceCheck = sinceCheck;
+    test.#statistic = statistic;
+    test.#count = count;
+    test.#skipped = skipped;
+    return test;
+  }
+
+  /** Takes one finite sample; returns true when the window was cut at it. */
+  #step(x: number): boolean {
+    this.#count += 1;
+    this.#insert(x);
+    this.#sinceCheck += 1;
+    if (this.#sinceCheck < this.#checkPeriod) return false;
+    this.#sinceCheck = 0;
+    let cut = false;
+    for (;;) {
+      const result = this.#check();
+      if (result === 0) break;
+      if (!cut) {
+        cut = true;
+        this.#cutStatistic = this.#statistic;
+        this.#cutDirection = result > 0 ? "up" : "down";
+      }
+      this.#dropOldest();
+    }
+    return cut;
+  }
+
+  /** Welford update of the window and a new bucket of size 1, then the histogram's merges. */
+  #insert(x: number): void {
+    const w = this.#width;
+    if (w === 0) {
+      this.#total = x;
+      this.#m2 = 0;
+    } else {
+      const oldMean = this.#total / w;
+      this.#total += x;
+      const newMean = this.#total / (w + 1);
+      this.#m2 += (x - oldMean) * (x - newMean);
+    }
+    this.#width = w + 1;
+    const cap = this.#cap;
+    const counts = this.#levelCounts;
+    const totals = this.#totals;
+    const m2s = this.#m2s;
+    let c0 = counts[0] as number;
+    totals[c0] = x;
+    m2s[c0] = 0;
+    counts[0] = ++c0;
+    if (this.#levels === 0) this.#levels = 1;
+    for (let l = 0; (counts[l] as number) > this.#m; l++) {
+      // merge the two oldest buckets of level l (each of n = 2^l samples) into one of level l + 1
+      const base = l * cap;
+      const n = 2 ** l;
+      const t0 = totals[base] as number;
+      const t1 = totals[base + 1] as number;
+      const d = (t0 - t1) / n;
+      const mergedTotal = t0 + t1;
+      const mergedM2 = (m2s[base] as number) + (m2s[base + 1] as number) + (d * d * n) / 2;
+      const c = counts[l] as number;
+      for (let b = 2; b < c; b++) {
+        totals[base + b - 2] = totals[base + b] as number;
+        m2s[base + b - 2] = m2s[base + b] as number;
+      }
+      counts[l] = c - 2;
+      if (l + 1 >= MAX_LEVELS) throw new RangeError("Adwin: window too long for the histogram");
+      const next = (l + 1) * cap;
+      const cn = counts[l + 1] as number;
+      totals[next + cn] = mergedTotal;
+      m2s[next + cn] = mergedM2;
+      counts[l + 1] = cn + 1;
+      if (l + 2 > this.#levels) this.#levels = l + 2;
+    }
+  }
+
+  /** Drops the oldest bucket (index 0 of the highest level) and updates the window's moments. */
+  #dropOldest(): void {
+    const top = this.#levels - 1;
+    const base = top * this.#cap;
+    const nb = 2 ** top;
+    const tb = this.#totals[base] as number;
+    const m2b = this.#m2s[base] as number;
+    const w = this.#width;
+    const rest = w - nb;
+    if (rest === 0) {
+      this.#total = 0;
+      this.#m2 = 0;
+    } else {
+      const meanRest = (this.#total - tb) / rest;
+      const meanB = tb / nb;
+      const d = meanB - meanRest;
+      const m2 = this.#m2 - m2b - (d * d * rest * nb) / w;
+      this.#m2 = m2 > 0 ? m2 : 0;
+      this.#total -= tb;
+    }
+    this.#width = rest;
+    const c = this.#levelCounts[top] as number;
+    for (let b = 1; b < c; b++) {
+      this.#totals[base + b - 1] = this.#totals[base + b] as number;
+      this.#m2s[base + b - 1] = this.#m2s[base + b] as number;
+    }
+    this.#levelCounts[top] = c - 1;
+    while (this.#levels > 0 && this.#levelCounts[this.#levels - 1] === 0) this.#levels -= 1;
+  }
+
+  /**
+   * Tests every bucket boundary; sets the statistic (largest |μ̂₀ − μ̂₁|/ε_cut) and returns +1 or −1
+   * (newer part higher or lower) for the first split that passes the threshold, 0 when none does.
+   */
+  #check(): number {
+    const w = this.#width;
+    const minSub = this.#minSub;
+    this.#statistic = 0;
+    if (w < 2 * minSub) return 0;
+    const total = this.#total;
+    const variance = this.#m2 > 0 ? this.#m2 / w : 0;
+    const hoeffding = this.#bound === "hoeffding";
+    // ln(2/δ′) or ln(4/δ′) with δ′ = δ/W
+    const logTerm = Math.log(((hoeffding ? 4 : 2) * w) / this.#delta);
+    const threshold = this.#threshold;
+    const cap = this.#cap;
+    let best = 0;
+    let n0 = 0;
+    let s0 = 0;
+    for (let l = this.#levels - 1; l >= 0; l--) {
+      const size = 2 ** l;
+      const c = this.#levelCounts[l] as number;
+      for (let b = 0; b < c; b++) {
+        n0 += size;
+        s0 += this.#totals[l * cap + b] as number;
+        const n1 = w - n0;
+        if (n1 < minSub) {
+          this.#statistic = best;
+          return 0;
+        }
+        if (n0 < minSub) continue;
+        const invM = 1 / n0 + 1 / n1; // 1/m
+        const eps = hoeffding
+          ? Math.sqrt(0.5 * invM * logTerm)
+          : Math.sqrt(2 * invM * variance * logTerm) + ((2 / 3) * invM * logTerm);
+        const diff = (total - s0) / n1 - s0 / n0; // μ̂₁ − μ̂₀
+        const ratio = Math.abs(diff) / eps;
+        if (ratio > best) best = ratio;
+        if (ratio >= threshold) {
+          this.#statistic = best;
+          return diff > 0 ? 1 : -1;
+        }
+      }
+    }
+    this.#statistic = best;
+    return 0;
+  }
+
+  #reading(i: number, cut: boolean): AdwinReading {
+    const width = this.#width;
+    const mean = width > 0 ? this.#total / width : 0;
+    if (cut) {
+      return { index: i, status: "change", statistic: this.#cutStatistic, threshold: this.#threshold, direction: this.#cutDirection, onset: i - width + 1, skipped: this.#skipped, width, mean };
+    }
+    const status = this.#statistic > this.#warningFraction * this.#threshold ? "warning" : "stable";
+    return { index: i, status, statistic: this.#statistic, threshold: this.#threshold, skipped: this.#skipped, width, mean };
+  }
+}

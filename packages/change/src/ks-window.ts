@@ -1,0 +1,349 @@
+import {
+  envelope,
+  finiteArray,
+  integerInRange,
+  nonFiniteOption,
+  NonFiniteError,
+  numberInRange,
+  openSnapshot,
+  optionsObject,
+  OptionError,
+  positiveInteger,
+  positiveNumber,
+  type NonFinitePolicy,
+  type Snapshot,
+} from "@leeway/core";
+import { kolmogorovSurvival } from "@leeway/stats";
+import type { ChangeDirection, ChangeReading, ChangeTest } from "./change-test.js";
+import { scanStart, warningFractionOption } from "./options.js";
+import { buildFromSnapshot, definedOnly } from "./restore-support.js";
+
+/** Options of {@link KsWindow}. */
+export interface KsWindowOptions {
+  /** Samples w in the sliding recent window (default 100, at least 8). */
+  window?: number;
+  /** A fixed reference sample; when absent, the first `referenceSize` samples of the stream form it. */
+  reference?: ArrayLike<number>;
+  /** Size of the reference taken from the stream (default: `window`). */
+  referenceSize?: number;
+  /** Alarm when the asymptotic p-value is below α (default 0.001). */
+  alpha?: number;
+  /** Alarm when D passes this critical value instead (> 0; D never exceeds 1); overrides `alpha` (use it to calibrate). */
+  threshold?: number;
+  /** Test every this many samples once both windows are full (default 1). */
+  checkPeriod?: number;
+  /** `"warning"` once D passes this fraction of the critical value (default 0.5). */
+  warningFraction?: number;
+  /** `"refuse"` (default) or `"skip"` non-finite samples. */
+  nonFinite?: NonFinitePolicy;
+}
+
+/** The reading of a {@link KsWindow}: a {@link ChangeReading} (statistic D) with the p-value of the latest test. */
+export interface KsWindowReading extends ChangeReading {
+  /** Asymptotic two-sided p-value Q_KS(√(nw/(n + w))·D), 1 before the first test. */
+  pValue: number;
+}
+
+/** Plain state of a {@link KsWindow} snapshot. */
+export interface KsWindowState {
+  window: number;
+  referenceSize: number;
+  alpha: number;
+  threshold: number;
+  checkPeriod: number;
+  warningFraction: number;
+  nonFinite: NonFinitePolicy;
+  reference: number[];
+  recent: number[];
+  statistic: number;
+  direction: ChangeDirection;
+  sinceCheck: number;
+  count: number;
+  skipped: number;
+}
+
+const NAME = "KsWindow";
+const KNOWN = ["window", "reference", "referenceSize", "alpha", "threshold", "checkPeriod", "warningFraction", "nonFinite"] as const;
+
+/**
+ * A windowed two-sample Kolmogorov-Smirnov test: a reference sample (given, or the first
+ * `referenceSize` samples) against the latest w samples, D = supₓ |F_ref(x) − F_recent(x)|, alarm when the
+ * asymptotic p-value Q_KS(√(nw/(n + w))·D) (Smirnov, 1948) is below α, i.e. when D passes the critical
+ * value D_α = Q_KS⁻¹(α)/√(nw/(n + w)). The statistic is D and the threshold D_α.
+ *
+ * Repeated testing: α is the false-alarm chance of *one* test; testing after every sample, with windows
+ * that overlap, the in-control run length is far shorter than 1/α (and not geometric). Choose the
+ * threshold for a target run length with `calibrateThreshold` rather than from α.
+ * The direction is `"up"` when the recent sample is stochastically larger. The test keeps alarming while
+ * D stays above D_α; `restart()` empties the recent window and keeps the reference.
+ * @example
+ * const ks = new KsWindow({ reference: [0, 1, 2, 3, 4, 5, 6, 7], window: 8, alpha: 0.01 });
+ * ks.scan(new Float64Array([10, 11, 12, 13, 14, 15, 16, 17])); // 7 (D = 1 once the window is full)
+ */
+export class KsWindow implements ChangeTest {
+  static readonly kind = "leeway.change.ks-window";
+  static readonly version = 1;
+  readonly name = NAME;
+  readonly #w: number;
+  readonly #referenceSize: number;
+  readonly #alpha: number;
+  readonly #critical: number; // D_α
+  readonly #checkPeriod: number;
+  readonly #warningFraction: number;
+  readonly #nonFinite: NonFinitePolicy;
+  readonly #reference: Float64Array; // sorted once full
+  #referenceCount = 0;
+  readonly #ring: Float64Array; // recent samples, chronological from #ringStart
+  #ringStart = 0;
+  #recentCount = 0;
+  readonly #sorted: Float64Array; // the recent samples, sorted
+  #statistic = 0;
+  #direction: ChangeDirection = "up";
+  #sinceCheck = 0;
+  #count = 0;
+  #skipped = 0;
+
+  constructor(options: KsWindowOptions = {}) {
+    const o = optionsObject<KsWindowOptions>(NAME, options, KNOWN);
+    this.#w = o.window === undefined ? 100 : integerInRange(NAME, "window", o.window, 8, 2 ** 20);
+    let reference: Float64Array | null = null;
+    if (o.reference !== undefined) {
+      if (o.referenceSize !== undefined) throw new OptionError(NAME, "referenceSize", o.referenceSize, "absent when reference is given");
+      reference = finiteArray(NAME, "reference", o.reference, { atLeast: 8, atMost: 2 ** 22 });
+      this.#referenceSize = reference.length;
+    } else {
+      this.#referenceSize = o.referenceSize === undefined ? this.#w : integerInRange(NAME, "referenceSize", o.referenceSize, 8, 2 ** 22);
+    }
+    this.#alpha = o.alpha === undefined ? 0.001 : numberInRange(NAME, "alpha", o.alpha, { min: 0, max: 1, minExclusive: true, maxExclusive: true });
+    const n = this.#referenceSize;
+    const scale = Math.sqrt((n * this.#w) / (n + this.#w));
+    this.#critical = o.threshold === undefined ? kolmogorovQuantile(this.#alpha) / scale : positiveNumber(NAME, "threshold", o.threshold);
+    this.#checkPeriod = o.checkPeriod === undefined ? 1 : positiveInteger(NAME, "checkPeriod", o.checkPeriod, 2 ** 20);
+    this.#warningFraction = warningFractionOption(NAME, o.warningFraction);
+    this.#nonFinite = nonFiniteOption(NAME, o.nonFinite);
+    this.#reference = new Float64Array(n);
+    if (reference !== null) {
+      this.#reference.set(reference);
+      this.#reference.sort();
+      this.#referenceCount = n;
+    }
+    this.#ring = new Float64Array(this.#w);
+    this.#sorted = new Float64Array(this.#w);
+  }
+
+  /** The critical value D_α. */
+  get threshold(): number {
+    return this.#critical;
+  }
+  /** D of the latest test. */
+  get statistic(): number {
+    return this.#statistic;
+  }
+  /** True once the reference sample is complete. */
+  get hasReference(): boolean {
+    return this.#referenceCount === this.#referenceSize;
+  }
+  /** Finite samples taken. */
+  get count(): number {
+    return this.#count;
+  }
+  /** Non-finite samples skipped. */
+  get skipped(): number {
+    return this.#skipped;
+  }
+
+  observe(x: number): KsWindowReading {
+    const i = this.#count + this.#skipped;
+    if (!(x - x === 0)) {
+      if (this.#nonFinite === "refuse") throw new NonFiniteError(NAME, "x", x);
+      this.#skipped += 1;
+    } else {
+      this.#step(x);
+    }
+    const d = this.#statistic;
+    const n = this.#referenceSize;
+    const status = d > this.#critical ? "change" : d > this.#warningFraction * this.#critical ? "warning" : "stable";
+    const pValue = d > 0 ? kolmogorovSurvival(Math.sqrt((n * this.#w) / (n + this.#w)) * d) : 1;
+    const reading: KsWindowReading = { index: i, status, statistic: d, threshold: this.#critical, skipped: this.#skipped, pValue };
+    if (d > 0) {
+      reading.direction = this.#direction;
+      reading.onset = i - this.#recentCount + 1;
+    }
+    return reading;
+  }
+
+  scan(xs: Float64Array, from = 0): number {
+    const n = xs.length;
+    const refuse = this.#nonFinite === "refuse";
+    for (let j = scanStart(NAME, xs, from); j < n; j++) {
+      const x = xs[j] as number;
+      if (!(x - x === 0)) {
+        if (refuse) throw new NonFiniteError(NAME, `xs[${j}]`, x);
+        this.#skipped += 1;
+        continue;
+      }
+      this.#step(x);
+      if (this.#statistic > this.#critical) return j;
+    }
+    return -1;
+  }
+
+  restart(): void {
+    this.#ringStart = 0;
+    this.#recentCount = 0;
+    this.#statistic = 0;
+    this.#sinceCheck = 0;
+  }
+
+  snapshot(): Snapshot<KsWindowState> {
+    const recent: number[] = [];
+    for (let k = 0; k < this.#recentCount; k++) recent.push(this.#ring[(this.#ringStart + k) % this.#w] as number);
+    return envelope(KsWindow.kind, KsWindow.version, {
+      window: this.#w,
+      referenceSize: this.#referenceSize,
+      alpha: this.#alpha,
+      threshold: this.#critical,
+      checkPeriod: this.#checkPeriod,
+      warningFraction: this.#warningFraction,
+      nonFinite: this.#nonFinite,
+      reference: Array.from(this.#reference.subarray(0, this.#referenceCount)),
+      recent,
+      statistic: this.#statistic,
+      direction: this.#direction,
+      sinceCheck: this.#sinceCheck,
+      count: this.#count,
+      skipped: this.#skipped,
+    });
+  }
+
+  /** Rebuilds a KsWindow from {@link KsWindow.snapshot}; it continues exactly where the original was. */
+  static restore(snapshot: unknown): KsWindow {
+    const r = openSnapshot(snapshot, KsWindow.kind, KsWindow.version);
+    const window = r.integer("window", 8, 2 ** 20);
+    const referenceSize = r.integer("referenceSize", 8, 2 ** 22);
+    const alpha = r.number("alpha");
+    const threshold = r.number("threshold");
+    const checkPeriod = r.integer("checkPeriod", 1, 2 ** 20);
+    const warningFraction = r.number("warningFraction");
+    const nonFinite = r.oneOf("nonFinite", ["refuse", "skip"] as const);
+    const count = r.integer("count", 0, Number.MAX_SAFE_INTEGER);
+    const skipped = r.integer("skipped", 0, Number.MAX_SAFE_INTEGER);
+    const reference = r.numbers("reference", { max: referenceSize });
+    const recent = r.numbers("recent", { max: window });
+    const statistic = r.numberIn("statistic", 0, 1);
+    const direction = r.oneOf("direction", ["up", "down"] as const);
+    const sinceCheck = r.integer("sinceCheck", 0, checkPeriod - 1);
+    if (recent.length > 0 && reference.length < referenceSize) r.fail("recent", "must be empty until the reference is complete");
+    if (reference.length + recent.length > count) r.fail("count", `must be at least the samples held (${reference.length + recent.length}), got ${count}`);
+    for (let k = 1; k < reference.length && reference.length === referenceSize; k++) {
+      if ((reference[k] as number) < (reference[k - 1] as number)) r.fail("reference", "must be sorted once complete");
+    }
+    const test = buildFromSnapshot(KsWindow.kind, () =>
+      new KsWindow(definedOnly<KsWindowOptions>({ window, referenceSize, alpha, threshold, checkPeriod, warningFraction, nonFinite })),
+    );
+    test.#reference.set(reference);
+    test.#referenceCount = reference.length;
+    test.#ring.set(recent);
+    test.#sorted.set(recent);
+    test.#sorted.subarray(0, recent.length).sort();
+    test.#recentCount = recent.length;
+    test.#statistic = statistic;
+    test.#direction = direction;
+    test.#sinceCheck = sinceCheck;
+    test.#count = count;
+    test.#skipped = skipped;
+    return test;
+  }
+
+  #step(x: number): void {
+    this.#count += 1;
+    if (this.#referenceCount < this.#referenceSize) {
+      this.#reference[this.#referenceCount++] = x;
+      if (this.#referenceCount === this.#referenceSize) this.#reference.sort();
+      return;
+    }
+    const w = this.#w;
+    const sorted = this.#sorted;
+    if (this.#recentCount < w) {
+      this.#ring[(this.#ringStart + this.#recentCount) % w] = x;
+      insertSorted(sorted, this.#recentCount, x);
+      this.#recentCount += 1;
+      if (this.#recentCount === w) {
+        // the first test comes as soon as the recent window is full
+        this.#sinceCheck = 0;
+        this.#test();
+      }
+      return;
+    }
+    const old = this.#ring[this.#ringStart] as number;
+    this.#ring[this.#ringStart] = x;
+    this.#ringStart = (this.#ringStart + 1) % w;
+    removeSorted(sorted, w, old);
+    insertSorted(sorted, w - 1, x);
+    this.#sinceCheck += 1;
+    if (this.#sinceCheck < this.#checkPeriod) return;
+    this.#sinceCheck = 0;
+    this.#test();
+  }
+
+  /** D = sup |F_ref − F_recent| by one merge of the two sorted samples (ties stepped together). */
+  #test(): void {
+    const a = this.#reference;
+    const b = this.#sorted;
+    const n = a.length;
+    const m = this.#w;
+    const invN = 1 / n;
+    const invM = 1 / m;
+    let i = 0;
+    let j = 0;
+    let high = 0; // max (F_ref − F_recent): the recent sample sits higher
+    let low = 0; // max (F_recent − F_ref)
+    while (i < n && j < m) {
+      const x = a[i] as number;
+      const y = b[j] as number;
+      const v = x <= y ? x : y;
+      while (i < n && (a[i] as number) === v) i++;
+      while (j < m && (b[j] as number) === v) j++;
+      const gap = i * invN - j * invM;
+      if (gap > high) high = gap;
+      if (-gap > low) low = -gap;
+    }
+    this.#statistic = high >= low ? high : low;
+    this.#direction = high >= low ? "up" : "down";
+  }
+}
+
+/** Q_KS⁻¹(α): the λ with kolmogorovSurvival(λ) = α, by bisection (Q_KS decreases in λ). */
+function kolmogorovQuantile(alpha: number): number {
+  let lo = 0;
+  let hi = 10;
+  for (let it = 0; it < 200 && hi - lo > 1e-15; it++) {
+    const mid = 0.5 * (lo + hi);
+    if (kolmogorovSurvival(mid) > alpha) lo = mid;
+    else hi = mid;
+  }
+  return 0.5 * (lo + hi);
+}
+
+function insertSorted(a: Float64Array, length: number, x: number): void {
+  let lo = 0;
+  let hi = length;
+  while (lo < hi) {
+    const mid = (lo + hi) >> 1;
+    if ((a[mid] as number) < x) lo = mid + 1;
+    else hi = mid;
+  }
+  a.copyWithin(lo + 1, lo, length);
+  a[lo] = x;
+}
+
+function removeSorted(a: Float64Array, length: number, x: number): void {
+  let lo = 0;
+  let hi = length;
+  while (lo < hi) {
+    const mid = (lo + hi) >> 1;
+    if ((a[mid] as number) < x) lo = mid + 1;
+    else hi = mid;
+  }
+  a.copyWithin(lo, lo + 1, length);
+}
