@@ -1,4 +1,13 @@
 export { Moments, MOMENTS_BLOCK } from "./moments.js";
 export type { MomentsOptions, MomentsReading, MomentsState } from "./moments.js";
+export { EwMoments } from "./ew-moments.js";
+export type { EwMomentsOptions, EwMomentsReading, EwMomentsState } from "./ew-moments.js";
+export { WindowMoments } from "./window-moments.js";
+export type { WindowMomentsOptions, WindowMomentsReading, WindowMomentsState } from "./window-moments.js";
+export { WindowTrend, WINDOW_TREND_MAX_WIDTH } from "./window-trend.js";
+export type { WindowTrendOptions, WindowTrendReading, WindowTrendState } from "./window-trend.js";
+export { mannKendall, mannKendallZ, mannKendallVariance, theilSenSlope } from "./mann-kendall.js";
+export type { MannKendallResult } from "./mann-kendall.js";
 export { ksTwoSample, ksStatisticSorted, kolmogorovSurvival } from "./ks-two-sample.js";
 export type { KsResult } from "./ks-two-sample.js";
+export { erfc, normalSurvival } from "./normal-tail.js";
