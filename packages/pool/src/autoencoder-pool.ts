@@ -1,0 +1,462 @@
+import {
+  DimensionError,
+  NonFiniteError,
+  OptionError,
+  SnapshotError,
+  StateError,
+  checkedSize,
+  envelope,
+  integerInRange,
+  numberInRange,
+  oneOf,
+  MAX_SNAPSHOT_ELEMENTS,
+  nonFiniteOption,
+  openSnapshot,
+  optionsObject,
+  positiveInteger,
+  positiveNumber,
+  seedOption,
+  toPlainArray,
+  type NonFinitePolicy,
+  type Snapshot,
+} from "@leeway/core";
+import { ACTIVATIONS, type Activation } from "./activation.js";
+import { FrozenModel } from "./frozen-model.js";
+import { MAX_HIDDEN, MAX_INPUTS, OselmAutoencoder, type OselmAutoencoderOptions, type OselmAutoencoderState } from "./oselm-autoencoder.js";
+import { scalingOption, type ScalingOption } from "./scaling.js";
+import { DTYPES, type Dtype } from "./vector.js";
+
+const COMPONENT = "AutoencoderPool";
+/** Largest accepted maxMembers. */
+export const MAX_MEMBERS = 64;
+/** Largest accepted spawnPatience. */
+export const MAX_SPAWN_PATIENCE = 10_000;
+
+/** Options of {@link AutoencoderPool}. */
+export interface AutoencoderPoolOptions {
+  /** n, the input length of every member. */
+  inputs: number;
+  /** L, the hidden units of every member. */
+  hidden: number;
+  /** Most members the pool holds (1 to 64). */
+  maxMembers: number;
+  /** A new member is started when the lowest loss stays above this (in score units); default Infinity: only an empty pool starts a member. */
+  spawnLoss?: number;
+  /** Consecutive samples above spawnLoss that start a new member, and the rows it is fitted on; default `hidden`. */
+  spawnPatience?: number;
+  /** Seed of the pool; member k's hidden layer is drawn from `${seed}/member/${k}`. */
+  seed: number | string;
+  /** Member options (see {@link OselmAutoencoderOptions}). */
+  activation?: Activation;
+  ridge?: number;
+  forgetting?: number;
+  traceBound?: number;
+  dtype?: Dtype;
+  /** Member scaling; "standardize" fits each member's scaling to the rows it starts from. */
+  scaling?: ScalingOption;
+  /** "refuse" (default) or "skip" non-finite samples in learn; score always refuses them. */
+  nonFinite?: NonFinitePolicy;
+}
+
+/** What {@link AutoencoderPool.score} returns. */
+export interface PoolScore {
+  /** Index of the nearest member (lowest loss), or −1 for an empty pool. */
+  member: number;
+  /** Its loss (Infinity for an empty pool). */
+  loss: number;
+  /** Every member's loss: a buffer reused by the next call (copy it to keep it). */
+  losses: Float64Array;
+}
+
+/** What {@link AutoencoderPool.learn} returns. */
+export interface PoolLearnReading {
+  /** The member that learnt the sample (a new one when `spawned`), or −1 when the sample waits in the spawn run or was skipped. */
+  member: number;
+  /** The nearest member's loss before learning (Infinity for an empty pool, NaN for a skipped sample). */
+  loss: number;
+  /** True when this sample completed a run and started a new member. */
+  spawned: boolean;
+  /** Samples waiting in the current run above spawnLoss. */
+  pending: number;
+  /** Samples skipped as non-finite so far. */
+  skipped: number;
+}
+
+/** Read-only facts about one member. */
+export interface MemberInfo {
+  index: number;
+  /** The member's label (an operating mode's name), or null. */
+  label: string | null;
+  /** Rows the member has learnt (including the rows it was fitted on). */
+  learnt: number;
+  /** Times it was the nearest member in score or learn calls. */
+  nearest: number;
+  /** The pool's call counter (score and learn calls) when it was last nearest or learnt, or −1. */
+  lastUsed: number;
+}
+
+interface Member {
+  model: OselmAutoencoder;
+  label: string | null;
+  nearest: number;
+  lastUsed: number;
+}
+
+/** The plain state in a snapshot of {@link AutoencoderPool}. */
+export interface AutoencoderPoolState {
+  inputs: number;
+  hidden: number;
+  maxMembers: number;
+  spawnLoss: number | null;
+  spawnPatience: number;
+  seed: string;
+  activation: Activation;
+  ridge: number;
+  forgetting: number;
+  traceBound: number | null;
+  dtype: Dtype;
+  scaling: "none" | "standardize" | "given";
+  scalingOffset: number[] | null;
+  scalingScale: number[] | null;
+  nonFinite: NonFinitePolicy;
+  spawned: number;
+  calls: number;
+  skipped: number;
+  members: { label: string | null; nearest: number; lastUsed: number; model: Snapshot<OselmAutoencoderState> }[];
+  pending: number[][];
+}
+
+/**
+ * A pool of OS-ELM autoencoders, one per operating mode. Each sample is scored
+ * by every member; the nearest (lowest loss) learns it. When the lowest loss
+ * stays above `spawnLoss` for `spawnPatience` samples and there is room, those
+ * samples start a new member (fitted on them by ridge least squares). When the
+ * pool is full, the nearest member learns every sample.
+ * @example
+ * const pool = new AutoencoderPool({ inputs: 2, hidden: 3, maxMembers: 2, spawnPatience: 1, seed: 1 });
+ * pool.learn(Float64Array.of(1, 0)).spawned; // true: the empty pool starts member 0
+ * pool.score(Float64Array.of(1, 0)).member; // 0
+ */
+export class AutoencoderPool {
+  static readonly kind = "leeway.pool.autoencoder-pool";
+  static readonly version = 1;
+
+  readonly #n: number;
+  readonly #L: number;
+  readonly #maxMembers: number;
+  readonly #spawnLoss: number;
+  readonly #spawnPatience: number;
+  readonly #seed: string;
+  readonly #memberOptions: OselmAutoencoderOptions;
+  readonly #scaling: AutoencoderPoolState["scaling"];
+  readonly #nonFinite: NonFinitePolicy;
+  readonly #members: Member[] = [];
+  #pending: Float64Array[] = [];
+  #spawned = 0;
+  #calls = 0;
+  #skipped = 0;
+  #losses = new Float64Array(0);
+
+  constructor(options: AutoencoderPoolOptions) {
+    const o = optionsObject<AutoencoderPoolOptions>(COMPONENT, options, [
+      "inputs", "hidden", "maxMembers", "spawnLoss", "spawnPatience", "seed", "activation", "ridge", "forgetting", "traceBound", "dtype", "scaling", "nonFinite",
+    ]);
+    if (o.inputs === undefined) throw new OptionError(COMPONENT, "inputs", undefined, `an integer in [1, ${MAX_INPUTS}]`);
+    this.#n = positiveInteger(COMPONENT, "inputs", o.inputs, MAX_INPUTS);
+    this.#L = integerInRange(COMPONENT, "hidden", o.hidden, 1, MAX_HIDDEN);
+    this.#maxMembers = integerInRange(COMPONENT, "maxMembers", o.maxMembers, 1, MAX_MEMBERS);
+    this.#spawnLoss = o.spawnLoss === undefined || o.spawnLoss === Infinity ? Infinity : positiveNumber(COMPONENT, "spawnLoss", o.spawnLoss);
+    this.#spawnPatience = o.spawnPatience === undefined ? this.#L : integerInRange(COMPONENT, "spawnPatience", o.spawnPatience, 1, MAX_SPAWN_PATIENCE);
+    this.#seed = String(seedOption(COMPONENT, "seed", o.seed));
+    this.#nonFinite = nonFiniteOption(COMPONENT, o.nonFinite);
+    if (this.#n * this.#L > MAX_SNAPSHOT_ELEMENTS) {
+      throw new OptionError(COMPONENT, "hidden", o.hidden, `at most ${Math.floor(MAX_SNAPSHOT_ELEMENTS / this.#n)} for ${this.#n} inputs`);
+    }
+    const scaling = scalingOption(COMPONENT, o.scaling, this.#n);
+    this.#scaling = scaling.mode;
+    if (this.#scaling === "standardize" && this.#spawnPatience < 2) {
+      throw new OptionError(COMPONENT, "spawnPatience", o.spawnPatience, 'an integer >= 2 with "standardize" scaling (the scaling is fitted to the starting rows)');
+    }
+    const memberOptions: OselmAutoencoderOptions = {
+      inputs: this.#n,
+      hidden: this.#L,
+      seed: `${this.#seed}/member/0`,
+      scaling: scaling.offset !== null && scaling.scale !== null ? { offset: scaling.offset, scale: scaling.scale } : scaling.mode === "standardize" ? "standardize" : "none",
+    };
+    if (o.activation !== undefined) memberOptions.activation = oneOf(COMPONENT, "activation", o.activation, ACTIVATIONS);
+    if (o.ridge !== undefined) memberOptions.ridge = positiveNumber(COMPONENT, "ridge", o.ridge);
+    if (o.forgetting !== undefined) memberOptions.forgetting = numberInRange(COMPONENT, "forgetting", o.forgetting, { min: 0, max: 1, minExclusive: true });
+    if (o.traceBound !== undefined) memberOptions.traceBound = positiveNumber(COMPONENT, "traceBound", o.traceBound);
+    if (o.dtype !== undefined) memberOptions.dtype = oneOf(COMPONENT, "dtype", o.dtype, DTYPES);
+    if (!((memberOptions.traceBound ?? this.#L / (memberOptions.ridge ?? 0.01)) < Infinity)) {
+      throw new OptionError(COMPONENT, "ridge", o.ridge, "a number > 0 large enough that hidden/ridge is finite");
+    }
+    this.#memberOptions = memberOptions;
+  }
+
+  /** n, the input length. */
+  get inputs(): number {
+    return this.#n;
+  }
+  /** L, the hidden units of every member. */
+  get hidden(): number {
+    return this.#L;
+  }
+  /** Members in the pool now. */
+  get size(): number {
+    return this.#members.length;
+  }
+  /** Most members the pool may hold. */
+  get maxMembers(): number {
+    return this.#maxMembers;
+  }
+  /** Samples waiting in the current run above spawnLoss. */
+  get pending(): number {
+    return this.#pending.length;
+  }
+  /** Non-finite samples skipped by learn. */
+  get skipped(): number {
+    return this.#skipped;
+  }
+  /** Facts about every member (fresh objects; changing them changes nothing). */
+  get members(): readonly MemberInfo[] {
+    return this.#members.map((m, index) => ({ index, label: m.label, learnt: m.model.count, nearest: m.nearest, lastUsed: m.lastUsed }));
+  }
+
+  /**
+   * Scores x by every member into a reused buffer and names the nearest
+   * (lowest loss; the first on ties). Refuses a wrong length and non-finite values.
+   */
+  score(x: ArrayLike<number>): PoolScore {
+    this.#calls++;
+    if (this.#members.length === 0) {
+      this.#check(x, true);
+      return { member: -1, loss: Infinity, losses: this.#losses };
+    }
+    const nearest = this.#scoreAll(x);
+    return { member: nearest, loss: this.#losses[nearest] as number, losses: this.#losses };
+  }
+
+  /**
+   * Learns x: by member `member` when it is given, otherwise by the nearest
+   * member — or, when the lowest loss is above spawnLoss (always, for an empty
+   * pool) and there is room, x joins the run that starts a new member after
+   * spawnPatience samples. A sample below spawnLoss ends the run and its
+   * samples are dropped.
+   */
+  learn(x: ArrayLike<number>, member?: number): PoolLearnReading {
+    this.#calls++;
+    if (!this.#check(x, this.#nonFinite === "refuse")) {
+      this.#skipped++;
+      return { member: -1, loss: Number.NaN, spawned: false, pending: this.#pending.length, skipped: this.#skipped };
+    }
+    if (member !== undefined) {
+      const m = this.#member(member);
+      const loss = m.model.learn(x);
+      m.lastUsed = this.#calls;
+      return { member, loss, spawned: false, pending: this.#pending.length, skipped: this.#skipped };
+    }
+    const size = this.#members.length;
+    const nearest = size === 0 ? -1 : this.#scoreAll(x);
+    const loss = nearest < 0 ? Infinity : (this.#losses[nearest] as number);
+    const above = size === 0 || loss > this.#spawnLoss;
+    if (above && size < this.#maxMembers) {
+      this.#pending.push(Float64Array.from(x));
+      if (this.#pending.length < this.#spawnPatience) return { member: -1, loss, spawned: false, pending: this.#pending.length, skipped: this.#skipped };
+      const rows = this.#pending;
+      this.#pending = [];
+      const index = this.#addFitted(rows, null);
+      return { member: index, loss, spawned: true, pending: 0, skipped: this.#skipped };
+    }
+    this.#pending = [];
+    (this.#members[nearest] as Member).model.learnScored();
+    return { member: nearest, loss, spawned: false, pending: 0, skipped: this.#skipped };
+  }
+
+  /**
+   * Starts a new member fitted on `rows` (ridge least squares) with an optional
+   * label and returns its index; E_STATE when the pool is full.
+   */
+  addMember(rows: readonly ArrayLike<number>[], label: string | null = null): number {
+    if (label !== null && typeof label !== "string") throw new OptionError(COMPONENT, "label", label, "a string or null");
+    if (this.#members.length >= this.#maxMembers) throw new StateError(COMPONENT, `addMember: the pool is full (${this.#maxMembers} members)`);
+    return this.#addFitted(rows, label);
+  }
+
+  /** Sets (or clears, with null) a member's label. */
+  setLabel(member: number, label: string | null): void {
+    if (label !== null && typeof label !== "string") throw new OptionError(COMPONENT, "label", label, "a string or null");
+    this.#member(member).label = label;
+  }
+
+  /** A frozen copy of a member: it scores but never learns. */
+  freeze(member: number): FrozenModel {
+    const m = this.#member(member);
+    return FrozenModel.from(m.model, m.label);
+  }
+
+  /** An independent learning copy of a member's model. */
+  memberModel(member: number): OselmAutoencoder {
+    return this.#member(member).model.clone();
+  }
+
+  /** Bytes of learnable state of all members (the sum of their stateBytes). */
+  stateBytes(): number {
+    let bytes = 0;
+    for (const m of this.#members) bytes += m.model.stateBytes();
+    return bytes;
+  }
+
+  /** The whole pool as plain data: options, counters, the pending run and every member's compact snapshot. */
+  snapshot(): Snapshot<AutoencoderPoolState> {
+    const o = this.#memberOptions;
+    const given = this.#scaling === "given" ? (o.scaling as { offset: Float64Array; scale: Float64Array }) : null;
+    return envelope(AutoencoderPool.kind, AutoencoderPool.version, {
+      inputs: this.#n,
+      hidden: this.#L,
+      maxMembers: this.#maxMembers,
+      spawnLoss: this.#spawnLoss === Infinity ? null : this.#spawnLoss,
+      spawnPatience: this.#spawnPatience,
+      seed: this.#seed,
+      activation: o.activation ?? "sigmoid",
+      ridge: o.ridge ?? 0.01,
+      forgetting: o.forgetting ?? 1,
+      traceBound: o.traceBound ?? null,
+      dtype: o.dtype ?? "float64",
+      scaling: this.#scaling,
+      scalingOffset: given === null ? null : toPlainArray(given.offset),
+      scalingScale: given === null ? null : toPlainArray(given.scale),
+      nonFinite: this.#nonFinite,
+      spawned: this.#spawned,
+      calls: this.#calls,
+      skipped: this.#skipped,
+      members: this.#members.map((m) => ({ label: m.label, nearest: m.nearest, lastUsed: m.lastUsed, model: m.model.snapshot() })),
+      pending: this.#pending.map((row) => toPlainArray(row)),
+    });
+  }
+
+  /** Rebuilds a pool from {@link snapshot}; sizes are checked before anything is allocated, and every member must match the pool's sizes. */
+  static restore(snapshot: unknown): AutoencoderPool {
+    const kind = AutoencoderPool.kind;
+    const s = openSnapshot(snapshot, kind, AutoencoderPool.version);
+    const inputs = s.integer("inputs", 1, MAX_INPUTS);
+    const hidden = s.integer("hidden", 1, MAX_HIDDEN);
+    checkedSize(kind, "state.inputs", [inputs, hidden]);
+    const maxMembers = s.integer("maxMembers", 1, MAX_MEMBERS);
+    const spawnLoss = s.numberOrNull("spawnLoss");
+    const spawnPatience = s.integer("spawnPatience", 1, MAX_SPAWN_PATIENCE);
+    const seed = s.string("seed");
+    const activation = s.oneOf("activation", ["sigmoid", "tanh", "identity"] as const);
+    const ridge = s.number("ridge");
+    const forgetting = s.number("forgetting");
+    const traceBound = s.numberOrNull("traceBound");
+    const dtype = s.oneOf("dtype", ["float64", "float32"] as const);
+    const scaling = s.oneOf("scaling", ["none", "standardize", "given"] as const);
+    let scalingOption: ScalingOption = scaling === "given" ? "none" : scaling;
+    if (scaling === "given") {
+      scalingOption = { offset: s.numbers("scalingOffset", inputs), scale: s.numbers("scalingScale", inputs) };
+    } else {
+      if (s.raw("scalingOffset") !== null) s.fail("scalingOffset", `must be null for scaling ${JSON.stringify(scaling)}`);
+      if (s.raw("scalingScale") !== null) s.fail("scalingScale", `must be null for scaling ${JSON.stringify(scaling)}`);
+    }
+    const nonFinite = s.oneOf("nonFinite", ["refuse", "skip"] as const);
+    const spawned = s.integer("spawned", 0, Number.MAX_SAFE_INTEGER);
+    const calls = s.integer("calls", 0, Number.MAX_SAFE_INTEGER);
+    const skipped = s.integer("skipped", 0, Number.MAX_SAFE_INTEGER);
+    const memberReaders = s.objects("members", { max: maxMembers });
+    if (memberReaders.length > spawned) s.fail("members", `holds ${memberReaders.length} members but only ${spawned} were ever started`);
+    const pendingRows = s.rawArray("pending", { max: spawnPatience - 1 });
+    checkedSize(kind, "state.pending", [pendingRows.length, inputs]);
+    const options: AutoencoderPoolOptions = { inputs, hidden, maxMembers, spawnPatience, seed, activation, ridge, forgetting, dtype, scaling: scalingOption, nonFinite };
+    if (spawnLoss !== null) options.spawnLoss = spawnLoss;
+    if (traceBound !== null) options.traceBound = traceBound;
+    let pool: AutoencoderPool;
+    try {
+      pool = new AutoencoderPool(options);
+    } catch (error) {
+      throw new SnapshotError(kind, "state", `holds options the pool refuses: ${(error as Error).message}`);
+    }
+    const pending = pendingRows.map((row, i) => readRow(kind, `state.pending[${i}]`, row, inputs));
+    const members: Member[] = memberReaders.map((m, i) => {
+      const model = OselmAutoencoder.restore(m.raw("model"));
+      const expected = pool.#memberOptions;
+      const st = (m.raw("model") as Snapshot<OselmAutoencoderState>).state;
+      const mismatch =
+        model.inputs !== inputs ||
+        model.hidden !== hidden ||
+        model.dtype !== dtype ||
+        st.activation !== activation ||
+        st.ridge !== ridge ||
+        model.forgetting !== forgetting ||
+        (expected.traceBound !== undefined && st.traceBound !== expected.traceBound) ||
+        st.scaling !== scaling;
+      if (mismatch) throw new SnapshotError(kind, `state.members[${i}].model`, "does not match the pool's member options");
+      return { model, label: m.stringOrNull("label"), nearest: m.integer("nearest", 0, Number.MAX_SAFE_INTEGER), lastUsed: m.integer("lastUsed", -1, calls) };
+    });
+    pool.#members.push(...members);
+    pool.#pending = pending;
+    pool.#spawned = spawned;
+    pool.#calls = calls;
+    pool.#skipped = skipped;
+    pool.#losses = new Float64Array(members.length);
+    return pool;
+  }
+
+  #addFitted(rows: readonly ArrayLike<number>[], label: string | null): number {
+    const model = new OselmAutoencoder({ ...this.#memberOptions, seed: `${this.#seed}/member/${this.#spawned}` });
+    model.fit(rows);
+    this.#spawned++;
+    this.#members.push({ model, label, nearest: 0, lastUsed: this.#calls });
+    this.#losses = new Float64Array(this.#members.length);
+    return this.#members.length - 1;
+  }
+
+  /** Scores x by every member into #losses; returns the nearest's index and counts it. */
+  #scoreAll(x: ArrayLike<number>): number {
+    const members = this.#members;
+    const losses = this.#losses;
+    let nearest = 0;
+    for (let i = 0; i < members.length; i++) {
+      const loss = (members[i] as Member).model.score(x);
+      losses[i] = loss;
+      if (loss < (losses[nearest] as number)) nearest = i;
+    }
+    const m = members[nearest] as Member;
+    m.nearest++;
+    m.lastUsed = this.#calls;
+    return nearest;
+  }
+
+  /** Length and finiteness of x; false for a non-finite sample when not refusing. */
+  #check(x: ArrayLike<number>, refuse: boolean): boolean {
+    if (x === null || typeof x !== "object" || typeof x.length !== "number") throw new DimensionError(COMPONENT, "x", this.#n, 0);
+    if (x.length !== this.#n) throw new DimensionError(COMPONENT, "x", this.#n, x.length);
+    for (let j = 0; j < this.#n; j++) {
+      const v = x[j];
+      if (typeof v !== "number" || !Number.isFinite(v)) {
+        if (refuse) throw new NonFiniteError(COMPONENT, `x[${j}]`, v);
+        return false;
+      }
+    }
+    return true;
+  }
+
+  #member(member: number): Member {
+    if (!Number.isInteger(member) || member < 0 || member >= this.#members.length) {
+      throw new OptionError(COMPONENT, "member", member, this.#members.length === 0 ? "a member index, but the pool is empty" : `an integer in [0, ${this.#members.length - 1}]`);
+    }
+    return this.#members[member] as Member;
+  }
+}
+
+function readRow(kind: string, path: string, value: unknown, length: number): Float64Array {
+  if (!Array.isArray(value)) throw new SnapshotError(kind, path, "must be an array");
+  if (value.length !== length) throw new SnapshotError(kind, path, `must have length ${length}, got length ${value.length}`);
+  const row = new Float64Array(length);
+  for (let j = 0; j < length; j++) {
+    const v: unknown = value[j];
+    if (typeof v !== "number" || !Number.isFinite(v)) throw new SnapshotError(kind, `${path}[${j}]`, "must be a finite number");
+    row[j] = v;
+  }
+  return row;
+}
