@@ -1,5 +1,5 @@
 import { OptionError, optionsObject } from "@leeway/core";
-import { EVALUATE_OPTIONS, checkEvaluateOptions, type EvaluateOptions, type ReplayMetrics, type ResponseClass } from "./evaluate.js";
+import { EVALUATE_OPTIONS, checkEvaluateOptions, summarizeDelays, zeroCounts, type EvaluateOptions, type ReplayMetrics, type ResponseClass } from "./metrics.js";
 import type { ReplayLabels } from "./labels.js";
 import { poissonInterval } from "./poisson-interval.js";
 import { replay, type Pipeline } from "./replay.js";
@@ -104,14 +104,13 @@ export function compare<S>(policies: readonly PolicyUnderTest<S>[], suite: reado
 /** Pools the metrics of several scenarios into one {@link ComparisonRow}. */
 export function comparisonRow(policy: string, runs: readonly { scenario: string; metrics: ReplayMetrics }[], level = 0.95): ComparisonRow {
   const sum = (f: (m: ReplayMetrics) => number): number => runs.reduce((s, r) => s + f(r.metrics), 0);
-  const delays = runs.flatMap((r) => r.metrics.perEvent.map((e) => e.delay).filter((d): d is number => d !== null)).sort((a, b) => a - b);
+  const delays = summarizeDelays(runs.flatMap((r) => r.metrics.perEvent));
   const falseAlarms = sum((m) => m.falseAlarms);
   const exposure = sum((m) => m.runLengths.exposure);
   const counts = poissonInterval(falseAlarms, level);
-  const retrainsByTruth: Record<ResponseClass, number> = { "concept-drift": 0, degradation: 0, anomaly: 0, none: 0 };
+  const retrainsByTruth = zeroCounts();
   for (const r of runs) for (const key of Object.keys(retrainsByTruth) as ResponseClass[]) retrainsByTruth[key] += r.metrics.retrains.byTruth[key];
   const areas = runs.map((r) => r.metrics.scores?.reference ?? r.metrics.scores?.live ?? null).filter((a) => a !== null);
-  const mid = delays.length >> 1;
   return {
     policy,
     scenarios: runs.map((r) => r.scenario),
@@ -120,8 +119,8 @@ export function comparisonRow(policy: string, runs: readonly { scenario: string;
     detected: sum((m) => m.detected),
     correctCause: sum((m) => m.correctCause),
     missed: sum((m) => m.missed),
-    meanDelay: delays.length > 0 ? delays.reduce((s, d) => s + d, 0) / delays.length : null,
-    medianDelay: delays.length === 0 ? null : delays.length % 2 === 1 ? (delays[mid] as number) : 0.5 * ((delays[mid - 1] as number) + (delays[mid] as number)),
+    meanDelay: delays?.mean ?? null,
+    medianDelay: delays?.median ?? null,
     falseAlarms,
     exposure,
     falseAlarmsPer10k: exposure > 0 ? (1e4 * falseAlarms) / exposure : null,

@@ -50,8 +50,9 @@ export function lowPassKernel(cutoff: number, taps: number): Float64Array {
  * that the ends carry no step. Only the kept samples are computed.
  *
  * Example: a 48 kHz recording decimated by 4 to 12 kHz with the defaults
- * (257 taps, cut-off 0.9 × 6 kHz = 5.4 kHz) passes 0–5 kHz within 0.01 dB and
- * attenuates everything above 6 kHz (which would fold back below it) by ≥ 70 dB.
+ * (257 taps, cut-off 0.9 × 6 kHz = 5.4 kHz) passes 0–4.8 kHz within 0.002 dB,
+ * is 6 dB down at 5.4 kHz, and attenuates everything at and above 6 kHz
+ * (which would fold back below it) by at least 75 dB.
  * @param signal samples at the input rate.
  * @param factor integer ≥ 2.
  * @example

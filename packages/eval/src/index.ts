@@ -1,11 +1,11 @@
 export { replay, replayAsync, scoreOnly } from "./replay.js";
 export type { Pipeline, ReplayOptions, ReplayResult, ScoreSample, ScoreOnlyEngine } from "./replay.js";
-export { evaluate, findResponses, summarizeDelays, checkEvaluateOptions, EVALUATE_OPTIONS, RESPONSE_CLASSES } from "./evaluate.js";
+export { evaluate } from "./evaluate.js";
+export { summarizeDelays, checkEvaluateOptions, EVALUATE_OPTIONS, RESPONSE_CLASSES } from "./metrics.js";
 export type {
   EvaluateOptions,
   ReplayMetrics,
   EventResult,
-  Response,
   ResponseClass,
   ConfusionTable,
   DelaySummary,
@@ -13,9 +13,11 @@ export type {
   RunLengths,
   ScoreAreas,
   ScoreMetrics,
-} from "./evaluate.js";
+} from "./metrics.js";
 export { Timeline } from "./timeline.js";
-export { responseClass, RESPONSE_ACTIONS } from "./responses.js";
+export { responseClass, findEpisodes, findResponses, RESPONSE_ACTIONS } from "./responses.js";
+export type { ActionEpisode, Response } from "./responses.js";
+export { runLengths } from "./run-lengths.js";
 export { anomalyMask, EVENT_CAUSES } from "./labels.js";
 export type { LabelledEvent, EventCause, ReplayLabels } from "./labels.js";
 export { rocAuc, mannWhitney } from "./roc-auc.js";

@@ -1,6 +1,7 @@
 import { booleanOption, optionsObject } from "@leeway/core";
 import type { Decision } from "@leeway/policy";
-import { EVALUATE_OPTIONS, checkEvaluateOptions, evaluate, type EvaluateOptions, type ReplayMetrics } from "./evaluate.js";
+import { evaluate } from "./evaluate.js";
+import { EVALUATE_OPTIONS, checkEvaluateOptions, type EvaluateOptions, type ReplayMetrics } from "./metrics.js";
 import type { ReplayLabels } from "./labels.js";
 import { Timeline } from "./timeline.js";
 
