@@ -51,7 +51,8 @@ export interface FramerState {
  * const framer = new Framer({ size: 4, hop: 2 });
  * [1, 2, 3].map((x) => framer.observe(x)); // [null, null, null]
  * Array.from(framer.observe(4) ?? []); // [1, 2, 3, 4]
- * framer.observe(5); framer.observe(6) && Array.from(framer.observe(6) ?? []); // next frame is [3, 4, 5, 6]
+ * framer.observe(5);
+ * Array.from(framer.observe(6) ?? []); // [3, 4, 5, 6]
  */
 export class Framer {
   static readonly kind = "leeway.signal.framer";

@@ -1,0 +1,86 @@
+import fc from "fast-check";
+import { describe, expect, it } from "vitest";
+import { Framer } from "@leeway/signal";
+import { expectLeewayError, throughJson } from "../support/errors.js";
+import { expectRefusesCorruptions } from "../support/snapshot-corruption.js";
+
+function allFrames(framer: Framer, xs: number[]): number[][] {
+  const out: number[][] = [];
+  for (const x of xs) {
+    const f = framer.observe(x);
+    if (f !== null) out.push(Array.from(f));
+  }
+  return out;
+}
+
+describe("Framer", () => {
+  it("frame j holds samples [j·hop, j·hop + size), for overlapping, abutting and gapped hops", () => {
+    fc.assert(
+      fc.property(fc.integer({ min: 1, max: 16 }), fc.integer({ min: 1, max: 40 }), fc.integer({ min: 0, max: 200 }), (size, hop, n) => {
+        const xs = Array.from({ length: n }, (_, i) => i);
+        const frames = allFrames(new Framer({ size, hop }), xs);
+        const expected: number[][] = [];
+        for (let start = 0; start + size <= n; start += hop) expected.push(xs.slice(start, start + size));
+        expect(frames).toEqual(expected);
+      }),
+    );
+  });
+
+  it("overlap 0.5 gives hop size/2; observeMany reaches the same frames and state as observe", () => {
+    expect(new Framer({ size: 1024, overlap: 0.5 }).hop).toBe(512);
+    expect(new Framer({ size: 4, overlap: 0.99 }).hop).toBe(1);
+    const xs = Float64Array.from({ length: 50 }, (_, i) => Math.sin(i));
+    const a = new Framer({ size: 8, hop: 3 });
+    const b = new Framer({ size: 8, hop: 3 });
+    const fromMany: number[][] = [];
+    const count = b.observeMany(xs, (frame, j) => {
+      expect(j).toBe(fromMany.length);
+      fromMany.push(Array.from(frame));
+    });
+    expect(fromMany).toEqual(allFrames(a, Array.from(xs)));
+    expect(count).toBe(fromMany.length);
+    expect(b.snapshot()).toEqual(a.snapshot());
+  });
+
+  it("snapshot/restore through JSON continues bit-identically at any point", () => {
+    fc.assert(
+      fc.property(fc.integer({ min: 1, max: 12 }), fc.integer({ min: 1, max: 20 }), fc.integer({ min: 0, max: 60 }), (size, hop, cut) => {
+        const xs = Array.from({ length: 100 }, (_, i) => Math.cos(i * 0.7));
+        const a = new Framer({ size, hop });
+        allFrames(a, xs.slice(0, cut));
+        const b = Framer.restore(throughJson(a.snapshot()));
+        expect(allFrames(b, xs.slice(cut))).toEqual(allFrames(a, xs.slice(cut)));
+        expect(b.snapshot()).toEqual(a.snapshot());
+      }),
+    );
+  });
+
+  it("non-finite samples are refused, or skipped and counted", () => {
+    expectLeewayError(() => new Framer({ size: 4 }).observe(Number.NaN), "E_NON_FINITE", "x");
+    const f = new Framer({ size: 2, nonFinite: "skip" });
+    expect(allFrames(f, [1, Number.NaN, 2, Number.POSITIVE_INFINITY, 3, 4])).toEqual([[1, 2], [3, 4]]);
+    expect([f.count, f.skipped, f.frames]).toEqual([4, 2, 2]);
+    expect(f.snapshot().state.skipped).toBe(2);
+  });
+
+  it("refuses bad options", () => {
+    expectLeewayError(() => new Framer({ size: 0 }), "E_OPTION", "size");
+    expectLeewayError(() => new Framer({ size: 4, hop: 0 }), "E_OPTION", "hop");
+    expectLeewayError(() => new Framer({ size: 4, overlap: 1 }), "E_OPTION", "overlap");
+    expectLeewayError(() => new Framer({ size: 4, hop: 2, overlap: 0.5 }), "E_OPTION", "overlap", "not both");
+    expectLeewayError(() => new Framer({ size: 4, step: 2 } as never), "E_OPTION", "step");
+    expectLeewayError(() => new Framer({ size: 4, nonFinite: "zero" as never }), "E_OPTION", "nonFinite");
+  });
+
+  it("refuses corrupted snapshots whole", () => {
+    const mid = new Framer({ size: 6, hop: 4 });
+    allFrames(mid, [1, 2, 3, 4, 5, 6, 7, 8, 9]);
+    expectRefusesCorruptions((s) => Framer.restore(s), mid.snapshot(), { sizePaths: [["size"], ["hop"]], variableLengthPaths: [["buffer"]] });
+    const pending = new Framer({ size: 3, hop: 5 });
+    allFrames(pending, [1, 2, 3]);
+    expectRefusesCorruptions((s) => Framer.restore(s), pending.snapshot(), { sizePaths: [["size"], ["hop"]] });
+    const gap = new Framer({ size: 2, hop: 5 });
+    allFrames(gap, [1, 2, 3]);
+    expectRefusesCorruptions((s) => Framer.restore(s), gap.snapshot(), { sizePaths: [["size"], ["hop"]], variableLengthPaths: [["buffer"]] });
+  });
+});
