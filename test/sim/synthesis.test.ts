@@ -1,6 +1,6 @@
 import fc from "fast-check";
 import { describe, expect, it } from "vitest";
-import { addRinging, addTone } from "../../packages/sim/src/synthesis.js";
+import { addModulated, addRinging, addTone } from "../../packages/sim/src/synthesis.js";
 
 describe("tone synthesis", () => {
   it("addTone by recurrence equals amp·sin(φ + ωn) to 1e-9 over 4096 samples", () => {
@@ -31,5 +31,14 @@ describe("tone synthesis", () => {
     for (let k = 0; k < 60; k++) expect(buf[10 + k]).toBeCloseTo(2 * r ** k * Math.sin(1.1 * k), 12);
     for (let i = 0; i < 10; i++) expect(buf[i]).toBe(0);
     expect(buf[199]).toBe(0);
+  });
+});
+
+describe("amplitude modulation", () => {
+  it("addModulated adds src·(1 + m·cos(ωn + φ))", () => {
+    const src = Float64Array.from({ length: 300 }, (_, n) => Math.sin(0.7 * n));
+    const buf = new Float64Array(300).fill(0.5);
+    addModulated(buf, src, 0.05, 0.4, 1.2);
+    for (let n = 0; n < 300; n += 7) expect(buf[n]).toBeCloseTo(0.5 + (src[n] as number) * (1 + 0.4 * Math.cos(0.05 * n + 1.2)), 11);
   });
 });

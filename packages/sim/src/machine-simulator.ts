@@ -2,7 +2,7 @@ import { RandomSource } from "@leeway/core";
 import { SpectrumAnalyzer, reduceBins } from "@leeway/signal";
 import { bearingOrders, type BearingOrders } from "./bearing.js";
 import { defineScenario, type DegradationEvent, type Scenario, type ScenarioEvent, type ScenarioSpec } from "./scenario.js";
-import { addRinging, addTone } from "./synthesis.js";
+import { addModulated, addRinging, addTone } from "./synthesis.js";
 import { truthEvents, type SampleTruth, type TruthEvent } from "./truth.js";
 
 /** One simulated sample in spectra mode. */
@@ -69,6 +69,7 @@ export class MachineSimulator {
   readonly #rng: RandomSource;
   readonly #bank: Float64Array;
   readonly #frame: Float64Array;
+  readonly #defect: Float64Array; // scratch: a defect's lines before modulation
   readonly #power: Float64Array;
   readonly #powerBelowNyquist: Float64Array;
   readonly #bands: Float64Array;
@@ -92,6 +93,7 @@ export class MachineSimulator {
     bank.copyWithin(bankSize, 0, s.frameSize);
     this.#bank = bank;
     this.#frame = new Float64Array(s.frameSize);
+    this.#defect = new Float64Array(s.frameSize);
     this.#analyzer = new SpectrumAnalyzer({ size: s.frameSize, sampleRate: s.sampleRate, window: s.window });
     this.#power = new Float64Array(this.#analyzer.bins);
     this.#powerBelowNyquist = this.#power.subarray(0, s.frameSize / 2);
@@ -226,13 +228,10 @@ export class MachineSimulator {
         const severity = degradationSeverity(e, i);
         if (severity <= 0) continue;
         const fd = this.#defectOrder(e) * fr; // defect frequency, Hz
-        for (let h = 1; h <= e.harmonics; h++) {
-          const amp = (e.amplitude * severity * gain) / h;
-          addTone(buf, h * fd * toOmega, amp, phase());
-          // (1 + m·cos 2πf_r t)·sin(2πf t) = sin(2πf t) + (m/2)·[sin(2π(f+f_r)t) + sin(2π(f−f_r)t)]
-          addTone(buf, (h * fd + fr) * toOmega, 0.5 * e.modulation * amp, phase());
-          addTone(buf, (h * fd - fr) * toOmega, 0.5 * e.modulation * amp, phase());
-        }
+        const lines = this.#defect.fill(0);
+        for (let h = 1; h <= e.harmonics; h++) addTone(lines, h * fd * toOmega, (e.amplitude * severity * gain) / h, phase());
+        // (1 + m·cos 2πf_r t)·sin(2πf t) = sin(2πf t) + (m/2)·[sin(2π(f+f_r)t) + sin(2π(f−f_r)t)]
+        addModulated(buf, lines, fr * toOmega, e.modulation, phase());
       }
     }
     if (impacts > 0) {

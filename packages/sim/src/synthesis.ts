@@ -1,23 +1,49 @@
 /**
  * Adds amp·sin(φ + ω·n) to buf[0..N−1] by the Chebyshev recurrence
- * s_{n+1} = 2cos(ω)·s_n − s_{n−1} (Goertzel-style oscillator: two
- * multiplications per sample, no trigonometric call in the loop). Tones at
- * or above the Nyquist frequency (ω ≥ π) and zero amplitudes are skipped.
+ * s_n = 2cos(4ω)·s_{n−4} − s_{n−8} on four interleaved lanes (independent
+ * chains, so the additions pipeline; two operations per sample and no
+ * trigonometric call in the loop). Tones at or above the Nyquist frequency
+ * (ω ≥ π), at or below 0 Hz, and zero amplitudes are skipped.
  * @param omega ω = 2π·f/f_s, radians per sample
  */
 export function addTone(buf: Float64Array, omega: number, amp: number, phase: number): void {
   if (amp === 0 || !(omega > 0 && omega < Math.PI)) return;
   const n = buf.length;
+  const head = Math.min(n, 8);
+  for (let i = 0; i < head; i++) buf[i] = (buf[i] as number) + amp * Math.sin(phase + omega * i);
+  if (n <= 8) return;
+  const c = 2 * Math.cos(4 * omega);
+  let p0 = amp * Math.sin(phase), p1 = amp * Math.sin(phase + omega), p2 = amp * Math.sin(phase + 2 * omega), p3 = amp * Math.sin(phase + 3 * omega);
+  let q0 = amp * Math.sin(phase + 4 * omega), q1 = amp * Math.sin(phase + 5 * omega), q2 = amp * Math.sin(phase + 6 * omega), q3 = amp * Math.sin(phase + 7 * omega);
+  let i = 8;
+  for (; i + 3 < n; i += 4) {
+    const x0 = c * q0 - p0, x1 = c * q1 - p1, x2 = c * q2 - p2, x3 = c * q3 - p3;
+    buf[i] = (buf[i] as number) + x0;
+    buf[i + 1] = (buf[i + 1] as number) + x1;
+    buf[i + 2] = (buf[i + 2] as number) + x2;
+    buf[i + 3] = (buf[i + 3] as number) + x3;
+    p0 = q0; p1 = q1; p2 = q2; p3 = q3;
+    q0 = x0; q1 = x1; q2 = x2; q3 = x3;
+  }
+  for (; i < n; i++) buf[i] = (buf[i] as number) + amp * Math.sin(phase + omega * i);
+}
+
+/**
+ * Adds src[n]·(1 + m·cos(ω·n + φ)) to buf (amplitude modulation of a
+ * component at rate ω: sidebands ±ω of relative amplitude m/2), with the
+ * cosine by the recurrence e_n = 2cos(ω)·e_{n−1} − e_{n−2}.
+ */
+export function addModulated(buf: Float64Array, src: Float64Array, omega: number, depth: number, phase: number): void {
+  const n = Math.min(buf.length, src.length);
+  if (n === 0) return;
   const c2 = 2 * Math.cos(omega);
-  let s0 = amp * Math.sin(phase);
-  let s1 = amp * Math.sin(phase + omega);
-  buf[0] = (buf[0] as number) + s0;
-  if (n > 1) buf[1] = (buf[1] as number) + s1;
-  for (let i = 2; i < n; i++) {
-    const s2 = c2 * s1 - s0;
-    buf[i] = (buf[i] as number) + s2;
-    s0 = s1;
-    s1 = s2;
+  let e0 = depth * Math.cos(phase - omega); // e_{−1}
+  let e1 = depth * Math.cos(phase); // e_0
+  for (let i = 0; i < n; i++) {
+    buf[i] = (buf[i] as number) + (src[i] as number) * (1 + e1);
+    const e2 = c2 * e1 - e0;
+    e0 = e1;
+    e1 = e2;
   }
 }
 
