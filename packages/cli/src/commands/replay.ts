@@ -1,0 +1,138 @@
+import { resolve } from "node:path";
+import { LeewayError } from "@leeway/core";
+import { Timeline } from "@leeway/eval";
+import type { Decision, DecisionEngine } from "@leeway/policy";
+import { stringFlag, type CommandSpec, type ParsedArguments } from "../args.js";
+import { buildEngine, defaultConfig, parseConfig, type PipelineConfig } from "../config.js";
+import { decisionLine } from "../decision-log.js";
+import { CliError, InputError } from "../exit-codes.js";
+import { openInput, PartialFile, readTextFile, TextSink, writeWholeFile, type CliStreams } from "../io.js";
+import { readLines } from "../input/lines.js";
+import { readSamples, type SampleRow, type StreamLayout } from "../input/samples.js";
+import { ScriptedOperator } from "../operator.js";
+import { ProgressBar } from "../progress.js";
+import { renderReport } from "../report/html.js";
+import { TimelineCollector } from "../report/timeline.js";
+import { countsText, metricsText, timelineText } from "../summary.js";
+import { leewayVersion } from "../version.js";
+import { labelsFromFlag, metricsOf, reportMetrics } from "./report.js";
+
+export const replaySpec: CommandSpec = {
+  name: "replay",
+  summary: "Replays a recorded stream of scores or feature vectors (CSV or NDJSON) through the decision engine and writes one decision per sample as NDJSON.",
+  positionals: [{ name: "file", description: 'the stream: CSV with a header row, or NDJSON (one object per line); "-" reads standard input' }],
+  flags: [
+    { name: "config", kind: "string", value: "FILE", description: "pipeline config (JSON): input columns, engine options, report (see docs/cli.md)" },
+    { name: "labels", kind: "string", value: "FILE", description: "labelled events (JSON) to measure the decisions against" },
+    { name: "out", kind: "string", value: "DIR", description: "write decisions.ndjson and report.html into DIR instead of decisions to stdout" },
+  ],
+  details: [
+    "Columns: a single numeric column, or columns named score (or live) and ref… (at most two references: commissioning, newest), mean score-only mode (your model scores, leeway decides); otherwise every numeric column is a feature and leeway's own autoencoder pool scores them. A column named time, timestamp, datetime, date or t is carried through into the decisions. Blank lines and lines starting with # are skipped.",
+    "The input is streamed in constant memory. A malformed record stops the replay with exit code 3 and a message naming the line, the column and what was expected; decisions written until then are incomplete (with --out they stay in decisions.ndjson.partial and no report is written). With --labels the decisions are also kept compactly (19 bytes each) for the metrics.",
+  ],
+  examples: ["leeway replay ps2-scores.csv > decisions.ndjson", "leeway replay spectra.ndjson --config pipeline.json --labels events.json --out run/", "cat scores.csv | leeway replay - | head"],
+};
+
+/** Per sample: one decision from the engine, in the mode the layout says. */
+function decide(engine: DecisionEngine, layout: StreamLayout, row: SampleRow): Decision {
+  if (layout.mode === "features") return engine.observe(row.values);
+  const v = row.values;
+  if (v.length === 1) return engine.observeScores(v[0] as number);
+  return engine.observeScores(v[0] as number, v.length === 2 ? [v[1] as number] : [v[1] as number, v[2] as number]);
+}
+
+function describeLayout(l: StreamLayout): string {
+  const time = l.timeColumn === null ? "no time column" : `time column ${l.timeColumn}`;
+  const ignored = l.ignoredColumns.length === 0 ? "" : `; ignoring ${l.ignoredColumns.slice(0, 6).join(", ")}${l.ignoredColumns.length > 6 ? ", ..." : ""}`;
+  if (l.mode === "scores") return `scores mode: live ${l.liveColumn as string}${l.referenceColumns.length > 0 ? `, references ${l.referenceColumns.join(", ")}` : ""}; ${time}${ignored}`;
+  return `features mode: ${l.featureColumns.length} features (${l.featureColumns.slice(0, 3).join(", ")}${l.featureColumns.length > 3 ? ", ..." : ""}); ${time}${ignored}`;
+}
+
+/** leeway replay. */
+export async function runReplay(parsed: ParsedArguments, io: CliStreams): Promise<number> {
+  const configPath = stringFlag(parsed, "config");
+  const config: PipelineConfig = configPath === undefined ? defaultConfig() : parseConfig(await readTextFile(configPath, io), configPath);
+  const labels = await labelsFromFlag(parsed, io);
+  const outDir = stringFlag(parsed, "out");
+  const input = await openInput(parsed.positionals[0] as string, io);
+  const file = outDir === undefined ? null : await PartialFile.create(resolve(io.cwd, outDir, "decisions.ndjson"));
+  const sink = file === null ? new TextSink(io.stdout) : file.sink;
+  const collector = outDir === undefined ? null : new TimelineCollector({ columns: config.report.columns });
+  const timeline = labels === null ? null : new Timeline();
+  const progress = new ProgressBar(io.stderr, io.stderrIsTTY, input.size, "replay");
+  let engine: DecisionEngine | null = null;
+  let operator: ScriptedOperator | null = null;
+  let layout: StreamLayout | null = null;
+  let samples = 0;
+  let lastLine = 0;
+  try {
+    const lines = readLines(input.chunks, { name: input.name });
+    const batches = readSamples(lines, { name: input.name, mode: config.input.mode, ...(config.input.time === undefined ? {} : { timeColumn: config.input.time }), ...(config.input.columns === undefined ? {} : { columns: config.input.columns }) });
+    for await (const batch of batches) {
+      if (engine === null) {
+        layout = batch.layout;
+        if (layout.mode === "scores" && layout.referenceColumns.length > 2) {
+          throw new InputError(`${input.name}: at most two reference columns (commissioning, newest) are read; got ${layout.referenceColumns.join(", ")}`);
+        }
+        io.stderr.write(`replay: ${describeLayout(layout)}\n`);
+        engine = buildEngine(config, layout.mode === "features" ? layout.featureColumns.length : null);
+        if (config.operator.acknowledgeAfter !== null || config.operator.confirmAfter !== null) operator = new ScriptedOperator(engine, config.operator);
+      }
+      const l = layout as StreamLayout;
+      for (const row of batch.rows) {
+        lastLine = row.line;
+        let decision: Decision;
+        try {
+          decision = decide(engine, l, row);
+        } catch (error) {
+          if (error instanceof LeewayError) throw new InputError(`${input.name}:${row.line}: the engine refused this record: ${error.message} [${error.code}]`);
+          throw error;
+        }
+        operator?.after(decision);
+        const pending = sink.write(decisionLine(decision, row.time) + "\n");
+        if (pending !== undefined) await pending;
+        collector?.add(decision, row.time);
+        timeline?.record(decision);
+        samples++;
+      }
+      progress.update(batch.bytesRead, samples);
+    }
+    await sink.flush();
+  } catch (error) {
+    progress.done();
+    await sink.flush().catch(() => undefined);
+    if (file !== null) {
+      await file.abandon();
+      if (error instanceof CliError) throw new InputError(`${error.message}\nreplay stopped after ${samples} decisions (last good line ${lastLine}); they are in ${file.partialPath}, which is incomplete`);
+    } else if (error instanceof CliError) {
+      throw new InputError(`${error.message}\nreplay stopped after ${samples} decisions (last good line ${lastLine}); the decisions written are incomplete`);
+    }
+    throw error;
+  }
+  progress.done();
+  const metrics = timeline !== null && labels !== null ? metricsOf(timeline, labels, stringFlag(parsed, "labels") as string) : null;
+  if (file !== null && collector !== null) {
+    await file.commit();
+    const drawn = collector.result();
+    const reportPath = resolve(io.cwd, outDir as string, "report.html");
+    await writeWholeFile(
+      reportPath,
+      renderReport({
+        title: config.report.title,
+        subtitle: `Replay of ${input.name} (${describeLayout(layout as StreamLayout)}).`,
+        timeline: drawn,
+        ...(labels === null ? {} : { events: labels.events }),
+        ...(metrics === null ? {} : { metrics: reportMetrics(metrics) }),
+        facts: [["input", input.name], ["config", configPath ?? "defaults"], ["labels", stringFlag(parsed, "labels") ?? "none"]],
+        version: leewayVersion(),
+      }),
+    );
+    io.stdout.write(`replayed ${samples} samples: ${countsText(drawn)}\n\ndecision changes:\n${timelineText(drawn)}\n`);
+    if (metrics !== null) io.stdout.write(`\nmetrics against ${stringFlag(parsed, "labels") as string}:\n${metricsText(metrics)}\n`);
+    io.stdout.write(`\nwrote ${file.path}\nwrote ${reportPath}\n`);
+  } else {
+    io.stderr.write(`replay: ${samples} decisions written\n`);
+    if (metrics !== null) io.stderr.write(`metrics against ${stringFlag(parsed, "labels") as string}:\n${metricsText(metrics)}\n`);
+  }
+  return 0;
+}

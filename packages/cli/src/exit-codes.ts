@@ -1,0 +1,47 @@
+/**
+ * The exit codes of the `leeway` command. Scripts may rely on them; they never
+ * change meaning between versions.
+ *
+ * | code | meaning |
+ * |---|---|
+ * | 0 | success |
+ * | 2 | usage error: unknown subcommand or flag, a missing or malformed argument |
+ * | 3 | input error: a file that cannot be read, malformed CSV/NDJSON/JSON, an invalid config, a sample the pipeline refuses |
+ * | 4 | internal error: a fault in leeway itself (please report it with the command line) |
+ */
+export const EXIT_OK = 0;
+export const EXIT_USAGE = 2;
+export const EXIT_INPUT = 3;
+export const EXIT_INTERNAL = 4;
+
+/** An error the command reports to the user with a chosen exit code (no stack trace). */
+export class CliError extends Error {
+  readonly exitCode: number;
+  constructor(exitCode: number, message: string) {
+    super(message);
+    this.name = new.target.name;
+    this.exitCode = exitCode;
+  }
+}
+
+/**
+ * A command line the command cannot run: exit code 2.
+ * @example
+ * new UsageError("unknown flag --scal; did you mean --scale?").exitCode; // 2
+ */
+export class UsageError extends CliError {
+  constructor(message: string) {
+    super(EXIT_USAGE, message);
+  }
+}
+
+/**
+ * Input the command cannot use (a file, a config, a malformed record): exit code 3.
+ * @example
+ * new InputError("scores.csv:12:7: expected a number, got \"n/a\"").exitCode; // 3
+ */
+export class InputError extends CliError {
+  constructor(message: string) {
+    super(EXIT_INPUT, message);
+  }
+}

@@ -1,0 +1,292 @@
+import { InputError } from "../exit-codes.js";
+import { csvFieldColumn, isNaNWord, parseNumberCell, splitCsvLine } from "./csv.js";
+import type { LineBatch } from "./lines.js";
+import { recordError, showCell } from "./position.js";
+
+/** How the columns of a stream are read. */
+export type StreamMode = "scores" | "features";
+
+/**
+ * What a stream's header (CSV) or first record (NDJSON) says about its columns.
+ * In `"scores"` mode `values[0]` of a row is the live score and the rest are
+ * reference scores, in the order of `referenceColumns`; in `"features"` mode
+ * `values` is the feature vector, in the order of `featureColumns`.
+ */
+export interface StreamLayout {
+  format: "csv" | "ndjson";
+  mode: StreamMode;
+  /** The column carried through as time, or null. */
+  timeColumn: string | null;
+  /** Scores mode: the live score's column. */
+  liveColumn: string | null;
+  /** Scores mode: the reference scores' columns. */
+  referenceColumns: string[];
+  /** Features mode: the feature columns (an NDJSON array field `x` gives `x[0]`, `x[1]`, ...). */
+  featureColumns: string[];
+  /** Columns present but not used (not numeric, or beside `score`/`live`). */
+  ignoredColumns: string[];
+  /** True when the CSV had no header row (every field of the first line was a number). */
+  headerless: boolean;
+}
+
+/** One record of the stream. */
+export interface SampleRow {
+  /** 1-based line number in the input. */
+  line: number;
+  /** The time column's value, or null. */
+  time: string | number | null;
+  /** Scores mode: [live, ...references]; features mode: the feature vector. */
+  values: Float64Array;
+}
+
+/** A batch of rows with the layout they follow. */
+export interface SampleBatch {
+  layout: StreamLayout;
+  rows: SampleRow[];
+  bytesRead: number;
+}
+
+/** Options of {@link readSamples}. */
+export interface ReadSamplesOptions {
+  /** Name of the input in error messages. */
+  name: string;
+  /** `"auto"` (default) infers the mode from the columns. */
+  mode?: "auto" | StreamMode;
+  /** The time column's name; `undefined` looks for time, timestamp, datetime, date or t; null means none. */
+  timeColumn?: string | null;
+  /** Only these columns (features mode, or the live column in scores mode); default every numeric column. */
+  columns?: readonly string[];
+}
+
+const TIME_NAMES = ["time", "timestamp", "datetime", "date", "t"];
+
+/**
+ * Reads samples from CSV (a header row; or none when the first line is all
+ * numbers) or NDJSON (one JSON object per line; detected by a leading `{`),
+ * streaming batch by batch in constant memory. Blank lines and lines starting
+ * with `#` are skipped. Columns: a single numeric column, or columns named
+ * `score`/`live` and `ref…`, mean scores mode; otherwise every numeric column
+ * is a feature. Malformed records stop the stream with an {@link InputError}
+ * naming line, column and what was expected.
+ */
+export async function* readSamples(lines: AsyncIterable<LineBatch>, options: ReadSamplesOptions): AsyncGenerator<SampleBatch> {
+  const name = options.name;
+  let parser: RowParser | null = null;
+  let header: { names: string[]; line: number; format: "csv" | "ndjson"; headerless: boolean } | null = null;
+  for await (const batch of lines) {
+    const rows: SampleRow[] = [];
+    for (let k = 0; k < batch.lines.length; k++) {
+      const text = batch.lines[k] as string;
+      const line = batch.firstLine + k;
+      if (text.length === 0 || text.charCodeAt(0) === 35 /* # */ || text.trim().length === 0) continue;
+      if (header === null) {
+        header = readHeader(text, line, name);
+        if (!header.headerless) continue;
+      }
+      if (parser === null) parser = makeParser(header, text, line, options);
+      rows.push(parser.parse(text, line));
+    }
+    if (parser !== null && rows.length > 0) yield { layout: parser.layout, rows, bytesRead: batch.bytesRead };
+  }
+  if (header === null) throw new InputError(`${name}: the input is empty; expected a CSV header row or NDJSON records`);
+  if (parser === null) throw new InputError(`${name}: the input has a header (line ${header.line}) but no records`);
+}
+
+function readHeader(text: string, line: number, name: string): { names: string[]; line: number; format: "csv" | "ndjson"; headerless: boolean } {
+  const lead = text.trimStart()[0];
+  if (lead === "{" || lead === "[") return { names: [], line, format: "ndjson", headerless: true };
+  const fields = splitCsvLine(text, name, line);
+  const headerless = fields.every((f) => !Number.isNaN(parseNumberCell(f)) || isNaNWord(f));
+  if (headerless) return { names: fields.map((_, i) => `column${i + 1}`), line, format: "csv", headerless };
+  const names = fields.map((f) => f.trim());
+  const seen = new Set<string>();
+  names.forEach((n, i) => {
+    if (n.length === 0) throw recordError(name, line, csvFieldColumn(text, i), `header field ${i + 1} is empty; expected a column name`);
+    if (seen.has(n)) throw recordError(name, line, csvFieldColumn(text, i), `column name ${JSON.stringify(n)} appears twice; expected unique names`);
+    seen.add(n);
+  });
+  return { names, line, format: "csv", headerless };
+}
+
+interface RowParser {
+  layout: StreamLayout;
+  parse(text: string, line: number): SampleRow;
+}
+
+/** Chooses the layout from the column names and the first record's values. */
+function chooseLayout(
+  format: "csv" | "ndjson",
+  names: readonly string[],
+  isNumeric: (column: string) => boolean,
+  options: ReadSamplesOptions,
+  headerless: boolean,
+): StreamLayout {
+  const where = options.name;
+  let timeColumn: string | null = null;
+  if (options.timeColumn === undefined) timeColumn = names.find((n) => TIME_NAMES.includes(n.toLowerCase())) ?? null;
+  else if (options.timeColumn !== null) {
+    if (!names.includes(options.timeColumn)) throw new InputError(`${where}: the time column ${JSON.stringify(options.timeColumn)} is not among the columns (${names.join(", ")})`);
+    timeColumn = options.timeColumn;
+  }
+  const rest = names.filter((n) => n !== timeColumn);
+  if (options.columns !== undefined) {
+    for (const c of options.columns) if (!rest.includes(c)) throw new InputError(`${where}: the column ${JSON.stringify(c)} named in the config is not among the columns (${names.join(", ")})`);
+  }
+  const mode = options.mode ?? "auto";
+  const live = rest.find((n) => n.toLowerCase() === "score" || n.toLowerCase() === "live") ?? null;
+  if (mode !== "features" && live !== null && options.columns === undefined) {
+    const referenceColumns = rest.filter((n) => n !== live && /^ref/i.test(n));
+    for (const c of [live, ...referenceColumns]) if (!isNumeric(c)) throw new InputError(`${where}: the first record's ${JSON.stringify(c)} is not a number; expected numeric scores`);
+    return layout(format, "scores", timeColumn, live, referenceColumns, [], rest.filter((n) => n !== live && !referenceColumns.includes(n)), headerless);
+  }
+  const chosen = options.columns ?? rest;
+  const numeric = chosen.filter(isNumeric);
+  const ignored = rest.filter((n) => !numeric.includes(n));
+  if (options.columns !== undefined && numeric.length < chosen.length) {
+    const bad = chosen.find((c) => !isNumeric(c)) as string;
+    throw new InputError(`${where}: the column ${JSON.stringify(bad)} named in the config is not numeric in the first record`);
+  }
+  if (numeric.length === 0) throw new InputError(`${where}: no numeric column found in the first record; expected scores or features`);
+  if (mode === "scores" || (mode === "auto" && numeric.length === 1)) {
+    if (numeric.length > 1) throw new InputError(`${where}: scores mode needs one column or columns named score/live and ref…; got ${numeric.length} numeric columns (${numeric.slice(0, 5).join(", ")}${numeric.length > 5 ? ", ..." : ""})`);
+    return layout(format, "scores", timeColumn, numeric[0] as string, [], [], ignored, headerless);
+  }
+  return layout(format, "features", timeColumn, null, [], numeric, ignored, headerless);
+}
+
+function layout(
+  format: "csv" | "ndjson",
+  mode: StreamMode,
+  timeColumn: string | null,
+  liveColumn: string | null,
+  referenceColumns: string[],
+  featureColumns: string[],
+  ignoredColumns: string[],
+  headerless: boolean,
+): StreamLayout {
+  return { format, mode, timeColumn, liveColumn, referenceColumns, featureColumns, ignoredColumns, headerless };
+}
+
+function usedColumns(l: StreamLayout): string[] {
+  return l.mode === "scores" ? [l.liveColumn as string, ...l.referenceColumns] : l.featureColumns;
+}
+
+function makeParser(
+  header: { names: string[]; format: "csv" | "ndjson"; headerless: boolean },
+  firstText: string,
+  firstLine: number,
+  options: ReadSamplesOptions,
+): RowParser {
+  return header.format === "csv" ? csvParser(header.names, header.headerless, firstText, firstLine, options) : ndjsonParser(firstText, firstLine, options);
+}
+
+function csvParser(names: string[], headerless: boolean, firstText: string, firstLine: number, options: ReadSamplesOptions): RowParser {
+  const name = options.name;
+  const first = splitCsvLine(firstText, name, firstLine);
+  const isNumeric = (column: string): boolean => {
+    const cell = first[names.indexOf(column)];
+    return cell !== undefined && (!Number.isNaN(parseNumberCell(cell)) || isNaNWord(cell));
+  };
+  const chosen = chooseLayout("csv", names, isNumeric, options, headerless);
+  const indices = Int32Array.from(usedColumns(chosen), (c) => names.indexOf(c));
+  const timeIndex = chosen.timeColumn === null ? -1 : names.indexOf(chosen.timeColumn);
+  const width = names.length;
+  return {
+    layout: chosen,
+    parse(text: string, line: number): SampleRow {
+      const fields = splitCsvLine(text, name, line);
+      if (fields.length !== width) {
+        const column = fields.length > width ? csvFieldColumn(text, width) : text.length + 1;
+        throw recordError(name, line, column, `expected ${width} fields (${names.length <= 6 ? names.join(", ") : `${names.slice(0, 5).join(", ")}, ...`}), got ${fields.length}`);
+      }
+      const values = new Float64Array(indices.length);
+      for (let j = 0; j < indices.length; j++) {
+        const field = indices[j] as number;
+        const cell = fields[field] as string;
+        const v = parseNumberCell(cell);
+        if (v !== v && !isNaNWord(cell)) throw recordError(name, line, csvFieldColumn(text, field), `field ${field + 1} (${JSON.stringify(names[field])}): expected a number, got ${showCell(cell)}`);
+        values[j] = v;
+      }
+      let time: string | number | null = null;
+      if (timeIndex >= 0) {
+        const cell = (fields[timeIndex] as string).trim();
+        const t = parseNumberCell(cell);
+        time = Number.isNaN(t) ? cell : t;
+      }
+      return { line, time, values };
+    },
+  };
+}
+
+function parseJsonRecord(text: string, name: string, line: number): Record<string, unknown> {
+  let value: unknown;
+  try {
+    value = JSON.parse(text);
+  } catch (error) {
+    const message = error instanceof Error ? error.message : String(error);
+    const position = /position (\d+)/.exec(message);
+    const column = position === null ? 1 : Number(position[1]) + 1;
+    throw recordError(name, line, column, `expected one JSON object per line (${message.replace(/^Unexpected/, "unexpected")})`);
+  }
+  if (typeof value !== "object" || value === null || Array.isArray(value)) throw recordError(name, line, 1, "expected a JSON object (NDJSON records are objects)");
+  return value as Record<string, unknown>;
+}
+
+function keyColumn(text: string, key: string): number {
+  const at = text.indexOf(JSON.stringify(key));
+  return at < 0 ? 1 : at + 1;
+}
+
+function ndjsonParser(firstText: string, firstLine: number, options: ReadSamplesOptions): RowParser {
+  const name = options.name;
+  const first = parseJsonRecord(firstText, name, firstLine);
+  // Scalar keys are columns; an array of numbers under key k becomes columns k[0], k[1], ...
+  const names: string[] = [];
+  const vectors = new Map<string, number>();
+  for (const [key, value] of Object.entries(first)) {
+    if (Array.isArray(value)) {
+      vectors.set(key, value.length);
+      for (let i = 0; i < value.length; i++) names.push(`${key}[${i}]`);
+    } else names.push(key);
+  }
+  const isNumeric = (column: string): boolean => {
+    const m = /^(.*)\[(\d+)\]$/.exec(column);
+    const v = m !== null && vectors.has(m[1] as string) ? (first[m[1] as string] as unknown[])[Number(m[2])] : first[column];
+    return typeof v === "number";
+  };
+  const chosen = chooseLayout("ndjson", names, isNumeric, options, false);
+  // Each used column is read as record[key] or record[key][i].
+  const reads = usedColumns(chosen).map((column) => {
+    const m = /^(.*)\[(\d+)\]$/.exec(column);
+    return m !== null && vectors.has(m[1] as string) ? { key: m[1] as string, index: Number(m[2]), column } : { key: column, index: -1, column };
+  });
+  const timeColumn = chosen.timeColumn;
+  return {
+    layout: chosen,
+    parse(text: string, line: number): SampleRow {
+      const record = parseJsonRecord(text, name, line);
+      const values = new Float64Array(reads.length);
+      for (let j = 0; j < reads.length; j++) {
+        const r = reads[j] as { key: string; index: number; column: string };
+        let v = record[r.key];
+        if (r.index >= 0) {
+          if (!Array.isArray(v) || v.length !== vectors.get(r.key)) {
+            throw recordError(name, line, keyColumn(text, r.key), `"${r.key}": expected an array of ${vectors.get(r.key)} numbers, got ${Array.isArray(v) ? `${v.length} elements` : v === undefined ? "no such key" : typeof v}`);
+          }
+          v = v[r.index];
+        }
+        if (typeof v !== "number") {
+          throw recordError(name, line, v === undefined && r.index < 0 ? 1 : keyColumn(text, r.key), `"${r.column}": expected a number, got ${v === undefined ? "no such key" : JSON.stringify(v)}`);
+        }
+        values[j] = v;
+      }
+      let time: string | number | null = null;
+      if (timeColumn !== null) {
+        const t = record[timeColumn];
+        if (typeof t !== "string" && typeof t !== "number") throw recordError(name, line, keyColumn(text, timeColumn), `"${timeColumn}": expected a time (a number or a string), got ${t === undefined ? "no such key" : JSON.stringify(t)}`);
+        time = t;
+      }
+      return { line, time, values };
+    },
+  };
+}

@@ -1,0 +1,56 @@
+import { readFileSync } from "node:fs";
+import { describe, expect, it } from "vitest";
+import { schemaKeys } from "../../packages/cli/src/config-schema.js";
+import { buildEngine, CONFIG_FIELDS, defaultConfig, ENGINE_FIELDS, parseConfig } from "../../packages/cli/src/config.js";
+import { InputError } from "../../packages/cli/src/exit-codes.js";
+
+describe("pipeline config", () => {
+  it("defaults: auto mode and time column, no engine options (the engine's defaults apply)", () => {
+    const c = defaultConfig();
+    expect(c.input).toEqual({ mode: "auto", time: undefined, columns: undefined });
+    expect(c.engine).toEqual({});
+    expect(c.report).toEqual({ title: "leeway replay", columns: 1200 });
+  });
+  it("passes the engine options given, and only those", () => {
+    const c = parseConfig('{"engine": {"commissioning": 200, "retrain": "confirm"}, "input": {"time": "none"}}', "p.json");
+    expect(c.engine).toEqual({ commissioning: 200, retrain: "confirm" });
+    expect(c.input.time).toBeNull();
+  });
+  it("an unknown engine key is named with the nearest one suggested", () => {
+    expect(() => parseConfig('{"engine": {"comissioning": 200}}', "p.json")).toThrow('p.json:1:13: unknown key "engine.comissioning"; did you mean "engine.commissioning"?');
+  });
+  it("a value the engine refuses becomes an input error placed at its key", () => {
+    const text = '{\n "engine": {\n  "anomalyMargin": 1,\n  "anomalyExitMargin": 2\n }\n}';
+    const config = parseConfig(text, "p.json");
+    expect(() => buildEngine(config, null)).toThrow(InputError);
+    expect(() => buildEngine(config, null)).toThrow(/^p\.json:4:3: engine\.anomalyExitMargin: /);
+  });
+  it("features-only engine keys are refused in scores mode, at their key", () => {
+    const config = parseConfig('{"engine": {"hidden": 16}}', "p.json");
+    expect(() => buildEngine(config, null)).toThrow(/p\.json:1:13: engine\.hidden: .*score-only/);
+    expect(buildEngine(config, 8).mode).toBe("features");
+  });
+  it("docs/cli.md documents every config key", () => {
+    const doc = readFileSync(new URL("../../docs/cli.md", import.meta.url), "utf8");
+    for (const { key, field } of schemaKeys(CONFIG_FIELDS)) {
+      if (field.kind === "section") continue;
+      expect(doc, key).toContain(`\`${key}\``);
+    }
+  });
+  it("the engine section lists exactly the options the engine knows (as its refusal of an unknown one names them)", () => {
+    let known: string[] = [];
+    try {
+      buildEngine({ ...defaultConfig(), engine: { notAnOption: 1 } as never }, 4);
+    } catch (error) {
+      known = /known options \(([^)]*)\)/.exec((error as Error).message)?.[1]?.split(", ") ?? [];
+    }
+    expect(known.length).toBeGreaterThan(10);
+    expect(Object.keys(ENGINE_FIELDS).sort()).toEqual(known.filter((k) => k !== "inputs").sort());
+  });
+  it("every documented engine default is accepted by the engine", () => {
+    // Every engine key is accepted by a features-mode engine (it would throw on an unknown option).
+    const options: Record<string, unknown> = {};
+    for (const [key, field] of Object.entries(ENGINE_FIELDS)) if (field.kind !== "section" && field.default !== null) options[key] = field.default;
+    expect(() => buildEngine({ ...defaultConfig(), engine: options }, 4)).not.toThrow();
+  });
+});
