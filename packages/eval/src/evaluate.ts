@@ -16,9 +16,10 @@ import {
   type ScoreAreas,
   type ScoreMetrics,
 } from "./metrics.js";
-import { prAuc } from "./pr-auc.js";
+import { averagePrecisionSorted } from "./pr-auc.js";
 import { findEpisodes, findResponses, type Response } from "./responses.js";
-import { rocAuc } from "./roc-auc.js";
+import { mannWhitneySorted } from "./roc-auc.js";
+import { sortFloat64 } from "./sort-float64.js";
 import { runLengths } from "./run-lengths.js";
 import type { Timeline } from "./timeline.js";
 
@@ -212,34 +213,32 @@ function firstAtOrAfter(responses: readonly Response[], position: number): Respo
 }
 
 function scoreMetrics(timeline: Timeline, anomaly: ArrayLike<boolean>): ScoreMetrics {
-  const phases = timeline.phaseCodes();
-  const live = timeline.liveScores();
-  const reference = timeline.referenceScores();
-  const liveScores: number[] = [];
-  const liveLabels: boolean[] = [];
-  const refScores: number[] = [];
-  const refLabels: boolean[] = [];
-  for (let i = 0; i < timeline.length; i++) {
-    if (phases[i] === COMMISSIONING) continue;
-    const flag = anomaly[i] === true;
-    const l = live[i] as number;
-    const r = reference[i] as number;
-    if (Number.isFinite(l)) {
-      liveScores.push(l);
-      liveLabels.push(flag);
-    }
-    if (Number.isFinite(r)) {
-      refScores.push(r);
-      refLabels.push(flag);
-    }
-  }
-  return { samples: liveScores.length, positives: liveLabels.filter(Boolean).length, live: areas(liveScores, liveLabels), reference: areas(refScores, refLabels) };
+  const live = areas(timeline, timeline.liveScores(), anomaly);
+  const reference = areas(timeline, timeline.referenceScores(), anomaly);
+  return { samples: live.samples, positives: live.positives, live: live.areas, reference: reference.areas };
 }
 
-function areas(scores: number[], labels: boolean[]): ScoreAreas | null {
-  const positives = labels.filter(Boolean).length;
-  if (positives === 0 || positives === labels.length) return null;
-  return { rocAuc: rocAuc(scores, labels), prAuc: prAuc(scores, labels) };
+// Areas of one score over the samples outside commissioning with a finite score.
+function areas(timeline: Timeline, scores: Float64Array, anomaly: ArrayLike<boolean>): { samples: number; positives: number; areas: ScoreAreas | null } {
+  const phases = timeline.phaseCodes();
+  let positives = 0;
+  let negatives = 0;
+  for (let i = 0; i < scores.length; i++) {
+    if (phases[i] === COMMISSIONING || !Number.isFinite(scores[i] as number)) continue;
+    if (anomaly[i] === true) positives++;
+    else negatives++;
+  }
+  if (positives === 0 || negatives === 0) return { samples: positives + negatives, positives, areas: null };
+  const split = { positives: new Float64Array(positives), negatives: new Float64Array(negatives) };
+  for (let i = 0, p = 0, q = 0; i < scores.length; i++) {
+    const s = scores[i] as number;
+    if (phases[i] === COMMISSIONING || !Number.isFinite(s)) continue;
+    if (anomaly[i] === true) split.positives[p++] = s;
+    else split.negatives[q++] = s;
+  }
+  sortFloat64(split.positives);
+  sortFloat64(split.negatives);
+  return { samples: positives + negatives, positives, areas: { rocAuc: mannWhitneySorted(split).auc, prAuc: averagePrecisionSorted(split) } };
 }
 
 function emptyConfusion(): ConfusionTable {

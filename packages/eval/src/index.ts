@@ -28,5 +28,6 @@ export type { PoissonInterval } from "./poisson-interval.js";
 export { compare, comparisonRow } from "./compare.js";
 export type { Comparison, ComparisonRow, PolicyUnderTest, SuiteScenario } from "./compare.js";
 export { comparisonMarkdown } from "./comparison-table.js";
+export { sortFloat64 } from "./sort-float64.js";
 export { decimate, lowPassKernel } from "./decimate.js";
 export type { DecimateOptions } from "./decimate.js";

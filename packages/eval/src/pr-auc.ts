@@ -1,4 +1,4 @@
-import { splitScores } from "./split-scores.js";
+import { splitScores, type SplitScores } from "./split-scores.js";
 
 /**
  * Area under the precision–recall curve as average precision, exact:
@@ -18,7 +18,11 @@ import { splitScores } from "./split-scores.js";
  * // thresholds 0.8 (R ½, P 1), 0.4 (R ½), 0.35 (R 1, P ⅔): ½·1 + ½·⅔ = 0.8333…
  */
 export function prAuc(scores: ArrayLike<number>, labels: ArrayLike<boolean | number>): number {
-  const { positives, negatives } = splitScores("prAuc", scores, labels);
+  return averagePrecisionSorted(splitScores("prAuc", scores, labels));
+}
+
+/** {@link prAuc} of scores already split by label and sorted ascending. */
+export function averagePrecisionSorted({ positives, negatives }: SplitScores): number {
   const total = positives.length;
   let i = positives.length - 1; // walks positives from the top
   let j = negatives.length - 1; // walks negatives from the top

@@ -1,4 +1,4 @@
-import { splitScores } from "./split-scores.js";
+import { splitScores, type SplitScores } from "./split-scores.js";
 
 /** The Mann–Whitney statistic of positive over negative scores and the ROC AUC it equals. */
 export interface MannWhitney {
@@ -27,7 +27,11 @@ export interface MannWhitney {
  * // { u: 3, positives: 2, negatives: 2, auc: 0.75 }
  */
 export function mannWhitney(scores: ArrayLike<number>, labels: ArrayLike<boolean | number>): MannWhitney {
-  const { positives, negatives } = splitScores("mannWhitney", scores, labels);
+  return mannWhitneySorted(splitScores("mannWhitney", scores, labels));
+}
+
+/** {@link mannWhitney} of scores already split by label and sorted ascending. */
+export function mannWhitneySorted({ positives, negatives }: SplitScores): MannWhitney {
   const n1 = positives.length;
   const n0 = negatives.length;
   let u = 0;

@@ -1,5 +1,6 @@
 import { DimensionError, NonFiniteError, OptionError } from "@leeway/core";
 import { toFlags } from "./labels.js";
+import { sortFloat64 } from "./sort-float64.js";
 
 /** Scores of the positive and of the negative samples, each sorted ascending. */
 export interface SplitScores {
@@ -10,7 +11,8 @@ export interface SplitScores {
 /**
  * Splits scores by their labels (true or 1 = positive) and sorts each part
  * ascending. Refuses unequal lengths, non-finite scores, and labels without at
- * least one positive and one negative (no area is defined then).
+ * least one positive and one negative (no area is defined then). The sort is
+ * {@link sortFloat64}, O(n).
  */
 export function splitScores(component: string, scores: ArrayLike<number>, labels: ArrayLike<boolean | number>): SplitScores {
   if (labels.length !== scores.length) throw new DimensionError(component, "labels", scores.length, labels.length);
@@ -31,7 +33,7 @@ export function splitScores(component: string, scores: ArrayLike<number>, labels
     if (flags[i]) positives[p++] = s;
     else negatives[q++] = s;
   }
-  positives.sort();
-  negatives.sort();
+  sortFloat64(positives);
+  sortFloat64(negatives);
   return { positives, negatives };
 }

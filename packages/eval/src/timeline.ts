@@ -31,14 +31,28 @@ export class Timeline {
     return this.#length;
   }
 
+  // The last string seen per field and its code: consecutive decisions mostly repeat them.
+  #lastAction: string = ACTIONS[0] as string;
+  #lastActionCode = 0;
+  #lastCause: string = CAUSES[0] as string;
+  #lastCauseCode = 0;
+  #lastPhase: string = PHASES[0] as string;
+  #lastPhaseCode = 0;
+
   /** Appends one decision. Its action, cause and phase must be from the policy vocabulary. */
   record(decision: Decision): void {
-    const action = ACTIONS.indexOf(decision.action);
-    const cause = CAUSES.indexOf(decision.cause);
-    const phase = PHASES.indexOf(decision.phase);
-    if (action < 0) throw new OptionError("Timeline", "decision.action", decision.action, `one of ${ACTIONS.join(", ")}`);
-    if (cause < 0) throw new OptionError("Timeline", "decision.cause", decision.cause, `one of ${CAUSES.join(", ")}`);
-    if (phase < 0) throw new OptionError("Timeline", "decision.phase", decision.phase, `one of ${PHASES.join(", ")}`);
+    if (decision.action !== this.#lastAction) {
+      this.#lastActionCode = codeOf(ACTION_CODES, "decision.action", decision.action);
+      this.#lastAction = decision.action;
+    }
+    if (decision.cause !== this.#lastCause) {
+      this.#lastCauseCode = codeOf(CAUSE_CODES, "decision.cause", decision.cause);
+      this.#lastCause = decision.cause;
+    }
+    if (decision.phase !== this.#lastPhase) {
+      this.#lastPhaseCode = codeOf(PHASE_CODES, "decision.phase", decision.phase);
+      this.#lastPhase = decision.phase;
+    }
     const evidence = decision.evidence;
     const live = evidence.liveScore;
     if (typeof live !== "number") throw new OptionError("Timeline", "decision.evidence.liveScore", live, "a number");
@@ -46,9 +60,9 @@ export class Timeline {
     if (typeof first !== "number") throw new OptionError("Timeline", "decision.evidence.referenceScores[0]", first, "a number");
     if (this.#length === this.#actions.length) this.#grow();
     const i = this.#length++;
-    this.#actions[i] = action;
-    this.#causes[i] = cause;
-    this.#phases[i] = phase;
+    this.#actions[i] = this.#lastActionCode;
+    this.#causes[i] = this.#lastCauseCode;
+    this.#phases[i] = this.#lastPhaseCode;
     this.#live[i] = live;
     this.#reference[i] = first;
   }
@@ -125,6 +139,16 @@ export class Timeline {
     this.#live = grown(this.#live, new Float64Array(capacity));
     this.#reference = grown(this.#reference, new Float64Array(capacity));
   }
+}
+
+const ACTION_CODES = new Map<string, number>(ACTIONS.map((a, i) => [a, i]));
+const CAUSE_CODES = new Map<string, number>(CAUSES.map((c, i) => [c, i]));
+const PHASE_CODES = new Map<string, number>(PHASES.map((p, i) => [p, i]));
+
+function codeOf(codes: Map<string, number>, parameter: string, value: unknown): number {
+  const code = typeof value === "string" ? codes.get(value) : undefined;
+  if (code === undefined) throw new OptionError("Timeline", parameter, value, `one of ${[...codes.keys()].join(", ")}`);
+  return code;
 }
 
 function grown<T extends Uint8Array | Float64Array>(from: T, to: T): T {
