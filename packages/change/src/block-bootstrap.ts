@@ -11,6 +11,7 @@ export class BlockBootstrap {
   readonly #random: RandomSource;
   #position = 0; // next reference index to copy
   #left = 0; // values left in the current block
+  #uniforms = new Float64Array(64); // block starts drawn in bulk
 
   constructor(reference: Float64Array, blockLength: number, random: RandomSource) {
     this.#reference = reference;
@@ -24,9 +25,15 @@ export class BlockBootstrap {
     const starts = ref.length - this.#blockLength + 1;
     let pos = this.#position;
     let left = this.#left;
+    // exactly the blocks this fill starts, their uniforms drawn at once
+    const blocks = left >= length ? 0 : Math.ceil((length - left) / this.#blockLength);
+    if (this.#uniforms.length < blocks) this.#uniforms = new Float64Array(blocks);
+    const u = this.#uniforms;
+    this.#random.fillUniform(blocks === u.length ? u : u.subarray(0, blocks));
+    let next = 0;
     for (let i = 0; i < length; ) {
       if (left === 0) {
-        pos = this.#random.integer(starts);
+        pos = Math.floor((u[next++] as number) * starts);
         left = this.#blockLength;
       }
       const take = left < length - i ? left : length - i;

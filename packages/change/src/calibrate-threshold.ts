@@ -22,7 +22,7 @@ export interface CalibrationOptions {
   replicates?: number;
   /** Block length of the moving-block bootstrap (default round(n^(1/3)), at least 1; lengthen it for autocorrelated scores). */
   blockLength?: number;
-  /** Runs are stopped (censored) at this length (default 8·targetArl0). */
+  /** Runs are stopped (censored) at this length (default 5·targetArl0). */
   maxRunLength?: number;
   /** First threshold tried when no bracket is given (default 1). */
   initial?: number;
@@ -30,7 +30,7 @@ export interface CalibrationOptions {
   lower?: number;
   /** A threshold known to give an ARL0 above the target. */
   upper?: number;
-  /** Stop the bisection when upper/lower − 1 falls below this (default 1e-3). */
+  /** Stop the search when the bracket's upper/lower − 1 falls below this (default 1e-3). */
   tolerance?: number;
 }
 
@@ -76,7 +76,12 @@ const CHUNK = 4096;
  * ARL0(t) is estimated by the censored-geometric maximum likelihood Σ min(Tᵢ, cap) / #alarms (the plain
  * mean when nothing is censored). The same streams serve every threshold (common random numbers), so
  * the estimate is a monotone step function of t for tests whose alarms come later at higher thresholds;
- * the threshold is found by doubling or halving to a bracket and geometric bisection. The result's ARL0
+ * the threshold is found by doubling or halving to a bracket, geometric bisection to within 25 %, and
+ * the Illinois variant of regula falsi on ln(ARL0(t)/target) (the smallest threshold found whose
+ * estimate reaches the target is returned). An evaluation
+ * during the search stops as soon as its remaining runs can no longer move the estimate across the
+ * target (each adds between 1 and `maxRunLength` samples and at most one alarm), so thresholds far from
+ * the answer cost little. The result's ARL0
  * and interval are then re-estimated on independent streams: the interval is mean ± 1.96·s/√R without
  * censoring, and the exact interval of an exponential mean, 2T/χ²(2d, 0.975) … 2T/χ²(2d, 0.025)
  * (Wilson-Hilferty quantiles), when some runs were censored.
@@ -102,7 +107,7 @@ export function calibrateThreshold(
   const replicates = o.replicates === undefined ? 200 : integerInRange(NAME, "replicates", o.replicates, 10, 1e6);
   const n = reference.length;
   const blockLength = o.blockLength === undefined ? Math.max(1, Math.round(Math.cbrt(n))) : integerInRange(NAME, "blockLength", o.blockLength, 1, Math.floor(n / 2));
-  const cap = o.maxRunLength === undefined ? Math.ceil(8 * target) : integerInRange(NAME, "maxRunLength", o.maxRunLength, Math.ceil(target), 2 ** 40);
+  const cap = o.maxRunLength === undefined ? Math.ceil(5 * target) : integerInRange(NAME, "maxRunLength", o.maxRunLength, Math.ceil(target), 2 ** 40);
   const tolerance = o.tolerance === undefined ? 1e-3 : numberInRange(NAME, "tolerance", o.tolerance, { min: 1e-12, max: 1, minExclusive: false });
   const initial = o.initial === undefined ? 1 : positiveNumber(NAME, "initial", o.initial);
   let lower = o.lower === undefined ? null : positiveNumber(NAME, "lower", o.lower);
@@ -112,13 +117,13 @@ export function calibrateThreshold(
   const buffer = new Float64Array(Math.min(CHUNK, cap));
   let evaluations = 0;
   let samples = 0;
-  const evaluate = (threshold: number, label: string): RunSummary => {
+  const evaluate = (threshold: number, label: string, decide: number | null = null): RunSummary => {
     evaluations += 1;
-    const summary = runLengths(makeTest, threshold, reference, blockLength, replicates, cap, `${String(seed)}/${label}`, buffer);
+    const summary = runLengths(makeTest, threshold, reference, blockLength, replicates, cap, `${String(seed)}/${label}`, buffer, decide);
     samples += summary.samples;
     return summary;
   };
-  const reaches = (t: number): boolean => evaluate(t, "search").arl >= target;
+  const reaches = (t: number): boolean => evaluate(t, "search", target).arl >= target;
 
   // a bracket [lower, upper] with ARL0(lower) < target ≤ ARL0(upper)
   if (lower === null || upper === null) {
@@ -143,14 +148,45 @@ export function calibrateThreshold(
   }
   let lo = lower;
   let hi = upper;
-  for (let it = 0; it < 100 && hi / lo - 1 > tolerance; it++) {
+  // geometric bisection on decisions alone, down to a bracket within 25 %
+  for (let it = 0; it < 100 && hi / lo > 1.25 && hi / lo - 1 > tolerance; it++) {
     const mid = Math.sqrt(lo * hi);
     if (reaches(mid)) hi = mid;
     else lo = mid;
   }
-  const final = evaluate(hi, "estimate");
+  // then the Illinois variant of regula falsi on f(t) = ln(ARL0(t)/target), f(lo) < 0 ≤ f(hi)
+  const logRatio = (t: number): number => Math.log(Math.min(evaluate(t, "search").arl, cap * replicates) / target);
+  let best = hi;
+  if (hi / lo - 1 > tolerance) {
+    let fLo = logRatio(lo);
+    let fHi = logRatio(hi);
+    let bestGap = Math.abs(fHi);
+    let side = 0;
+    for (let it = 0; it < 30 && hi / lo - 1 > tolerance && bestGap > 1e-3; it++) {
+      let t = hi - (fHi * (hi - lo)) / (fHi - fLo);
+      if (!(t > lo && t < hi)) t = Math.sqrt(lo * hi);
+      const f = logRatio(t);
+      if (f >= 0) {
+        hi = t;
+        fHi = f;
+        if (side === 1) fLo /= 2;
+        side = 1;
+        if (f < bestGap) {
+          bestGap = f;
+          best = t;
+        }
+      } else {
+        lo = t;
+        fLo = f;
+        if (side === -1) fHi /= 2;
+        side = -1;
+      }
+    }
+    best = hi;
+  }
+  const final = evaluate(best, "estimate");
   return {
-    threshold: hi,
+    threshold: best,
     arl0: final.arl,
     interval: confidenceInterval(final, replicates),
     replicates,
@@ -170,6 +206,7 @@ function runLengths(
   cap: number,
   seed: string,
   buffer: Float64Array,
+  decide: number | null,
 ): RunSummary {
   let exposure = 0;
   let alarms = 0;
@@ -201,6 +238,15 @@ function runLengths(
       exposure += length;
       sumSquares += length * length;
       samples += length;
+    }
+    if (decide !== null) {
+      // Stop as soon as the remaining runs cannot change which side of `decide` the estimate falls:
+      // they add at least 1 and at most `cap` samples each, and at most one alarm each.
+      const remaining = replicates - r - 1;
+      const lowest = (exposure + remaining) / (alarms + remaining);
+      const highest = alarms > 0 ? (exposure + remaining * cap) / alarms : Infinity;
+      if (lowest >= decide) return { arl: lowest, exposure, alarms, censored, sumSquares, samples };
+      if (highest < decide) return { arl: highest, exposure, alarms, censored, sumSquares, samples };
     }
   }
   return { arl: alarms > 0 ? exposure / alarms : Infinity, exposure, alarms, censored, sumSquares, samples };
