@@ -11,3 +11,7 @@ export type { MannKendallResult } from "./mann-kendall.js";
 export { ksTwoSample, ksStatisticSorted, kolmogorovSurvival } from "./ks-two-sample.js";
 export type { KsResult } from "./ks-two-sample.js";
 export { erfc, normalSurvival } from "./normal-tail.js";
+export { P2Quantile } from "./p2-quantile.js";
+export type { P2QuantileOptions, P2QuantileReading, P2QuantileState } from "./p2-quantile.js";
+export { QuantileSketch } from "./quantile-sketch.js";
+export type { QuantileSketchOptions, QuantileSketchReading, QuantileSketchState } from "./quantile-sketch.js";
