@@ -67,8 +67,9 @@ export async function main(argv: readonly string[], io: CliStreams): Promise<num
     const command = COMMANDS.find((c) => c.spec.name === first);
     if (command === undefined) {
       const names = COMMANDS.map((c) => c.spec.name);
-      const what = first.startsWith("-") ? `unknown flag ${first}` : `unknown command ${JSON.stringify(first)}`;
-      io.stderr.write(`leeway: ${what}${suggestion(first.replace(/^-+/, ""), names)} (commands: ${names.join(", ")}; see leeway --help)\n`);
+      const flag = first.startsWith("-");
+      const what = flag ? `unknown flag ${first}${suggestion(first.replace(/^-+/, ""), ["version", "help"], (s) => `--${s}`)}` : `unknown command ${JSON.stringify(first)}${suggestion(first, names)}`;
+      io.stderr.write(`leeway: ${what} (commands: ${names.join(", ")}; see leeway --help)\n`);
       return EXIT_USAGE;
     }
     const parsed = parseArguments(command.spec, rest);
@@ -93,7 +94,13 @@ function reportError(error: unknown, io: CliStreams): number {
     return EXIT_INPUT;
   }
   const e = error instanceof Error ? error : new Error(String(error));
-  if ((e as NodeJS.ErrnoException).code === "EPIPE") return EXIT_OK;
+  const system = e as NodeJS.ErrnoException;
+  if (system.code === "EPIPE") return EXIT_OK;
+  if (typeof system.syscall === "string") {
+    // The operating system refused a read or a write (a vanished file, a full disk).
+    io.stderr.write(`leeway: ${e.message}\n`);
+    return EXIT_INPUT;
+  }
   io.stderr.write(`leeway: internal error: ${e.message}\n${e.stack ?? ""}\nThis is a fault in leeway; please report it with the command line that caused it.\n`);
   return EXIT_INTERNAL;
 }

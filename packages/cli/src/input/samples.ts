@@ -84,7 +84,13 @@ export async function* readSamples(lines: AsyncIterable<LineBatch>, options: Rea
         if (!header.headerless) continue;
       }
       if (parser === null) parser = makeParser(header, text, line, options);
-      rows.push(parser.parse(text, line));
+      try {
+        rows.push(parser.parse(text, line));
+      } catch (error) {
+        // The records before a malformed one are good: hand them over, then stop.
+        if (rows.length > 0) yield { layout: parser.layout, rows, bytesRead: batch.bytesRead };
+        throw error;
+      }
     }
     if (parser !== null && rows.length > 0) yield { layout: parser.layout, rows, bytesRead: batch.bytesRead };
   }

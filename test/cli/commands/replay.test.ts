@@ -1,0 +1,126 @@
+import { existsSync, readFileSync, writeFileSync } from "node:fs";
+import { join } from "node:path";
+import { describe, expect, it } from "vitest";
+import { DecisionEngine } from "@leeway/policy";
+import { decisionLine } from "../../../packages/cli/src/decision-log.js";
+import { runCli, scratchDir } from "../run-cli.js";
+import { scoreCsv, scoreRows, SHORT_ENGINE } from "../streams.js";
+
+function withConfig(dir: string, config: unknown): string {
+  const path = join(dir, "pipeline.json");
+  writeFileSync(path, JSON.stringify(config, null, 2));
+  return path;
+}
+
+describe("leeway replay", () => {
+  it("scores mode from stdin: one decision per row, exactly the engine's, with the time carried", async () => {
+    const dir = scratchDir("replay");
+    const config = withConfig(dir, { engine: SHORT_ENGINE });
+    const n = 1500;
+    const r = await runCli(["replay", "-", "--config", config], { stdin: scoreCsv(n, 3, 1.8, 900) });
+    expect(r.code, r.stderr).toBe(0);
+    expect(r.stderr).toContain("replay: scores mode: live score, references ref_commissioning; time column time");
+    const lines = r.stdout.trimEnd().split("\n");
+    expect(lines.length).toBe(n);
+    // The same engine fed directly gives the same decisions, line for line.
+    const engine = new DecisionEngine(SHORT_ENGINE);
+    const rows = scoreRows(n, 3, 1.8, 900);
+    // The CSV carries the numbers as printed by String(), which reads back exactly.
+    rows.forEach((row, i) => expect(lines[i]).toBe(decisionLine(engine.observeScores(row.live, [row.ref]), i)));
+    expect(lines.some((l) => !l.includes('"action":"learn"'))).toBe(true);
+  });
+
+  it("a file and the same bytes through stdin give identical output", async () => {
+    const dir = scratchDir("replay-file");
+    const path = join(dir, "scores.csv");
+    writeFileSync(path, scoreCsv(400, 5));
+    const config = withConfig(dir, { engine: SHORT_ENGINE });
+    const a = await runCli(["replay", path, "--config", config]);
+    const b = await runCli(["replay", "-", "--config", config], { stdin: readFileSync(path, "utf8") });
+    expect(a.code).toBe(0);
+    expect(a.stdout).toBe(b.stdout);
+  });
+
+  it("features mode from NDJSON vectors", async () => {
+    const dir = scratchDir("replay-features");
+    const config = withConfig(dir, { engine: { ...SHORT_ENGINE, hidden: 4, members: 2 } });
+    const text = Array.from({ length: 300 }, (_, i) => JSON.stringify({ t: i, x: [Math.sin(i), Math.cos(i), Math.sin(2 * i), 0.5 + 0.1 * Math.cos(3 * i)] })).join("\n");
+    const r = await runCli(["replay", "-", "--config", config], { stdin: text });
+    expect(r.code, r.stderr).toBe(0);
+    expect(r.stderr).toContain("features mode: 4 features (x[0], x[1], x[2], ...); time column t");
+    expect(r.stdout.trimEnd().split("\n").length).toBe(300);
+  });
+
+  it("a malformed record stops with exit code 3 at its line and column; only the decisions before it are written", async () => {
+    const good = scoreCsv(200, 7).trimEnd().split("\n");
+    good.splice(151, 0, "150.5,0.07,oops"); // line 152 of the input
+    const dir = scratchDir("replay-bad");
+    const config = withConfig(dir, { engine: SHORT_ENGINE });
+    const r = await runCli(["replay", "-", "--config", config], { stdin: good.join("\n") });
+    expect(r.code).toBe(3);
+    expect(r.stderr).toContain('stdin:152:12: field 3 ("ref_commissioning"): expected a number, got "oops"');
+    expect(r.stderr).toContain("replay stopped after 150 decisions (last good line 151); the decisions written are incomplete");
+    expect(r.stdout.trimEnd().split("\n").length).toBe(150);
+  });
+
+  it("with --out, a stopped replay leaves only decisions.ndjson.partial and no report", async () => {
+    const dir = scratchDir("replay-out-bad");
+    const r = await runCli(["replay", "-", "--out", join(dir, "run")], { stdin: "score\n0.1\n0.2\nx\n" });
+    expect(r.code).toBe(3);
+    expect(existsSync(join(dir, "run", "decisions.ndjson"))).toBe(false);
+    expect(existsSync(join(dir, "run", "report.html"))).toBe(false);
+    expect(readFileSync(join(dir, "run", "decisions.ndjson.partial"), "utf8").trimEnd().split("\n").length).toBe(2);
+    expect(r.stderr).toContain("decisions.ndjson.partial, which is incomplete");
+  });
+
+  it("with --out and --labels: decisions, a report with the metrics, and a printed summary", async () => {
+    const dir = scratchDir("replay-out");
+    const config = withConfig(dir, { engine: SHORT_ENGINE, report: { title: "PS-2 replay" } });
+    writeFileSync(join(dir, "labels.json"), JSON.stringify({ events: [{ cause: "concept-drift", start: 900, end: 1500, id: "compressor" }] }));
+    const r = await runCli(["replay", "-", "--config", config, "--labels", join(dir, "labels.json"), "--out", join(dir, "run")], { stdin: scoreCsv(1500, 3, 1.8, 900) });
+    expect(r.code, r.stderr).toBe(0);
+    expect(r.stdout).toContain("replayed 1500 samples");
+    expect(r.stdout).toContain("metrics against");
+    expect(r.stdout).toContain("compressor");
+    expect(readFileSync(join(dir, "run", "decisions.ndjson"), "utf8").trimEnd().split("\n").length).toBe(1500);
+    const html = readFileSync(join(dir, "run", "report.html"), "utf8");
+    expect(html).toContain("PS-2 replay");
+    expect(html).toContain('id="plot-events"');
+    expect(html).toContain("<caption>confusion</caption>");
+  });
+
+  it("a config with an unknown key or a refused value is an input error at its place", async () => {
+    const dir = scratchDir("replay-config");
+    const bad = join(dir, "bad.json");
+    writeFileSync(bad, '{\n  "engine": {\n    "comissioning": 100\n  }\n}\n');
+    const r = await runCli(["replay", "-", "--config", bad], { stdin: "score\n0.1\n" });
+    expect(r.code).toBe(3);
+    expect(r.stderr).toContain('bad.json:3:5: unknown key "engine.comissioning"; did you mean "engine.commissioning"?');
+    writeFileSync(bad, '{"engine": {"commissioning": 3}}');
+    const v = await runCli(["replay", "-", "--config", bad], { stdin: "score\n0.1\n" });
+    expect(v.code).toBe(3);
+    expect(v.stderr).toMatch(/bad\.json:1:13: engine\.commissioning: DecisionEngine: option commissioning must be/);
+  });
+
+  it("a sample the engine refuses (NaN under nonFinite refuse) is an input error naming its line; under skip it is held", async () => {
+    const r = await runCli(["replay", "-"], { stdin: "score\n0.1\nNaN\n" });
+    expect(r.code).toBe(3);
+    expect(r.stderr).toContain("stdin:3: the engine refused this record");
+    expect(r.stderr).toContain("E_NON_FINITE");
+    const dir = scratchDir("replay-skip");
+    const config = withConfig(dir, { engine: { nonFinite: "skip" } });
+    const s = await runCli(["replay", "-", "--config", config], { stdin: "score\n0.1\nNaN\n0.1\n" });
+    expect(s.code, s.stderr).toBe(0);
+    expect(s.stdout.trimEnd().split("\n")[1]).toContain('"action":"hold"');
+  });
+
+  it("a scripted operator acknowledges latched alarms when the config asks for one", async () => {
+    const dir = scratchDir("replay-operator");
+    const stream = scoreCsv(1200, 11, 30, 700);
+    const without = await runCli(["replay", "-", "--config", withConfig(dir, { engine: SHORT_ENGINE })], { stdin: stream });
+    const withOp = await runCli(["replay", "-", "--config", withConfig(dir, { engine: SHORT_ENGINE, operator: { acknowledgeAfter: 20 } })], { stdin: stream });
+    const latched = (text: string): number => text.split("\n").filter((l) => l.includes('"phase":"latched"')).length;
+    expect(latched(without.stdout)).toBeGreaterThan(0);
+    expect(latched(withOp.stdout)).toBeLessThan(latched(without.stdout));
+  });
+});
