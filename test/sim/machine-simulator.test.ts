@@ -16,6 +16,8 @@ import {
   PS2_DRIVE_END_BEARING,
   type Scenario,
 } from "@leeway/sim";
+import { expectLeewayError, throughJson } from "../support/errors.js";
+import { expectRefusesCorruptions } from "../support/snapshot-corruption.js";
 
 function bytesOf(arrays: Float64Array[]): Uint8Array {
   const out = new Uint8Array(arrays.reduce((n, a) => n + a.byteLength, 0));
@@ -265,5 +267,47 @@ describe("MachineSimulator", () => {
     const k: number[] = [];
     for (let f = sim.frame(); f !== null; f = sim.frame()) k.push(kurt(f.frame));
     expect(Math.min(...k.slice(20))).toBeGreaterThan(Math.max(...k.slice(0, 20)));
+  });
+});
+
+describe("MachineSimulator snapshots", () => {
+  it("snapshot/restore through JSON continues with identical bytes and truth, at any point", () => {
+    for (const cut of [0, 1, 37, 120]) {
+      const a = new MachineSimulator(harbourLane({ scale: 1, seed: 3 }));
+      for (let i = 0; i < cut; i++) a.next();
+      const b = MachineSimulator.restore(throughJson(a.snapshot()));
+      expect(b.index).toBe(cut);
+      for (let s = a.next(); s !== null; s = a.next()) {
+        const t = b.next();
+        expect(t?.truth).toEqual(s.truth);
+        expect(Buffer.from((t?.spectrum ?? new Float64Array(0)).buffer).equals(Buffer.from(s.spectrum.buffer))).toBe(true);
+      }
+      expect(b.next()).toBeNull();
+    }
+  });
+
+  it("refuses corrupted snapshots whole", () => {
+    const sim = new MachineSimulator(
+      defineScenario({
+        length: 50,
+        seed: 2,
+        schedule: [
+          { start: 0, mode: "mid", rpm: 1485 },
+          { start: 20, mode: "high", rpm: 2970 },
+        ],
+        events: [
+          { type: "environment-shift", start: 5, tones: [{ frequency: 30, amplitude: 0.1 }] },
+          { type: "fault", start: 10, end: 12, fault: "clog" },
+        ],
+      }),
+    );
+    for (let i = 0; i < 7; i++) sim.next();
+    expectRefusesCorruptions((s) => MachineSimulator.restore(s), sim.snapshot(), {
+      sizePaths: [["index"], ["scenario", "length"]],
+      variableLengthPaths: [["scenario", "schedule"], ["scenario", "events"], ["scenario", "machine", "harmonics"], ["scenario", "machine", "vanePass"], ["scenario", "events", 0, "tones"]],
+    });
+    const other = sim.snapshot();
+    other.state.random = new MachineSimulator(stationaryNull({ length: 100, seed: 9 })).snapshot().state.random;
+    expectLeewayError(() => MachineSimulator.restore(other), "E_SNAPSHOT", "random", "seed");
   });
 });

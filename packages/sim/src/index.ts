@@ -18,7 +18,7 @@ export type {
 export { truthEvents } from "./truth.js";
 export type { SampleTruth, TruthEvent } from "./truth.js";
 export { MachineSimulator, degradationSeverity } from "./machine-simulator.js";
-export type { SimulatedSpectrum, SimulatedFrame } from "./machine-simulator.js";
+export type { SimulatedSpectrum, SimulatedFrame, MachineSimulatorState } from "./machine-simulator.js";
 export { stationaryNull, conceptDrift, slowDegradation, driftThenDegradation, recurringModes, abruptFault, SUITE_DEFAULT_LENGTH, SPEEDS } from "./suite-presets.js";
 export type { SuitePresetOptions } from "./suite-presets.js";
 export { harbourLane, HARBOUR_LANE_DAYS, HARBOUR_LANE_DAY } from "./harbour-lane.js";

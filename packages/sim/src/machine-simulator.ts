@@ -1,4 +1,4 @@
-import { RandomSource } from "@leeway/core";
+import { LeewayError, RandomSource, SnapshotError, envelope, openSnapshot, type RandomSourceState, type Snapshot } from "@leeway/core";
 import { SpectrumAnalyzer, reduceBins } from "@leeway/signal";
 import { bearingOrders, type BearingOrders } from "./bearing.js";
 import { defineScenario, type DegradationEvent, type Scenario, type ScenarioEvent, type ScenarioSpec } from "./scenario.js";
@@ -66,7 +66,7 @@ export class MachineSimulator {
   readonly scenario: Scenario;
   /** The scenario's events in start order. */
   readonly events: TruthEvent[];
-  readonly #rng: RandomSource;
+  #rng: RandomSource;
   readonly #bank: Float64Array;
   readonly #frame: Float64Array;
   readonly #defect: Float64Array; // scratch: a defect's lines before modulation
@@ -104,6 +104,54 @@ export class MachineSimulator {
     const shifts = s.events.map((e, i) => ({ e, i })).filter((x) => x.e.type === "environment-shift");
     shifts.sort((a, b) => a.e.start - b.e.start || a.i - b.i).forEach((x, k) => (order[x.i] = k + 1));
     this.#environmentOrdinal = order;
+  }
+
+  static readonly kind = "leeway.sim.machine-simulator";
+  static readonly version = 1;
+
+  /**
+   * The whole state as plain data: the scenario, the next index and the
+   * random source. {@link MachineSimulator.restore} continues with the same
+   * bytes as this simulator would.
+   */
+  snapshot(): Snapshot<MachineSimulatorState> {
+    return envelope(MachineSimulator.kind, MachineSimulator.version, {
+      scenario: JSON.parse(JSON.stringify(this.scenario)) as Scenario,
+      index: this.#index,
+      random: this.#rng.snapshot(),
+    });
+  }
+
+  /**
+   * Rebuilds a simulator from {@link MachineSimulator.snapshot}. The scenario
+   * must be in the complete form {@link defineScenario} returns (every field
+   * present, nothing left to a default), so a damaged scenario is refused
+   * instead of silently completed.
+   */
+  static restore(snapshot: unknown): MachineSimulator {
+    const r = openSnapshot(snapshot, MachineSimulator.kind, MachineSimulator.version);
+    const raw = r.raw("scenario");
+    let scenario: Scenario;
+    try {
+      scenario = defineScenario(raw as ScenarioSpec);
+    } catch (error) {
+      if (error instanceof LeewayError) r.fail("scenario", `is not a valid scenario (${error.message})`);
+      throw error;
+    }
+    if (!sameData(scenario, raw)) r.fail("scenario", "must be a complete scenario as defineScenario returns it (a field is missing or out of place)");
+    const index = r.integer("index", 0, scenario.length);
+    let random: RandomSource;
+    try {
+      random = RandomSource.restore(r.raw("random"));
+    } catch (error) {
+      if (error instanceof SnapshotError) r.fail("random", `is not a valid random source (${error.message})`);
+      throw error;
+    }
+    if (random.seed !== String(scenario.seed)) r.fail("random", `must come from the scenario's seed ${JSON.stringify(String(scenario.seed))}, got seed ${JSON.stringify(random.seed)}`);
+    const sim = new MachineSimulator(scenario);
+    sim.#rng = random;
+    sim.#index = index;
+    return sim;
   }
 
   /** Samples in the scenario. */
@@ -257,6 +305,28 @@ export class MachineSimulator {
         return o.ftf;
     }
   }
+}
+
+/** The plain state of a {@link MachineSimulator}. */
+export interface MachineSimulatorState {
+  scenario: Scenario;
+  index: number;
+  random: Snapshot<RandomSourceState>;
+}
+
+/** Structural equality of plain JSON data (objects compared key by key, in any order). */
+function sameData(a: unknown, b: unknown): boolean {
+  if (a === b) return true;
+  if (typeof a !== "object" || typeof b !== "object" || a === null || b === null) return false;
+  if (Array.isArray(a) !== Array.isArray(b)) return false;
+  const ka = Object.keys(a);
+  const kb = Object.keys(b);
+  if (ka.length !== kb.length) return false;
+  for (const k of ka) {
+    if (!Object.prototype.hasOwnProperty.call(b, k)) return false;
+    if (!sameData((a as Record<string, unknown>)[k], (b as Record<string, unknown>)[k])) return false;
+  }
+  return true;
 }
 
 /**
