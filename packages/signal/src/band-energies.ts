@@ -18,8 +18,10 @@ export interface BandEnergiesOptions {
  * edge). The bin ranges are computed once.
  * Method: band power by summing ENBW-corrected bins (common practice, no source).
  * @example
- * const bands = new BandEnergies({ edges: [0, 100, 1000], size: 1024, sampleRate: 5120 });
- * bands.compute(power); // Float64Array [E(0–100 Hz), E(100–1000 Hz)]
+ * const bands = new BandEnergies({ edges: [50, 150, 800, 1200], size: 1024, sampleRate: 5120 });
+ * const sa = new SpectrumAnalyzer({ size: 1024, sampleRate: 5120 });
+ * const x = new Float64Array(1024).map((_, t) => 2 * Math.sin((2 * Math.PI * 100 * t) / 5120));
+ * bands.compute(sa.power(x)); // ≈ [2, 0, 0]: the 100 Hz sine's mean square A²/2 in the first band
  */
 export class BandEnergies {
   /** The band edges in Hz. */
