@@ -62,6 +62,7 @@ export interface AdwinState {
   bucketM2: number[];
   width: number;
   total: number;
+  windowMean: number;
   m2: number;
   sinceCheck: number;
   statistic: number;
@@ -112,6 +113,7 @@ export class Adwin implements ChangeTest {
   #levels = 0; // levels in use
   #width = 0; // W, samples in the window
   #total = 0; // Σ of the window
+  #windowMean = 0; // μ̂_W, kept by Welford's update (the mean reported is #total/W, exact on integers)
   #m2 = 0; // Σ (x − μ̂_W)² of the window
   #sinceCheck = 0;
   #statistic = 0;
@@ -198,6 +200,7 @@ export class Adwin implements ChangeTest {
     this.#levels = 0;
     this.#width = 0;
     this.#total = 0;
+    this.#windowMean = 0;
     this.#m2 = 0;
     this.#sinceCheck = 0;
     this.#statistic = 0;
@@ -229,6 +232,7 @@ export class Adwin implements ChangeTest {
       bucketM2,
       width: this.#width,
       total: this.#total,
+      windowMean: this.#windowMean,
       m2: this.#m2,
       sinceCheck: this.#sinceCheck,
       statistic: this.#statistic,
@@ -256,6 +260,7 @@ export class Adwin implements ChangeTest {
     const skipped = r.integer("skipped", 0, Number.MAX_SAFE_INTEGER);
     const width = r.integer("width", 0, count);
     const total = r.number("total");
+    const windowMean = r.number("windowMean");
     const m2 = r.numberIn("m2", 0, Number.MAX_VALUE);
     const sinceCheck = r.integer("sinceCheck", 0, checkPeriod - 1);
     const statistic = r.numberIn("statistic", 0, Number.MAX_VALUE);
@@ -276,6 +281,7 @@ export class Adwin implements ChangeTest {
     test.#levels = levelCounts.length;
     test.#width = width;
     test.#total = total;
+    test.#windowMean = windowMean;
     test.#m2 = m2;
     test.#sinceCheck = sinceCheck;
     test.#statistic = statistic;
@@ -307,17 +313,12 @@ export class Adwin implements ChangeTest {
 
   /** Welford update of the window and a new bucket of size 1, then the histogram's merges. */
   #insert(x: number): void {
-    const w = this.#width;
-    if (w === 0) {
-      this.#total = x;
-      this.#m2 = 0;
-    } else {
-      const oldMean = this.#total / w;
-      this.#total += x;
-      const newMean = this.#total / (w + 1);
-      this.#m2 += (x - oldMean) * (x - newMean);
-    }
-    this.#width = w + 1;
+    const w = this.#width + 1;
+    const d = x - this.#windowMean;
+    this.#windowMean += d / w;
+    this.#m2 += d * (x - this.#windowMean);
+    this.#total += x;
+    this.#width = w;
     const cap = this.#cap;
     const counts = this.#levelCounts;
     const totals = this.#totals;
@@ -363,14 +364,17 @@ export class Adwin implements ChangeTest {
     const rest = w - nb;
     if (rest === 0) {
       this.#total = 0;
+      this.#windowMean = 0;
       this.#m2 = 0;
     } else {
+      // Chan, Golub & LeVeque (1979), run backwards: M₂ = M₂,rest + M₂,b + d²·n_rest·n_b/n
       const meanRest = (this.#total - tb) / rest;
       const meanB = tb / nb;
       const d = meanB - meanRest;
       const m2 = this.#m2 - m2b - (d * d * rest * nb) / w;
       this.#m2 = m2 > 0 ? m2 : 0;
       this.#total -= tb;
+      this.#windowMean = meanRest;
     }
     this.#width = rest;
     const c = this.#levelCounts[top] as number;
@@ -396,13 +400,16 @@ export class Adwin implements ChangeTest {
     const hoeffding = this.#bound === "hoeffding";
     // ln(2/δ′) or ln(4/δ′) with δ′ = δ/W
     const logTerm = Math.log(((hoeffding ? 4 : 2) * w) / this.#delta);
+    // ε_cut = √(a/m) + c/m with a, c fixed for this check
+    const a = hoeffding ? 0.5 * logTerm : 2 * variance * logTerm;
+    const c3 = hoeffding ? 0 : (2 / 3) * logTerm;
     const threshold = this.#threshold;
     const cap = this.#cap;
     let best = 0;
     let n0 = 0;
     let s0 = 0;
-    for (let l = this.#levels - 1; l >= 0; l--) {
-      const size = 2 ** l;
+    let size = 2 ** (this.#levels - 1);
+    for (let l = this.#levels - 1; l >= 0; l--, size /= 2) {
       const c = this.#levelCounts[l] as number;
       for (let b = 0; b < c; b++) {
         n0 += size;
@@ -413,11 +420,11 @@ export class Adwin implements ChangeTest {
           return 0;
         }
         if (n0 < minSub) continue;
-        const invM = 1 / n0 + 1 / n1; // 1/m
-        const eps = hoeffding
-          ? Math.sqrt(0.5 * invM * logTerm)
-          : Math.sqrt(2 * invM * variance * logTerm) + ((2 / 3) * invM * logTerm);
-        const diff = (total - s0) / n1 - s0 / n0; // μ̂₁ − μ̂₀
+        const r0 = 1 / n0;
+        const r1 = 1 / n1;
+        const invM = r0 + r1; // 1/m
+        const eps = Math.sqrt(a * invM) + c3 * invM;
+        const diff = (total - s0) * r1 - s0 * r0; // μ̂₁ − μ̂₀
         const ratio = Math.abs(diff) / eps;
         if (ratio > best) best = ratio;
         if (ratio >= threshold) {

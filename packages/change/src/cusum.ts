@@ -178,11 +178,15 @@ export class Cusum implements ChangeTest {
     }
     const z = (x - this.#mean) * this.#invSigma;
     let up = this.#upper + (z - this.#k);
-    up = up > 0 ? up : 0;
     let lo = this.#lower + (-z - this.#k);
-    lo = lo > 0 ? lo : 0;
-    if (up === 0) this.#upperZero = i;
-    if (lo === 0) this.#lowerZero = i;
+    if (up <= 0) {
+      up = 0;
+      this.#upperZero = i;
+    }
+    if (lo <= 0) {
+      lo = 0;
+      this.#lowerZero = i;
+    }
     this.#upper = up;
     this.#lower = lo;
     return this.#reading(i);
@@ -203,27 +207,30 @@ export class Cusum implements ChangeTest {
     let lo = this.#lower;
     let uz = this.#upperZero;
     let lz = this.#lowerZero;
-    let count = this.#count;
     let skipped = this.#skipped;
+    let idx = this.#count + skipped; // stream index of xs[j]
     let found = -1;
-    for (; j < n; j++) {
+    for (; j < n; j++, idx++) {
       const x = xs[j] as number;
       if (!(x - x === 0)) {
         if (refuse) break;
         skipped++;
         continue;
       }
-      const idx = count + skipped;
-      count++;
       const z = (x - mu) * inv;
       up = up + (z - k);
-      up = up > 0 ? up : 0;
       lo = lo + (-z - k);
-      lo = lo > 0 ? lo : 0;
-      uz = up === 0 ? idx : uz;
-      lz = lo === 0 ? idx : lz;
+      if (up <= 0) {
+        up = 0;
+        uz = idx;
+      }
+      if (lo <= 0) {
+        lo = 0;
+        lz = idx;
+      }
       if (up > hUp || lo > hDown) {
         found = j;
+        idx++;
         break;
       }
     }
@@ -231,7 +238,7 @@ export class Cusum implements ChangeTest {
     this.#lower = lo;
     this.#upperZero = uz;
     this.#lowerZero = lz;
-    this.#count = count;
+    this.#count = idx - skipped;
     this.#skipped = skipped;
     if (j < n && found < 0) throw new NonFiniteError(NAME, `xs[${j}]`, xs[j]);
     return found;

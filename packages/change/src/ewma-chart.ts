@@ -177,7 +177,8 @@ export class EwmaChart implements ChangeTest {
     const u = (x - this.#mean) * this.#invSigma;
     const z = (1 - this.#lambda) * this.#z + this.#lambda * u;
     this.#z = z;
-    this.#decay = this.#decay * this.#decayStep;
+    // (1 − λ)^{2i} is flushed to 0 once 1 − q is exactly 1, before it turns subnormal (and slow)
+    this.#decay = this.#decay > 1e-20 ? this.#decay * this.#decayStep : 0;
     if (z <= 0) this.#upperZero = i;
     if (z >= 0) this.#lowerZero = i;
     return this.#reading(i);
@@ -200,28 +201,28 @@ export class EwmaChart implements ChangeTest {
     let q = this.#decay;
     let uz = this.#upperZero;
     let lz = this.#lowerZero;
-    let count = this.#count;
     let skipped = this.#skipped;
+    let idx = this.#count + skipped; // stream index of xs[j]
     let found = -1;
-    for (; j < n; j++) {
+    for (; j < n; j++, idx++) {
       const x = xs[j] as number;
       if (!(x - x === 0)) {
         if (refuse) break;
         skipped++;
         continue;
       }
-      const idx = count + skipped;
-      count++;
       const u = (x - mu) * inv;
       z = keep * z + lam * u;
-      q = q * step;
-      uz = z <= 0 ? idx : uz;
-      lz = z >= 0 ? idx : lz;
+      q = q > 1e-20 ? q * step : 0;
+      if (z <= 0) uz = idx;
+      if (z >= 0) lz = idx;
       if (z * z > (z > 0 ? bUp : bDown) * (1 - q)) {
         found = j;
+        idx++;
         break;
       }
     }
+    const count = idx - skipped;
     this.#z = z;
     this.#decay = q;
     this.#upperZero = uz;

@@ -150,11 +150,15 @@ export class PageHinkley implements ChangeTest {
     this.#runningMean = runMean;
     const d = x - (this.#knownMean === null ? runMean : this.#knownMean);
     let up = this.#upper + (d - this.#delta);
-    up = up > 0 ? up : 0;
     let lo = this.#lower + (-d - this.#delta);
-    lo = lo > 0 ? lo : 0;
-    if (up === 0) this.#upperZero = i;
-    if (lo === 0) this.#lowerZero = i;
+    if (up <= 0) {
+      up = 0;
+      this.#upperZero = i;
+    }
+    if (lo <= 0) {
+      lo = 0;
+      this.#lowerZero = i;
+    }
     this.#upper = up;
     this.#lower = lo;
     return this.#reading(i);
@@ -179,15 +183,15 @@ export class PageHinkley implements ChangeTest {
     let lz = this.#lowerZero;
     let count = this.#count;
     let skipped = this.#skipped;
+    let idx = count + skipped; // stream index of xs[j]
     let found = -1;
-    for (; j < n; j++) {
+    for (; j < n; j++, idx++) {
       const x = xs[j] as number;
       if (!(x - x === 0)) {
         if (refuse) break;
         skipped++;
         continue;
       }
-      const idx = count + skipped;
       count++;
       // Wₜ and 1/Wₜ depend on no sample: the division stays off the running mean's chain.
       w = alpha * w + 1;
@@ -195,11 +199,15 @@ export class PageHinkley implements ChangeTest {
       runMean = runMean + (x - runMean) * r;
       const d = x - (known ? mu0 : runMean);
       up = up + (d - delta);
-      up = up > 0 ? up : 0;
       lo = lo + (-d - delta);
-      lo = lo > 0 ? lo : 0;
-      uz = up === 0 ? idx : uz;
-      lz = lo === 0 ? idx : lz;
+      if (up <= 0) {
+        up = 0;
+        uz = idx;
+      }
+      if (lo <= 0) {
+        lo = 0;
+        lz = idx;
+      }
       if ((up > lamUp || lo > lamDown) && count >= minSamples) {
         found = j;
         break;
