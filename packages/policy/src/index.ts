@@ -1,2 +1,15 @@
 export { ACTIONS, CAUSES, PHASES } from "./decision.js";
 export type { Action, Cause, Phase, Evidence, Decision } from "./decision.js";
+export { DecisionEngine } from "./engine.js";
+export type { DecisionEngineOptions, DecisionEngineState } from "./engine.js";
+export { DecisionCore } from "./core.js";
+export type { DecisionCoreState } from "./core.js";
+export { CORE_DEFAULTS, CORE_OPTION_NAMES } from "./options.js";
+export type { DecisionCoreOptions, CoreSettings, RetrainMode, ChangeTestChoice } from "./options.js";
+export { FeatureModel, FEATURE_OPTION_NAMES } from "./feature-model.js";
+export type { FeatureModelOptions, FeatureSettings, CandidateValidation } from "./feature-model.js";
+export { BlockTrend } from "./block-trend.js";
+export type { TrendEvidence, BlockTrendState } from "./block-trend.js";
+export { SettlingWindow } from "./settling-window.js";
+export type { SettlingCheck, SettlingWindowState } from "./settling-window.js";
+export type { ScoreLevel } from "./calibration.js";

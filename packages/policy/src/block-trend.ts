@@ -1,0 +1,146 @@
+import { envelope, openSnapshot, type Snapshot } from "@leeway/core";
+import { WindowTrend } from "@leeway/stats";
+
+/** What a {@link BlockTrend} knows after its latest complete block. */
+export interface TrendEvidence {
+  /** Blocks in the window. */
+  blocks: number;
+  /** One-sided Mann-Kendall z of the block means (positive: rising). */
+  z: number;
+  /** Two-sided Mann-Kendall p-value. */
+  pValue: number;
+  /** Theil-Sen slope, in σ per sample (NaN until it was needed). */
+  slope: number;
+  /** slope × the window's span in samples: the rise the trend explains, in σ (NaN until needed). */
+  rise: number;
+}
+
+/** The plain state of a {@link BlockTrend}. */
+export interface BlockTrendState {
+  block: number;
+  width: number;
+  sum: number;
+  filled: number;
+  z: number;
+  pValue: number;
+  slope: number | null;
+  trend: Snapshot;
+}
+
+/**
+ * A long, decimated trend window: samples are averaged in blocks of `block`,
+ * and the block means go through a sliding Mann-Kendall test with a Theil-Sen
+ * slope (Mann, 1945; Kendall, 1975; Sen, 1968). Decimation lets a window of a
+ * few hundred points span hours, and averaging cuts the short-range
+ * correlation of score streams that would make the test liberal.
+ *
+ * The slope costs O(w²) and is computed only when `wantSlope` says the
+ * evidence is strong enough to need it.
+ *
+ * @example
+ * const t = new BlockTrend(10, 50);
+ * for (let i = 0; i < 500; i++) t.observe(i * 0.001, true);
+ * t.evidence.z > 3; // true
+ */
+export class BlockTrend {
+  static readonly kind = "leeway.policy.block-trend";
+  static readonly version = 1;
+  readonly #block: number; // B: samples per block
+  readonly #width: number; // w: blocks in the window
+  #sum = 0;
+  #filled = 0;
+  #z = 0;
+  #pValue = 1;
+  #slope: number | null = null;
+  #trend: WindowTrend;
+
+  constructor(block: number, width: number) {
+    this.#block = block;
+    this.#width = width;
+    this.#trend = new WindowTrend({ width });
+  }
+
+  /**
+   * Adds one sample. Returns true when it completed a block (the evidence
+   * changed). `wantSlope(z)` decides whether the Theil-Sen slope is computed.
+   */
+  observe(x: number, wantSlope: boolean | ((z: number) => boolean)): boolean {
+    this.#sum += x;
+    this.#filled += 1;
+    if (this.#filled < this.#block) return false;
+    const mean = this.#sum / this.#block;
+    this.#sum = 0;
+    this.#filled = 0;
+    const reading = this.#trend.observe(mean);
+    this.#z = Number.isFinite(reading.z) ? reading.z : 0;
+    this.#pValue = Number.isFinite(reading.pValue) ? reading.pValue : 1;
+    const need = typeof wantSlope === "boolean" ? wantSlope : wantSlope(this.#z);
+    this.#slope = need && reading.size >= 2 ? this.#trend.slope() / this.#block : null;
+    return true;
+  }
+
+  /** Blocks in the window. */
+  get blocks(): number {
+    return this.#trend.size;
+  }
+
+  /** One-sided Mann-Kendall z (0 before two blocks). */
+  get z(): number {
+    return this.#z;
+  }
+
+  /** The rise over the window in σ: Theil-Sen slope × span; NaN when the slope was not computed. */
+  get rise(): number {
+    if (this.#slope === null) return Number.NaN;
+    return this.#slope * Math.max(0, this.#trend.size - 1) * this.#block;
+  }
+
+  /** The latest evidence as a fresh plain object. */
+  get evidence(): TrendEvidence {
+    return { blocks: this.#trend.size, z: this.#z, pValue: this.#pValue, slope: this.#slope ?? Number.NaN, rise: this.rise };
+  }
+
+  /** Forgets everything (a new reference, a new mode). */
+  restart(): void {
+    this.#sum = 0;
+    this.#filled = 0;
+    this.#z = 0;
+    this.#pValue = 1;
+    this.#slope = null;
+    this.#trend = new WindowTrend({ width: this.#width });
+  }
+
+  snapshot(): Snapshot<BlockTrendState> {
+    return envelope(BlockTrend.kind, BlockTrend.version, {
+      block: this.#block,
+      width: this.#width,
+      sum: this.#sum,
+      filled: this.#filled,
+      z: this.#z,
+      pValue: this.#pValue,
+      slope: this.#slope,
+      trend: this.#trend.snapshot() as Snapshot,
+    });
+  }
+
+  /** Rebuilds a trend window; `block` and `width` must match the engine's settings. */
+  static restore(snapshot: unknown, block: number, width: number): BlockTrend {
+    const r = openSnapshot(snapshot, BlockTrend.kind, BlockTrend.version);
+    r.integer("block", block, block);
+    r.integer("width", width, width);
+    const filled = r.integer("filled", 0, block - 1);
+    const sum = r.number("sum");
+    const z = r.number("z");
+    const pValue = r.numberIn("pValue", 0, 1);
+    const slope = r.numberOrNull("slope");
+    const trend = WindowTrend.restore(r.raw("trend"));
+    const t = new BlockTrend(block, width);
+    t.#sum = sum;
+    t.#filled = filled;
+    t.#z = z;
+    t.#pValue = pValue;
+    t.#slope = slope;
+    t.#trend = trend;
+    return t;
+  }
+}

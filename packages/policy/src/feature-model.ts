@@ -1,0 +1,270 @@
+import {
+  integerInRange,
+  OptionError,
+  numberInRange,
+  openSnapshot,
+  envelope,
+  toPlainArray,
+  checkedSize,
+  type Snapshot,
+  type SnapshotReader,
+} from "@leeway/core";
+import { AutoencoderPool, FrozenModel, OselmAutoencoder } from "@leeway/pool";
+import type { Decision, Evidence } from "./decision.js";
+import type { DecisionCore } from "./core.js";
+import type { CoreSettings } from "./options.js";
+import { normalised } from "./calibration.js";
+
+/** Options of the feature mode (ignored keys are refused in score-only mode). */
+export interface FeatureModelOptions {
+  /** Hidden units of every autoencoder (live members and candidates). Default 32. */
+  hidden?: number;
+  /** Members of the live pool, one per operating mode. Default 4. */
+  members?: number;
+  /** Ridge δ of the OS-ELM autoencoders (P₀ = I/δ). Default 0.01. */
+  ridge?: number;
+  /** Forgetting factor λ in (0, 1] of the live members (1: remember every learnt sample equally). Default 1. */
+  forgetting?: number;
+  /** Share of the settled samples held out to validate a candidate, in (0, 0.5]. Default 0.2. */
+  validationShare?: number;
+  /** A candidate passes when its held-out loss is at most this multiple of its training loss (and below the active reference's). Default 1.5. */
+  validationTolerance?: number;
+}
+
+/** The validated feature-mode settings. */
+export interface FeatureSettings {
+  inputs: number;
+  hidden: number;
+  members: number;
+  ridge: number;
+  forgetting: number;
+  validationShare: number;
+  validationTolerance: number;
+  settling: number;
+  commissioning: number;
+  seed: string;
+}
+
+/** The feature-mode option names. */
+export const FEATURE_OPTION_NAMES = ["hidden", "members", "ridge", "forgetting", "validationShare", "validationTolerance"] as const;
+
+/** Validates the feature-mode options. */
+export function resolveFeatureSettings(component: string, inputs: number, o: FeatureModelOptions, core: CoreSettings): FeatureSettings {
+  const settings: FeatureSettings = {
+    inputs,
+    hidden: integerInRange(component, "hidden", o.hidden ?? 32, 1, 4096),
+    members: integerInRange(component, "members", o.members ?? 4, 1, 64),
+    ridge: numberInRange(component, "ridge", o.ridge ?? 0.01, { min: 0, minExclusive: true }),
+    forgetting: numberInRange(component, "forgetting", o.forgetting ?? 1, { min: 0, max: 1, minExclusive: true }),
+    validationShare: numberInRange(component, "validationShare", o.validationShare ?? 0.2, { min: 0, max: 0.5, minExclusive: true }),
+    validationTolerance: numberInRange(component, "validationTolerance", o.validationTolerance ?? 1.5, { min: 1 }),
+    settling: core.settling,
+    commissioning: core.commissioning,
+    seed: String(core.seed),
+  };
+  // The empty pool fits its first member on `hidden` rows; the commissioning reference needs that member.
+  if (core.commissioning <= settings.hidden) throw new OptionError(component, "commissioning", core.commissioning, `an integer > hidden = ${settings.hidden} in feature mode`);
+  return settings;
+}
+
+/** How a candidate fared on the held-out settled samples (score units: mean squared reconstruction error). */
+export interface CandidateValidation {
+  trainingSamples: number;
+  heldOutSamples: number;
+  trainingLoss: number;
+  heldOutLoss: number;
+  /** The active reference's mean loss on the same held-out samples. */
+  referenceLoss: number;
+  passed: boolean;
+}
+
+/**
+ * Feature mode's models: the live {@link AutoencoderPool} (OS-ELM
+ * autoencoders, one member per operating mode), the lineage of frozen
+ * references (the commissioning one, then one per accepted retrain), and the
+ * rows kept while a change settles. It scores each sample, asks the
+ * {@link DecisionCore}, and carries the decision out.
+ */
+export class FeatureModel {
+  static readonly kind = "leeway.policy.feature-model";
+  static readonly version = 1;
+  readonly settings: FeatureSettings;
+  #pool: AutoencoderPool;
+  #lineage: FrozenModel[] = [];
+  readonly #kept: Float64Array; // settling × inputs, ring positions as in the core's settling window
+  #candidates = 0;
+
+  constructor(settings: FeatureSettings) {
+    this.settings = settings;
+    this.#pool = new AutoencoderPool({ inputs: settings.inputs, hidden: settings.hidden, maxMembers: settings.members, ridge: settings.ridge, forgetting: settings.forgetting, seed: `${settings.seed}/pool` });
+    this.#kept = new Float64Array(checkedSize("DecisionEngine", "settling × inputs", [settings.settling, settings.inputs]));
+  }
+
+  get inputs(): number {
+    return this.settings.inputs;
+  }
+  /** Frozen references so far. */
+  get lineageSize(): number {
+    return this.#lineage.length;
+  }
+  /** The live pool. */
+  get pool(): AutoencoderPool {
+    return this.#pool;
+  }
+  /** A frozen reference of the lineage (0: commissioning). */
+  reference(id: number): FrozenModel | undefined {
+    return this.#lineage[id];
+  }
+
+  /** Scores `x`, asks the core, and carries out its decision. */
+  decide(core: DecisionCore, x: Float64Array): Decision {
+    const scored = this.#pool.size > 0 ? this.#pool.score(x) : null;
+    const live = scored === null ? 0 : scored.loss;
+    const member = scored === null ? -1 : scored.member;
+    const lineage = this.#lineage;
+    let commissioning = live;
+    let newest = live;
+    let active = live;
+    if (lineage.length > 0) {
+      commissioning = (lineage[0] as FrozenModel).score(x);
+      const newestId = core.newestId;
+      newest = newestId === 0 ? commissioning : (lineage[newestId] as FrozenModel).score(x);
+      const activeId = core.activeId;
+      active = activeId === 0 ? commissioning : activeId === newestId ? newest : (lineage[activeId] as FrozenModel).score(x);
+    }
+    const decision = core.step(live, commissioning, newest, active);
+    if (decision.action === "learn") this.#pool.learn(x, member >= 0 ? member : undefined);
+    if (core.freezeNow) this.#lineage = [this.#pool.freeze(member >= 0 ? member : 0)];
+    if (core.keptAt >= 0) this.#kept.set(x, core.keptAt * this.settings.inputs);
+    if (decision.action === "retrain") this.#retrain(core, decision);
+    return decision;
+  }
+
+  /** The kept settled rows (oldest first) and their normalised active scores. */
+  #settledRows(core: DecisionCore): Float64Array[] {
+    const window = core.settlingWindow;
+    const positions = window.positions();
+    const check = window.check();
+    const limit = check.activeLevel + core.settings.settlingOutlier * Math.max(check.activeSpread, 1e-9);
+    const n = this.settings.inputs;
+    const rows: Float64Array[] = [];
+    for (const p of positions) {
+      if (window.activeAt(p) > limit) continue; // an outlier of the settled stream: held, never learnt
+      rows.push(this.#kept.subarray(p * n, (p + 1) * n));
+    }
+    return rows;
+  }
+
+  #retrain(core: DecisionCore, decision: Decision): void {
+    const rows = this.#settledRows(core);
+    const evidence = decision.evidence;
+    // A reference older than the two the core watches may already know this mode.
+    const known = this.#olderKnownMode(core, rows);
+    if (known >= 0) {
+      core.retrainFailed();
+      const switched = core.switchTo(known, evidence);
+      decision.action = switched.action;
+      decision.cause = switched.cause;
+      decision.phase = switched.phase;
+      return;
+    }
+    const every = Math.max(2, Math.round(1 / this.settings.validationShare));
+    const training: Float64Array[] = [];
+    const heldOut: Float64Array[] = [];
+    rows.forEach((row, i) => ((i + 1) % every === 0 ? heldOut : training).push(row));
+    const validation = this.#validate(core, training, heldOut);
+    evidence.candidate = validation;
+    if (!validation.passed) {
+      core.retrainFailed();
+      decision.action = "hold";
+      decision.phase = core.phase;
+      return;
+    }
+    const label = `retrain-${core.retrains + 1}`;
+    const member = this.#pool.addMember(rows, label);
+    this.#lineage.push(this.#pool.freeze(member));
+    core.modelReplaced();
+  }
+
+  #validate(core: DecisionCore, training: Float64Array[], heldOut: Float64Array[]): CandidateValidation {
+    const s = this.settings;
+    const candidate = new OselmAutoencoder({ inputs: s.inputs, hidden: s.hidden, ridge: s.ridge, seed: `${s.seed}/candidate/${this.#candidates}` });
+    this.#candidates += 1;
+    candidate.fit(training);
+    const reference = this.#lineage[core.activeId] as FrozenModel;
+    const trainingLoss = meanScore(training, (x) => candidate.score(x));
+    const heldOutLoss = meanScore(heldOut, (x) => candidate.score(x));
+    const referenceLoss = meanScore(heldOut, (x) => reference.score(x));
+    const passed = training.length > s.hidden && heldOut.length > 0 && heldOutLoss <= s.validationTolerance * trainingLoss && heldOutLoss < referenceLoss;
+    return { trainingSamples: training.length, heldOutSamples: heldOut.length, trainingLoss, heldOutLoss, referenceLoss, passed };
+  }
+
+  /** A lineage reference other than the commissioning, newest and active ones that scores the settled rows as normal, or −1. */
+  #olderKnownMode(core: DecisionCore, rows: Float64Array[]): number {
+    const limit = core.settings.knownModeLevel;
+    const floor = core.settings.scoreFloor;
+    let best = -1;
+    let bestLevel = limit;
+    for (let id = 1; id < core.newestId; id++) {
+      if (id === core.activeId) continue;
+      const level = core.levelOf(id);
+      const model = this.#lineage[id];
+      if (level === null || model === undefined || rows.length === 0) continue;
+      let sum = 0;
+      for (const row of rows) sum += normalised(Math.log(model.score(row) + floor), level, core.settings.scoreClip);
+      const mean = Math.abs(sum / rows.length);
+      if (mean < bestLevel) {
+        best = id;
+        bestLevel = mean;
+      }
+    }
+    return best;
+  }
+
+  snapshot(): Snapshot {
+    const s = this.settings;
+    return envelope(FeatureModel.kind, FeatureModel.version, {
+      inputs: s.inputs,
+      options: { hidden: s.hidden, members: s.members, ridge: s.ridge, forgetting: s.forgetting, validationShare: s.validationShare, validationTolerance: s.validationTolerance },
+      pool: this.#pool.snapshot(),
+      lineage: this.#lineage.map((m) => m.snapshot()),
+      kept: toPlainArray(this.#kept),
+      candidates: this.#candidates,
+    });
+  }
+
+  /** Rebuilds the models; the core (already restored) fixes the sizes they must have. */
+  static restore(snapshot: unknown, core: DecisionCore): FeatureModel {
+    const r: SnapshotReader = openSnapshot(snapshot, FeatureModel.kind, FeatureModel.version);
+    const inputs = r.integer("inputs", 1, 1 << 20);
+    const o = r.object("options");
+    const raw: Record<string, unknown> = {};
+    for (const key of FEATURE_OPTION_NAMES) raw[key] = o.raw(key);
+    let settings: FeatureSettings;
+    try {
+      settings = resolveFeatureSettings("DecisionEngine", inputs, raw as FeatureModelOptions, core.settings);
+    } catch (error) {
+      r.fail("options", `are not valid options: ${(error as Error).message}`);
+    }
+    checkedSize(FeatureModel.kind, "state.kept", [settings.settling, inputs]);
+    const pool = AutoencoderPool.restore(r.raw("pool"));
+    const lineageRaw = r.rawArray("lineage", { max: core.newestId + 1 });
+    if (core.phase !== "commissioning" && lineageRaw.length !== core.newestId + 1) r.fail("lineage", `must have length ${core.newestId + 1}, got length ${lineageRaw.length}`);
+    const lineage = lineageRaw.map((s) => FrozenModel.restore(s));
+    const kept = r.numbers("kept", settings.settling * settings.inputs);
+    const candidates = r.integer("candidates", 0, Number.MAX_SAFE_INTEGER);
+    const model = new FeatureModel(settings);
+    model.#pool = pool;
+    model.#lineage = lineage;
+    model.#kept.set(kept);
+    model.#candidates = candidates;
+    return model;
+  }
+}
+
+function meanScore(rows: readonly Float64Array[], score: (x: Float64Array) => number): number {
+  if (rows.length === 0) return Number.NaN;
+  let sum = 0;
+  for (const row of rows) sum += score(row);
+  return sum / rows.length;
+}

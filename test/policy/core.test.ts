@@ -1,0 +1,256 @@
+import fc from "fast-check";
+import { describe, expect, it } from "vitest";
+import { DecisionEngine, type Decision } from "@leeway/policy";
+import { expectLeewayError, throughJson } from "../support/errors.js";
+import { calm, QUICK, runHost, ScoreHost, type World } from "./score-streams.js";
+
+// The decision core through the score-only engine, on scripted score streams
+// (ScoreHost: invented numbers, log-normal scores with AR(1) noise).
+
+const engineWith = (options: Record<string, unknown> = {}): DecisionEngine => new DecisionEngine({ ...QUICK, seed: 1, ...options });
+const drift = (at: number, offset = 0.15) => (t: number): World => ({ mode: t >= at ? offset : 0, degradation: 0, fault: 0 });
+const count = (ds: Decision[], pred: (d: Decision) => boolean): number => ds.filter(pred).length;
+
+describe("DecisionCore phases", () => {
+  it("learns the commissioning window and the calibration span as commissioning, then watches", () => {
+    const engine = engineWith();
+    const run = runHost(engine, new ScoreHost(2), calm, 700);
+    const n = QUICK.commissioning + QUICK.calibration;
+    for (const d of run.decisions.slice(0, n)) {
+      expect([d.action, d.cause, d.phase]).toEqual(["learn", "commissioning", "commissioning"]);
+    }
+    expect(run.decisions[n]?.phase).toBe("watching");
+    expect(run.decisions.map((d) => d.index)).toEqual(run.decisions.map((_, i) => i));
+  });
+
+  it("on a stationary stream learns (almost) everything and raises no alarm (fixed seed, 20 000 samples)", () => {
+    const run = runHost(engineWith(), new ScoreHost(7), calm, 20_000);
+    expect(run.alarms).toHaveLength(0);
+    expect(run.retrains).toHaveLength(0);
+    expect(run.learnt.length).toBeGreaterThan(0.9 * 20_000);
+  });
+
+  it("property: on stationary streams no alarm and no retrain, for any seed", () => {
+    fc.assert(
+      fc.property(fc.integer({ min: 1, max: 1_000_000 }), (seed) => {
+        const run = runHost(engineWith({ seed }), new ScoreHost(seed), calm, 6000);
+        expect(run.alarms.filter((a) => a.cause === "degradation")).toHaveLength(0);
+        expect(run.retrains).toHaveLength(0);
+      }),
+      { numRuns: 8 },
+    );
+  });
+});
+
+describe("concept drift", () => {
+  it("a level shift settles, is retrained exactly once, and nothing alarms afterwards", () => {
+    const engine = engineWith();
+    const run = runHost(engine, new ScoreHost(3), drift(3000), 9000, { acknowledgeAfter: 20 });
+    expect(run.retrains).toHaveLength(1);
+    const at = run.retrains[0] as number;
+    const retrain = run.decisions[at] as Decision;
+    expect(retrain.cause).toBe("concept-drift");
+    expect(retrain.phase).toBe("retraining");
+    // settled first: the decisions just before are settling holds; after the first few samples of the shift
+    // (the detection delay) nothing is learnt until the retrain
+    expect(run.decisions[at - 1]?.phase).toBe("settling");
+    const detected = run.decisions.findIndex((d, t) => t >= 3000 && (d.phase === "settling" || d.phase === "latched"));
+    expect(detected - 3000).toBeLessThan(10);
+    expect(run.learnt.filter((t) => t >= detected && t <= at)).toHaveLength(0);
+    expect((retrain.evidence.settling as { samples: number }).samples).toBe(QUICK.settling);
+    expect(run.alarms.filter((a) => a.index > at)).toHaveLength(0);
+    // after the host's new model is calibrated, the engine learns again against reference 1
+    const last = run.decisions[run.decisions.length - 1] as Decision;
+    expect([last.action, last.phase, last.evidence.activeReference]).toEqual(["learn", "watching", 1]);
+    expect(engine.retrains).toBe(1);
+  });
+
+  it("property: for any seed a shift gets exactly one retrain or switch and no alarm after it", () => {
+    fc.assert(
+      fc.property(fc.integer({ min: 1, max: 1_000_000 }), fc.constantFrom(0.1, 0.2, 0.4), (seed, offset) => {
+        const run = runHost(engineWith({ seed }), new ScoreHost(seed), drift(2500, offset), 6000, { acknowledgeAfter: 20 });
+        expect(run.retrains.length + run.switches.length).toBe(1);
+        const at = (run.retrains[0] ?? run.switches[0]) as number;
+        expect(run.alarms.filter((a) => a.index > at)).toHaveLength(0);
+      }),
+      { numRuns: 6 },
+    );
+  });
+
+  it("a return to the commissioning mode is a switch-mode to reference 0, not a retrain", () => {
+    const world = (t: number): World => ({ mode: t >= 2500 && t < 5000 ? 0.2 : 0, degradation: 0, fault: 0 });
+    const run = runHost(engineWith(), new ScoreHost(5), world, 8000, { acknowledgeAfter: 20 });
+    expect(run.retrains).toHaveLength(1);
+    expect(run.switches).toHaveLength(1);
+    const sw = run.decisions[run.switches[0] as number] as Decision;
+    expect([sw.action, sw.cause, sw.evidence.switchedTo]).toEqual(["switch-mode", "known-mode", 0]);
+    expect(sw.index).toBeGreaterThan(5000);
+    const last = run.decisions[run.decisions.length - 1] as Decision;
+    expect([last.action, last.evidence.activeReference]).toEqual(["learn", 0]);
+  });
+
+  it('retrain "confirm" emits await-confirmation once and retrains only after confirmRetrain()', () => {
+    const engine = engineWith({ retrain: "confirm" });
+    let asked = -1;
+    const run = runHost(engine, new ScoreHost(3), drift(3000), 6000, {
+      acknowledgeAfter: 20,
+      onDecision: (d) => {
+        if (d.action === "await-confirmation") {
+          asked = d.index;
+          expect(engine.awaitingConfirmation).toBe(true);
+        }
+        if (asked >= 0 && d.index === asked + 50) engine.confirmRetrain();
+      },
+    });
+    expect(count(run.decisions, (d) => d.action === "await-confirmation")).toBe(1);
+    expect(run.retrains).toEqual([asked + 51]);
+    expect(run.learnt.filter((t) => t > asked && t <= asked + 51)).toHaveLength(0);
+  });
+
+  it("rejectRetrain() accepts the new level without a retrain (the reference is calibrated again)", () => {
+    const engine = engineWith({ retrain: "confirm" });
+    const run = runHost(engine, new ScoreHost(3), drift(3000), 7000, {
+      acknowledgeAfter: 20,
+      onDecision: (d) => {
+        if (d.action === "await-confirmation") engine.rejectRetrain();
+      },
+    });
+    expect(run.retrains).toHaveLength(0);
+    expect(run.alarms.filter((a) => a.index > 3200)).toHaveLength(0);
+    expect(run.decisions[run.decisions.length - 1]?.action).toBe("learn");
+  });
+
+  it('retrain "never" raises a concept-drift alarm instead', () => {
+    const run = runHost(engineWith({ retrain: "never" }), new ScoreHost(3), drift(3000, 0.1), 5000);
+    expect(run.retrains).toHaveLength(0);
+    expect(run.alarms.map((a) => a.cause)).toContain("concept-drift");
+  });
+
+  it("the retrain budget refuses a retrain past it with a concept-drift alarm naming the budget", () => {
+    const world = (t: number): World => ({ mode: t >= 2000 ? (t >= 4500 ? 0.4 : 0.2) : 0, degradation: 0, fault: 0 });
+    const run = runHost(engineWith({ retrainBudget: 1 }), new ScoreHost(4), world, 7000, { acknowledgeAfter: 20 });
+    expect(run.retrains).toHaveLength(1);
+    const refusal = run.alarms.find((a) => a.evidence.budget !== undefined);
+    expect(refusal?.cause).toBe("concept-drift");
+    expect(refusal?.evidence.budget).toEqual({ used: 1, allowed: 1, horizon: 86400 });
+  });
+
+  it("the cool-down delays a second retrain until it has passed", () => {
+    const world = (t: number): World => ({ mode: t >= 2000 ? (t >= 2700 ? 0.4 : 0.2) : 0, degradation: 0, fault: 0 });
+    const run = runHost(engineWith({ coolDown: 1500 }), new ScoreHost(4), world, 6000, { acknowledgeAfter: 20 });
+    expect(run.retrains).toHaveLength(2);
+    expect((run.retrains[1] as number) - (run.retrains[0] as number)).toBeGreaterThanOrEqual(1500);
+  });
+});
+
+describe("slow degradation", () => {
+  const ramp = (start: number, per: number) => (t: number): World => ({ mode: 0, degradation: t > start ? (t - start) * per : 0, fault: 0 });
+
+  it("raises a degradation alarm, never retrains, and learns nothing once the evidence appears", () => {
+    const engine = engineWith();
+    const run = runHost(engine, new ScoreHost(3), ramp(3000, 1 / 8000), 9000, { acknowledgeAfter: 20 });
+    const first = run.alarms[0] as Decision;
+    expect(first.cause).toBe("degradation");
+    // before the degradation reached one noise σ of the log score (0.2 in this host): a level that a
+    // per-sample threshold (about 3.3 σ) would still miss almost always
+    expect((first.index - 3000) / 8000).toBeLessThan(0.2);
+    expect(run.retrains).toHaveLength(0);
+    const evidenceStart = run.decisions.findIndex((d, t) => t > 3000 && d.cause === "degradation");
+    expect(evidenceStart).toBeGreaterThan(3000);
+    expect(run.learnt.filter((t) => t >= evidenceStart)).toHaveLength(0);
+    const trend = first.evidence.trend as { z: number; pValue: number; slope: number; rise: number };
+    expect(trend.z).toBeGreaterThan(0);
+    expect(trend.pValue).toBeLessThan(0.05);
+  });
+
+  it("drift, then degradation: one retrain for the drift, then degradation against the new reference", () => {
+    const world = (t: number): World => ({ mode: t >= 2000 ? 0.2 : 0, degradation: t > 5000 ? (t - 5000) / 8000 : 0, fault: 0 });
+    const run = runHost(engineWith(), new ScoreHost(6), world, 9000, { acknowledgeAfter: 20 });
+    expect(run.retrains).toHaveLength(1);
+    const degradation = run.alarms.find((a) => a.cause === "degradation");
+    expect(degradation?.index).toBeGreaterThan(5000);
+    expect(degradation?.evidence.activeReference).toBe(1);
+  });
+});
+
+describe("anomalies", () => {
+  const fault = (start: number, length: number) => (t: number): World => ({ mode: 0, degradation: 0, fault: t >= start && t < start + length ? 1.2 : 0 });
+
+  it("an abrupt fault raises an anomaly alarm within a few samples, learns none of it, and retrains nothing", () => {
+    const run = runHost(engineWith(), new ScoreHost(3), fault(3000, 60), 6000, { acknowledgeAfter: 20 });
+    const alarm = run.alarms[0] as Decision;
+    expect(alarm.cause).toBe("anomaly");
+    expect(alarm.index - 3000).toBeLessThan(QUICK.settling / 10);
+    expect(run.learnt.filter((t) => t >= 3000 && t < 3060)).toHaveLength(0);
+    expect(run.retrains).toHaveLength(0);
+    expect(run.decisions[run.decisions.length - 1]?.action).toBe("learn");
+  });
+
+  it("a short run of anomalous samples below the alarm run is held and then learning resumes, without alarm", () => {
+    const run = runHost(engineWith(), new ScoreHost(3), fault(3000, 3), 4000);
+    expect(run.alarms).toHaveLength(0);
+    expect(run.decisions.slice(3000, 3003).map((d) => d.cause)).toEqual(["anomaly", "anomaly", "anomaly"]);
+    expect(run.decisions[3100]?.action).toBe("learn");
+  });
+
+  it("the alarm latch stays until acknowledge(), even when the scores are normal again", () => {
+    const engine = engineWith();
+    const run = runHost(engine, new ScoreHost(3), fault(3000, 30), 4000);
+    expect(run.alarms).toHaveLength(1);
+    expect(run.decisions.slice(run.alarms[0]!.index).every((d) => d.phase === "latched" && d.action !== "learn")).toBe(true);
+    engine.acknowledge();
+    expect(engine.phase).toBe("settling");
+  });
+});
+
+describe("operator calls at the wrong time", () => {
+  it("are refused with E_STATE", () => {
+    const engine = engineWith();
+    expectLeewayError(() => engine.confirmRetrain(), "E_STATE", "confirmRetrain");
+    expectLeewayError(() => engine.rejectRetrain(), "E_STATE", "rejectRetrain");
+    expectLeewayError(() => engine.acknowledge(), "E_STATE", "acknowledge", "commissioning");
+    expectLeewayError(() => engine.modelReplaced(), "E_STATE", "modelReplaced");
+    expectLeewayError(() => engine.startCommissioning(100), "E_STATE", "startCommissioning");
+    expectLeewayError(() => engine.observe(new Float64Array(4)), "E_STATE", "observeScores");
+  });
+
+  it("startCommissioning(n) outside commissioning begins a new window and clears a latch", () => {
+    const engine = engineWith();
+    runHost(engine, new ScoreHost(3), (t) => ({ mode: 0, degradation: 0, fault: t >= 1000 ? 1.2 : 0 }), 1100);
+    expect(engine.phase).toBe("latched");
+    engine.startCommissioning(50);
+    const d = engine.observeScores(0.02);
+    expect([d.phase, d.cause]).toEqual(["commissioning", "commissioning"]);
+  });
+});
+
+describe("snapshots", () => {
+  it("property: restored at any point, an engine continues with the same decisions", () => {
+    const world = (t: number): World => ({ mode: t >= 1500 ? 0.2 : 0, degradation: t > 3500 ? (t - 3500) / 4000 : 0, fault: t >= 2900 && t < 2920 ? 1.2 : 0 });
+    fc.assert(
+      fc.property(fc.integer({ min: 0, max: 4800 }), (cut) => {
+        const a = engineWith();
+        const host = new ScoreHost(9);
+        const scores = Array.from({ length: 5000 }, (_, t) => host.score(world(t)));
+        let b: DecisionEngine | null = null;
+        const ack = (e: DecisionEngine, d: Decision): void => {
+          if (d.action === "alarm") e.acknowledge();
+          if (d.action === "retrain") e.modelReplaced();
+        };
+        for (let t = 0; t < 5000; t++) {
+          const s = scores[t] as { live: number; references: number[] };
+          const da = a.observeScores(s.live, s.references);
+          ack(a, da);
+          if (t === cut) b = DecisionEngine.restore(throughJson(a.snapshot()));
+          if (b !== null && t > cut) {
+            const db = b.observeScores(s.live, s.references);
+            ack(b, db);
+            expect(db).toEqual(da);
+          }
+        }
+        expect(JSON.stringify((b as DecisionEngine).snapshot())).toBe(JSON.stringify(a.snapshot()));
+      }),
+      { numRuns: 5 },
+    );
+  });
+});
