@@ -64,8 +64,11 @@ describe("compare", () => {
     expect(low?.falseAlarms).toBe(1); // the spike at 30
     expect(low?.correctCause).toBe(0); // anomaly alarms on a drift and on a degradation
     expect(low?.retrains).toBe(0);
-    // Drift: alarm at 100 (the detection), retrain at 104 and a new alarm at 105 (both false: the drift was answered).
-    expect(adapting?.falseAlarms).toBe(2);
+    // Drift: alarm at 100 (the detection, claiming anomaly), retrain at 104 (a revision to the true cause),
+    // a new alarm at 105 (false: the drift was answered).
+    expect(adapting?.falseAlarms).toBe(1);
+    expect(adapting?.revisions).toBe(1);
+    expect(low?.revisions).toBe(0);
     expect(adapting?.retrainsByTruth).toEqual({ "concept-drift": 1, degradation: 1, anomaly: 0, none: 0 });
     expect(result.perScenario.map((r) => [r.policy, r.scenarios[0], r.detected, r.meanDelay])).toEqual([
       ["low threshold", "noise floor", 1, 0],
@@ -77,7 +80,7 @@ describe("compare", () => {
 
   it("renders the table in Markdown, one line per policy, then one per policy and scenario", () => {
     const lines = result.markdown.trim().split("\n");
-    expect(lines[0]).toMatch(/^\| policy \| events \| detected \| right cause \| missed \|/);
+    expect(lines[0]).toMatch(/^\| policy \| events \| detected \| right cause \| revised \| missed \|/);
     expect(lines.filter((l) => l.startsWith("| low threshold |"))).toHaveLength(3);
     expect(lines.some((l) => l.startsWith("| low threshold | noise floor |"))).toBe(true);
     const header = (lines[0] as string).split("|").length;

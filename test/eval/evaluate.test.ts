@@ -116,6 +116,26 @@ describe("evaluate: windows, misses and claims", () => {
     expect(m.responses).toHaveLength(1); // the latched alarm is one response
   });
 
+  it("a later claim of the true cause revises a wrong first answer and is no false alarm; a repeated wrong claim is one", () => {
+    // An alarm on the compressor's new noise floor (claims anomaly), a retrain (claims drift), then another anomaly alarm.
+    const m = evaluate(
+      timelineOf(
+        decisions(60, [
+          { from: 12, to: 20, action: "alarm", cause: "anomaly", phase: "latched" },
+          { from: 30, action: "retrain", cause: "concept-drift" },
+          { from: 45, action: "alarm", cause: "anomaly" },
+        ]),
+      ),
+      { events: [{ cause: "concept-drift", start: 10, end: 11 }] },
+    );
+    const [event] = m.perEvent;
+    expect([event?.claimed, event?.correct, event?.delay, event?.revision?.position]).toEqual(["anomaly", false, 2, 30]);
+    expect(m.revisions).toBe(1);
+    expect(m.confusion["concept-drift"].anomaly).toBe(1);
+    expect(m.falseAlarms).toBe(1); // the alarm at 45
+    expect(m.retrains.byTruth["concept-drift"]).toBe(1);
+  });
+
   it("a retrain that completes an await-confirmation is part of the same response", () => {
     const m = evaluate(
       timelineOf(
@@ -204,7 +224,7 @@ describe("evaluate: laws", () => {
     ),
   });
 
-  it("every response is exactly one of: a detection, a repeat or a false alarm; in-control runs add up to the exposure", () => {
+  it("every response is exactly one of: a detection, a revision, a repeat or a false alarm; in-control runs add up to the exposure", () => {
     fc.assert(
       fc.property(randomTimeline, ({ n, marks, events }) => {
         const ds = decisions(
@@ -213,8 +233,9 @@ describe("evaluate: laws", () => {
         );
         const labels = events.map((e) => ({ cause: e.cause, start: e.start, end: e.start + e.length }));
         const m = evaluate(timelineOf(ds), { events: labels });
-        const detections = new Set(m.perEvent.filter((e) => e.response !== null).map((e) => e.response?.position));
-        expect(detections.size + m.repeats + m.falseAlarms).toBe(m.responses.length);
+        const answers = new Set(m.perEvent.flatMap((e) => [e.response?.position, e.revision?.position]).filter((p) => p !== undefined));
+        expect(answers.size + m.repeats + m.falseAlarms).toBe(m.responses.length);
+        expect(m.revisions).toBeLessThanOrEqual(m.detected - m.correctCause);
         const runs = m.runLengths;
         expect([...runs.completed, ...runs.censored].reduce((s, x) => s + x, 0)).toBe(runs.exposure);
         expect(runs.completed.length).toBe(m.falseAlarms);

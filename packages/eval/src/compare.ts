@@ -30,6 +30,8 @@ export interface ComparisonRow {
   /** Detected events whose response claimed the true cause. */
   correctCause: number;
   missed: number;
+  /** Detected events whose wrong first claim was later revised to the true cause. */
+  revisions: number;
   /** Over every detected event of the pooled scenarios, in samples; null with none detected. */
   meanDelay: number | null;
   medianDelay: number | null;
@@ -119,6 +121,7 @@ export function comparisonRow(policy: string, runs: readonly { scenario: string;
     detected: sum((m) => m.detected),
     correctCause: sum((m) => m.correctCause),
     missed: sum((m) => m.missed),
+    revisions: sum((m) => m.revisions),
     meanDelay: delays?.mean ?? null,
     medianDelay: delays?.median ?? null,
     falseAlarms,

@@ -12,6 +12,7 @@ const COLUMNS: readonly Column[] = [
   { header: "events", cell: (r) => String(r.events) },
   { header: "detected", cell: (r) => String(r.detected) },
   { header: "right cause", cell: (r) => String(r.correctCause) },
+  { header: "revised", cell: (r) => String(r.revisions) },
   { header: "missed", cell: (r) => String(r.missed) },
   { header: "mean delay", cell: (r) => fixed(r.meanDelay, 1) },
   { header: "median delay", cell: (r) => fixed(r.medianDelay, 1) },

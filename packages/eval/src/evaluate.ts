@@ -44,10 +44,15 @@ const CAUSE_CODES: readonly (EventCause | undefined)[] = [undefined, ...EVENT_CA
  *   start + maxDelay, stream length)). The event's **detection** is the first
  *   response in it; **delay** = its position − start; the event is **missed**
  *   when there is none. The confusion table counts [true cause][claimed class].
- * - **False alarm**: a response that detects no event and does not lie inside
- *   a degradation or anomaly event's [start, end) (such responses are
- *   **repeats**: the fault is really there). A second response after a concept
- *   drift was answered is a false alarm: the new condition is the new normal.
+ * - **Revision**: when the detection claimed a wrong cause, the first later
+ *   response in the window that claims the true one (an alarm on a benign
+ *   drift followed by a retrain); it is listed with the event and is not a
+ *   false alarm. The confusion table keeps the first claim.
+ * - **False alarm**: a response that detects no event, is no revision and
+ *   does not lie inside a degradation or anomaly event's [start, end) (such
+ *   responses are **repeats**: the fault is really there). A further response
+ *   after a concept drift was answered is a false alarm: the new condition is
+ *   the new normal.
  * - **Exposure** (in-control samples): samples outside commissioning, outside
  *   every degradation and anomaly event, and outside every event's window up
  *   to and including its detection (the whole window when missed) — exactly
@@ -101,8 +106,11 @@ export function evaluate(timeline: Timeline, labels?: ReplayLabels, options?: Ev
   // What was going on at sample i: a fault under way, else the event whose window holds it, else nothing.
   const situation = (i: number): ResponseClass => (faultCause[i] !== 0 ? spanCause(faultCause[i] as number) : (CAUSE_CODES[windowCause[i] as number] ?? "none"));
 
-  const detects = new Set<number>(); // positions of the responses that detect an event
-  for (const r of perEvent) if (r.response !== null) detects.add(r.response.position);
+  const detects = new Set<number>(); // positions of the responses that detect or revise an event's answer
+  for (const r of perEvent) {
+    if (r.response !== null) detects.add(r.response.position);
+    if (r.revision !== null) detects.add(r.revision.position);
+  }
 
   const confusion = emptyConfusion();
   for (const r of perEvent) confusion[r.cause][r.claimed]++;
@@ -158,6 +166,7 @@ export function evaluate(timeline: Timeline, labels?: ReplayLabels, options?: Ev
     falseAlarms,
     falseAlarmsPer10k: runs.exposure > 0 ? (1e4 * falseAlarms) / runs.exposure : null,
     repeats,
+    revisions: perEvent.filter((r) => r.revision !== null).length,
     retrains,
     modeSwitches,
     alarms,
@@ -184,9 +193,19 @@ function nextStart(sorted: readonly CheckedEvent[], k: number): number {
 
 function attribute(e: CheckedEvent, next: number, maxDelay: number, n: number, responses: readonly Response[]): EventResult {
   const windowEnd = Math.min(next, e.start + maxDelay, n);
-  const first = firstAtOrAfter(responses, e.start);
+  const from = firstAtOrAfter(responses, e.start);
+  const first = responses[from];
   const response = first !== undefined && first.position < windowEnd ? first : null;
   const claimed: ResponseClass = response === null ? "none" : response.claims;
+  let revision: Response | null = null;
+  if (response !== null && response.claims !== e.cause) {
+    for (let j = from + 1; j < responses.length && (responses[j] as Response).position < windowEnd; j++) {
+      if ((responses[j] as Response).claims === e.cause) {
+        revision = responses[j] as Response;
+        break;
+      }
+    }
+  }
   return {
     id: e.id,
     type: e.type,
@@ -198,10 +217,12 @@ function attribute(e: CheckedEvent, next: number, maxDelay: number, n: number, r
     delay: response === null ? null : response.position - e.start,
     claimed,
     correct: claimed === e.cause,
+    revision,
   };
 }
 
-function firstAtOrAfter(responses: readonly Response[], position: number): Response | undefined {
+// Index of the first response at or after the position (responses.length when none).
+function firstAtOrAfter(responses: readonly Response[], position: number): number {
   let low = 0;
   let high = responses.length;
   while (low < high) {
@@ -209,7 +230,7 @@ function firstAtOrAfter(responses: readonly Response[], position: number): Respo
     if ((responses[mid] as Response).position < position) low = mid + 1;
     else high = mid;
   }
-  return responses[low];
+  return low;
 }
 
 function scoreMetrics(timeline: Timeline, anomaly: ArrayLike<boolean>): ScoreMetrics {

@@ -50,6 +50,12 @@ export interface EventResult {
   claimed: ResponseClass;
   /** True when the response claimed the event's true cause. */
   correct: boolean;
+  /**
+   * When the detection claimed another cause: the first later response in the
+   * window that claims the true one (the policy revising its answer, for
+   * example a retrain after an alarm on a benign drift), or null.
+   */
+  revision: Response | null;
 }
 
 /** Summary of delays over the detected events, in samples. */
@@ -122,6 +128,8 @@ export interface ReplayMetrics {
   falseAlarmsPer10k: number | null;
   /** Further responses inside a degradation or anomaly event after its first one (not false alarms). */
   repeats: number;
+  /** Events whose wrong first claim was revised to the true cause within the window (not false alarms). */
+  revisions: number;
   /** `"retrain"` episodes (also those that complete a confirmation request). */
   retrains: ResponseTally;
   /** `"switch-mode"` episodes. */

@@ -44,7 +44,7 @@ export function averagePrecisionSorted({ positives, negatives }: SplitScores): n
     }
     truePositives += tied;
     flagged += tied;
-    if (tied > 0) area += (tied / total) * (truePositives / flagged);
+    if (tied > 0) area += tied * (truePositives / flagged); // ΔR·P with ΔR = tied / total, divided out below
   }
-  return area;
+  return Math.min(1, area / total);
 }
