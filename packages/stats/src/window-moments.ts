@@ -65,9 +65,10 @@ export interface WindowMomentsState {
  * (the window mean more than one standard deviation from K) the recomputation
  * comes early, at most once per W/4 samples. Error: the variance is off by at
  * most about W·ε·R² (ε = 2⁻⁵³, R the range of the last 2W samples), usually
- * far less. Min and max come from
- * monotone deques (the sliding-window minimum of Lemire, 2006): each sample
- * enters and leaves each deque at most once.
+ * far less. Min and max are exact, by the van Herk (1992) / Gil & Werman
+ * (1993) block scheme: the running extrema of the current block of W samples
+ * and the suffix extrema of the previous one, recomputed once per block
+ * (about four comparisons per sample, no unpredictable branches).
  *
  * @example
  * const w = new WindowMoments({ width: 3 });
@@ -89,16 +90,16 @@ export class WindowMoments {
   #sum = 0; // S₁ = Σ(x − K)
   #sumSq = 0; // S₂ = Σ(x − K)²
   #sinceRebuild = 0; // samples since K, S₁, S₂ were last recomputed
-  readonly #earliestRebuild: number; // an early recomputation waits at least W/4 samples, keeping O(1) amortized
-  // Monotone deques as rings of capacity W: values and absolute sample indices.
-  readonly #maxVal: Float64Array;
-  readonly #maxIdx: Float64Array;
-  #maxHead = 0;
-  #maxLen = 0;
-  readonly #minVal: Float64Array;
-  readonly #minIdx: Float64Array;
-  #minHead = 0;
-  #minLen = 0;
+  readonly #earliestRebuild: number;
+  readonly #one = new Float64Array(1); // observe(x) runs the batch loop on [x] // an early recomputation waits at least W/4 samples, keeping O(1) amortized
+  // Sliding min and max (van Herk, 1992; Gil & Werman, 1993): the ring position of sample t is t mod W, so
+  // the stream falls into blocks of W. Per block we keep the running (prefix) min and max; when a block
+  // completes, the suffix minima and maxima of it; the window's min is min(suffix of the previous block
+  // past the newest position, prefix of the current block).
+  readonly #sufMin: Float64Array;
+  readonly #sufMax: Float64Array;
+  #preMin = 0;
+  #preMax = 0;
 
   constructor(options: WindowMomentsOptions) {
     const o = optionsObject<WindowMomentsOptions>("WindowMoments", options, ["width", "nonFinite"]);
@@ -106,10 +107,8 @@ export class WindowMoments {
     this.#policy = nonFiniteOption("WindowMoments", o.nonFinite);
     this.#ring = new Float64Array(this.#width);
     this.#earliestRebuild = Math.ceil(this.#width / 4);
-    this.#maxVal = new Float64Array(this.#width);
-    this.#maxIdx = new Float64Array(this.#width);
-    this.#minVal = new Float64Array(this.#width);
-    this.#minIdx = new Float64Array(this.#width);
+    this.#sufMin = new Float64Array(this.#width);
+    this.#sufMax = new Float64Array(this.#width);
   }
 
   /** W, the window width. */
@@ -157,12 +156,25 @@ export class WindowMoments {
 
   /** Smallest sample in the window; NaN while it is empty. */
   get min(): number {
-    return this.#minLen === 0 ? Number.NaN : (this.#minVal[this.#minHead] as number);
+    const after = this.#suffixStart();
+    if (after < 0) return this.#count === 0 ? Number.NaN : this.#preMin;
+    const s = this.#sufMin[after] as number;
+    return s < this.#preMin ? s : this.#preMin;
   }
 
   /** Largest sample in the window; NaN while it is empty. */
   get max(): number {
-    return this.#maxLen === 0 ? Number.NaN : (this.#maxVal[this.#maxHead] as number);
+    const after = this.#suffixStart();
+    if (after < 0) return this.#count === 0 ? Number.NaN : this.#preMax;
+    const s = this.#sufMax[after] as number;
+    return s > this.#preMax ? s : this.#preMax;
+  }
+
+  /** Ring position where the previous block's part of the window starts, or −1 when the window lies in the current block. */
+  #suffixStart(): number {
+    if (this.#count <= this.#width) return -1;
+    // The newest sample sits just before head; the window's older part is the previous block from head on.
+    return this.#head === 0 ? -1 : this.#head;
   }
 
   /** Takes one sample; returns the window's moments. */
@@ -171,17 +183,20 @@ export class WindowMoments {
       if (this.#policy === "refuse") throw new NonFiniteError("WindowMoments", "x", x);
       this.#skipped++;
     } else {
-      this.#push(x);
+      this.#one[0] = x;
+      this.#run(this.#one);
     }
     return { count: this.#count, size: this.#size, mean: this.mean, variance: this.variance, min: this.min, max: this.max, skipped: this.#skipped };
   }
 
-  /** Takes every sample of `xs`; the same state as `observe` on each. */
+  /** Takes every sample of `xs`; the same state as `observe` on each, bit for bit (both run the same loop). */
   observeMany(xs: Float64Array): void {
-    for (let i = 0; i < xs.length; i++) {
-      const x = xs[i] as number;
-      if (Number.isFinite(x)) this.#push(x);
-      else this.observe(x);
+    let rest = xs;
+    for (;;) {
+      const stop = this.#run(rest);
+      if (stop === rest.length) return;
+      this.observe(rest[stop] as number); // refuses, or skips and counts
+      rest = rest.subarray(stop + 1);
     }
   }
 
@@ -229,11 +244,12 @@ export class WindowMoments {
       throw new SnapshotError(WindowMoments.kind, "state.sum", "and state.shift, state.sumSquares must be 0 for an empty window");
     }
     const w = new WindowMoments({ width, nonFinite: policy });
-    // Replaying the window rebuilds the ring and the deques exactly (they depend only on the window's contents).
+    // Sample t lives at ring position t mod W; then the running and suffix extrema follow from the ring.
     const first = count - size;
-    for (let i = 0; i < size; i++) w.#enter(window[i] as number, first + i);
+    for (let i = 0; i < size; i++) w.#ring[(first + i) % width] = window[i] as number;
+    w.#head = count % width;
     w.#size = size;
-    w.#head = size === width ? 0 : size;
+    w.#restoreExtrema(count);
     w.#count = count;
     w.#skipped = skipped;
     w.#shift = shift;
@@ -243,90 +259,113 @@ export class WindowMoments {
     return w;
   }
 
-  #push(x: number): void {
-    x += 0; // −0 becomes 0, as it would through JSON
-    const n = this.#size;
-    const k = this.#shift;
-    if (this.#count === 0) {
-      this.#shift = x;
-      this.#sum = 0;
-      this.#sumSq = 0;
-      this.#enter(x, 0);
-      this.#size = 1;
-    } else {
-      const d = x - k; // d = x − K
-      if (n === this.#width) {
-        const e = (this.#ring[this.#head] as number) - k; // the oldest sample, leaving
-        this.#sum += d - e;
-        this.#sumSq += d * d - e * e;
-      } else {
-        this.#sum += d;
-        this.#sumSq += d * d;
-        this.#size = n + 1;
-      }
-      this.#enter(x, this.#count);
-    }
-    this.#count++;
-    const since = ++this.#sinceRebuild;
-    if (since === this.#width) this.#rebuild();
-    else if (since >= this.#earliestRebuild && this.#shiftIsStale()) this.#rebuild();
-  }
-
   /**
-   * True when the window mean has moved more than one standard deviation away
-   * from K (then S₂ − S₁²/n would cancel more than one bit): (S₁/n)² > S₂/n − (S₁/n)²,
-   * i.e. S₁² > n·S₂/2, and the offset is more than rounding of K itself.
+   * Takes xs[0], xs[1], ... up to the first non-finite sample and returns its
+   * index (xs.length when all are finite). The one loop behind `observe` and
+   * `observeMany`, with the state in locals.
    */
-  #shiftIsStale(): boolean {
-    const n = this.#size;
-    const s1 = this.#sum;
-    return s1 * s1 > 0.5 * n * this.#sumSq && Math.abs(s1) > n * 2 ** -40 * Math.abs(this.#shift);
+  #run(xs: Float64Array): number {
+    const width = this.#width;
+    const ring = this.#ring;
+    const sufMin = this.#sufMin;
+    const sufMax = this.#sufMax;
+    const earliest = this.#earliestRebuild;
+    let head = this.#head;
+    let size = this.#size;
+    let count = this.#count;
+    let since = this.#sinceRebuild;
+    let k = this.#shift; // K
+    let s1 = this.#sum; // S₁ = Σ(x − K)
+    let s2 = this.#sumSq; // S₂ = Σ(x − K)²
+    let preMin = this.#preMin;
+    let preMax = this.#preMax;
+    let i = 0;
+    for (; i < xs.length; i++) {
+      const x = (xs[i] as number) + 0; // + 0 turns −0 into 0, as JSON would
+      if (!(x - x === 0)) break; // NaN or ±Infinity
+      if (count === 0) k = x;
+      const d = x - k; // d = x − K
+      if (size === width) {
+        const e = (ring[head] as number) - k; // the oldest sample, leaving
+        s1 += d - e;
+        s2 += d * d - e * e;
+      } else {
+        s1 += d;
+        s2 += d * d;
+        size++;
+      }
+      if (head === 0) {
+        // A new block starts: keep the suffix extrema of the block just completed (still in the ring).
+        if (count >= width) {
+          let lo = Infinity;
+          let hi = -Infinity;
+          for (let j = width - 1; j >= 0; j--) {
+            const v = ring[j] as number;
+            if (v < lo) lo = v;
+            if (v > hi) hi = v;
+            sufMin[j] = lo;
+            sufMax[j] = hi;
+          }
+        }
+        preMin = x;
+        preMax = x;
+      } else {
+        if (x < preMin) preMin = x;
+        if (x > preMax) preMax = x;
+      }
+      ring[head] = x;
+      head = head + 1 === width ? 0 : head + 1;
+      count++;
+      since++;
+      // Recompute every W samples, or early (at most every W/4; looked at every 8th sample) when the window mean has left K by more
+      // than a standard deviation: S₁² > n·S₂/2, and the offset is more than rounding of K itself.
+      if (since === width || (since >= earliest && (since & 7) === 0 && s1 * s1 > 0.5 * size * s2 && Math.abs(s1) > size * 2 ** -40 * Math.abs(k))) {
+        this.#head = head;
+        this.#size = size;
+        this.#rebuild();
+        k = this.#shift;
+        s1 = this.#sum;
+        s2 = this.#sumSq;
+        since = 0;
+      }
+    }
+    this.#head = head;
+    this.#size = size;
+    this.#count = count;
+    this.#sinceRebuild = since;
+    this.#shift = k;
+    this.#sum = s1;
+    this.#sumSq = s2;
+    this.#preMin = preMin;
+    this.#preMax = preMax;
+    return i;
   }
 
-  /** Writes x into the ring and both deques as sample number `index`. */
-  #enter(x: number, index: number): void {
+  /** Rebuilds the running and suffix extrema from the ring, as the loop would have left them after `count` samples. */
+  #restoreExtrema(count: number): void {
+    if (count === 0) return;
     const width = this.#width;
-    this.#ring[this.#head] = x;
-    this.#head = this.#head + 1 === width ? 0 : this.#head + 1;
-    const expired = index - width; // indices ≤ this have left the window
-    // Max deque: values strictly decreasing from the front.
-    let len = this.#maxLen;
-    let head = this.#maxHead;
-    while (len > 0) {
-      let back = head + len - 1;
-      if (back >= width) back -= width;
-      if ((this.#maxVal[back] as number) > x) break;
-      len--;
+    const ring = this.#ring;
+    const newest = (count - 1) % width; // the current block holds ring[0..newest]
+    let lo = Infinity;
+    let hi = -Infinity;
+    for (let j = 0; j <= newest; j++) {
+      const v = ring[j] as number;
+      if (v < lo) lo = v;
+      if (v > hi) hi = v;
     }
-    if (len > 0 && (this.#maxIdx[head] as number) <= expired) {
-      head = head + 1 === width ? 0 : head + 1;
-      len--;
+    this.#preMin = lo;
+    this.#preMax = hi;
+    if (count <= width) return;
+    lo = Infinity;
+    hi = -Infinity;
+    for (let j = width - 1; j > newest; j--) {
+      const v = ring[j] as number;
+      if (v < lo) lo = v;
+      if (v > hi) hi = v;
+      this.#sufMin[j] = lo;
+      this.#sufMax[j] = hi;
     }
-    let slot = head + len;
-    if (slot >= width) slot -= width;
-    this.#maxVal[slot] = x;
-    this.#maxIdx[slot] = index;
-    this.#maxHead = head;
-    this.#maxLen = len + 1;
-    // Min deque: values strictly increasing from the front.
-    len = this.#minLen;
-    head = this.#minHead;
-    while (len > 0) {
-      let back = head + len - 1;
-      if (back >= width) back -= width;
-      if ((this.#minVal[back] as number) < x) break;
-      len--;
-    }
-    if (len > 0 && (this.#minIdx[head] as number) <= expired) {
-      head = head + 1 === width ? 0 : head + 1;
-      len--;
-    }
-    slot = head + len;
-    if (slot >= width) slot -= width;
-    this.#minVal[slot] = x;
-    this.#minIdx[slot] = index;
-    this.#minHead = head;
-    this.#minLen = len + 1;
   }
 
   /**
@@ -335,7 +374,6 @@ export class WindowMoments {
    * running sums.
    */
   #rebuild(): void {
-    this.#sinceRebuild = 0;
     const n = this.#size;
     const ring = this.#ring;
     const start = n === this.#width ? this.#head : 0;
