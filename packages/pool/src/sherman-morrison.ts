@@ -61,6 +61,17 @@ export function shermanMorrisonStep(
   traceBound: number,
   ws: UpdateWorkspace,
 ): Refusal {
+  // The checks and the two long loops live in separate functions: kept
+  // together in one body, V8 compiled the loops about three times slower.
+  const refusal = prepareGain(p, h, e, L, n, lambda, traceBound, ws);
+  if (refusal !== null) return refusal;
+  addOuterProduct(beta, ws.k, e, L, n);
+  symmetricDowndate(p, ws.u, ws.k, L, 1 / ws.appliedForgetting);
+  return null;
+}
+
+/** u = P h, the applied forgetting factor, k = u/(λ + hᵀu) and the safety checks; writes only the workspace. */
+function prepareGain(p: Vector, h: Float64Array, e: Float64Array, L: number, n: number, lambda: number, traceBound: number, ws: UpdateWorkspace): Refusal {
   const u = ws.u;
   const k = ws.k;
   let c = 0; // hᵀPh
@@ -79,27 +90,46 @@ export function shermanMorrisonStep(
   const applied = lambda < 1 ? boundedForgetting(lambda, trace, uu, c, traceBound) : 1;
   const inverse = 1 / (applied + c);
   let kSum = 0;
-  let uMax = 0;
+  let uSum = 0;
   for (let i = 0; i < L; i++) {
     const ui = u[i] as number;
     const ki = ui * inverse;
     k[i] = ki;
     kSum += Math.abs(ki);
-    uMax += Math.abs(ui);
+    uSum += Math.abs(ui);
   }
   let eSum = 0;
   for (let j = 0; j < n; j++) eSum += Math.abs(e[j] as number);
   if (!(kSum * eSum <= MAX_INCREMENT)) return "gain-not-finite";
-  const scale = 1 / applied;
-  if (!((trace + uMax * kSum) * scale <= MAX_STATE)) return "p-overflow";
+  if (!((trace + uSum * kSum) / applied <= MAX_STATE)) return "p-overflow";
   ws.appliedForgetting = applied;
-  // β ← β + k eᵀ
-  for (let i = 0; i < L; i++) {
+  return null;
+}
+
+/** β ← β + k eᵀ for β of L rows × n columns. */
+export function addOuterProduct(beta: Vector, k: Float64Array, e: Float64Array, L: number, n: number): void {
+  // two rows per pass share the loads of e
+  let i = 0;
+  for (; i + 1 < L; i += 2) {
+    const k0 = k[i] as number;
+    const k1 = k[i + 1] as number;
+    const r0 = i * n;
+    const r1 = r0 + n;
+    for (let j = 0; j < n; j++) {
+      const ej = e[j] as number;
+      beta[r0 + j] = (beta[r0 + j] as number) + k0 * ej;
+      beta[r1 + j] = (beta[r1 + j] as number) + k1 * ej;
+    }
+  }
+  if (i < L) {
     const ki = k[i] as number;
     const row = i * n;
     for (let j = 0; j < n; j++) beta[row + j] = (beta[row + j] as number) + ki * (e[j] as number);
   }
-  // P ← (P − u kᵀ)/λ, upper triangle mirrored
+}
+
+/** P ← (P − u kᵀ)·scale, computed on the upper triangle and mirrored. */
+function symmetricDowndate(p: Vector, u: Float64Array, k: Float64Array, L: number, scale: number): void {
   for (let i = 0; i < L; i++) {
     const ui = u[i] as number;
     const row = i * L;
@@ -109,5 +139,4 @@ export function shermanMorrisonStep(
       p[j * L + i] = v;
     }
   }
-  return null;
 }

@@ -1,0 +1,147 @@
+import { it } from "vitest";
+import { Matrix } from "ml-matrix";
+import { RandomSource } from "@leeway/core";
+import { AutoencoderPool, OselmAutoencoder, type Dtype } from "@leeway/pool";
+import { BenchReport, consume, nsPerOp, sumBaselineNs } from "./harness.js";
+
+const n = 256;
+const L = 32;
+// multiply-adds per call, counted from the loops
+const SCORE_MA = 2 * L * n; // W·z and βᵀh
+const UPDATE_MA = L * n + L * L + (L * (L + 1)) / 2; // β += k eᵀ, u = P h, upper triangle of P
+const LEARN_MA = SCORE_MA + UPDATE_MA;
+
+/** Log-magnitude-like rows: a few shared shapes plus noise (invented). */
+function rows(count: number, seed: number): Float64Array[] {
+  const random = new RandomSource(seed);
+  const shapes = [0, 1, 2].map(() => Float64Array.from({ length: n }, (_, j) => 1 + Math.sin((j * (random.next() + 0.5)) / 9)));
+  return Array.from({ length: count }, () => {
+    const s = shapes[random.integer(3)] as Float64Array;
+    return Float64Array.from(s, (v) => v + 0.05 * random.normal());
+  });
+}
+
+function dot(a: Float64Array, b: Float64Array): number {
+  let s = 0;
+  for (let i = 0; i < a.length; i++) s += (a[i] as number) * (b[i] as number);
+  return s;
+}
+
+/** The same OS-ELM autoencoder written with ml-matrix operations (the reference of ratio a). */
+class MatrixAutoencoder {
+  readonly w: Matrix;
+  readonly b: Matrix;
+  beta: Matrix;
+  p: Matrix;
+  constructor(model: OselmAutoencoder) {
+    const { weights, biases } = model.hiddenLayer();
+    this.w = new Matrix(L, n);
+    for (let i = 0; i < L; i++) for (let j = 0; j < n; j++) this.w.set(i, j, weights[i * n + j] as number);
+    this.b = Matrix.columnVector(Array.from(biases));
+    const beta = model.outputWeights();
+    const p = model.inverseGram();
+    this.beta = new Matrix(L, n);
+    for (let i = 0; i < L; i++) for (let j = 0; j < n; j++) this.beta.set(i, j, beta[i * n + j] as number);
+    this.p = new Matrix(L, L);
+    for (let i = 0; i < L; i++) for (let j = 0; j < L; j++) this.p.set(i, j, p[i * L + j] as number);
+  }
+  #forward(x: Float64Array): { z: Matrix; h: Matrix; e: Matrix } {
+    const z = Matrix.columnVector(Array.from(x));
+    const h = this.w.mmul(z).add(this.b);
+    h.apply((i, j) => h.set(i, j, 1 / (1 + Math.exp(-h.get(i, j)))));
+    const e = Matrix.sub(z, this.beta.transpose().mmul(h));
+    return { z, h, e };
+  }
+  score(x: Float64Array): number {
+    const { e } = this.#forward(x);
+    return e.norm("frobenius") ** 2 / n;
+  }
+  learn(x: Float64Array): void {
+    const { h, e } = this.#forward(x);
+    const u = this.p.mmul(h);
+    const c = h.transpose().mmul(u).get(0, 0);
+    const k = Matrix.div(u, 1 + c);
+    this.beta.add(k.mmul(e.transpose()));
+    this.p.sub(u.mmul(k.transpose()));
+  }
+}
+
+it("pool: OS-ELM autoencoder 256-32-256 and a pool of 4", () => {
+  const data = rows(4096, 1);
+  const baseline = sumBaselineNs(data[0] as Float64Array);
+  const report = new BenchReport("pool");
+  // The machine's scalar multiply-add rate: a tight dot product of two Float64Arrays
+  // of L·n elements (the size of W and of β). The machine is shared and noisy, so
+  // every kernel is timed between two dot-product timings and compared with their mean.
+  const da = new RandomSource(2).fillUniform(new Float64Array(L * n));
+  const db = new RandomSource(3).fillUniform(new Float64Array(L * n));
+  const dotNs = (): number => nsPerOp(() => consume(dot(da, db)), L * n, { minMs: 60, repeats: 5 });
+  const beside = (run: () => number): { ns: number; dotRate: number } => {
+    const before = dotNs();
+    const ns = run();
+    const after = dotNs();
+    return { ns, dotRate: 2 / (before + after) };
+  };
+  const rate = (ma: number, timing: { ns: number; dotRate: number }): string =>
+    `${(ma / timing.ns).toFixed(3)} multiply-adds/ns = ${(ma / timing.ns / timing.dotRate).toFixed(2)} × the dot-product rate (${timing.dotRate.toFixed(3)}/ns)`;
+  const firstDot = dotNs();
+  report.add("dot product of two Float64Arrays (per multiply-add)", firstDot, baseline, `${(1 / firstDot).toFixed(3)} multiply-adds/ns`);
+
+  const fitted = (dtype: Dtype): OselmAutoencoder => {
+    const model = new OselmAutoencoder({ inputs: n, hidden: L, seed: 4, dtype });
+    model.fit(data.slice(0, 64));
+    return model;
+  };
+  let t = 0;
+  const scoreOf = (model: OselmAutoencoder) => (): number =>
+    nsPerOp(() => {
+      let s = 0;
+      for (let i = 0; i < 64; i++) s += model.score(data[t++ & 4095] as Float64Array);
+      consume(s);
+    }, 64);
+  const learnOf = (model: OselmAutoencoder) => (): number =>
+    nsPerOp(() => {
+      let s = 0;
+      for (let i = 0; i < 64; i++) s += model.learn(data[t++ & 4095] as Float64Array);
+      consume(s);
+    }, 64);
+  const model64 = fitted("float64");
+  const score64 = beside(scoreOf(model64));
+  const learn64 = beside(learnOf(model64));
+
+  const reference = new MatrixAutoencoder(fitted("float64"));
+  let r = 0;
+  const refScoreNs = nsPerOp(() => { let s = 0; for (let i = 0; i < 8; i++) s += reference.score(data[r++ & 4095] as Float64Array); consume(s); }, 8);
+  const refLearnNs = nsPerOp(() => { for (let i = 0; i < 8; i++) reference.learn(data[r++ & 4095] as Float64Array); consume(reference.p.get(0, 0)); }, 8);
+
+  report.add("score 256-32-256 float64", score64.ns, baseline,
+    `${(1e9 / score64.ns).toFixed(0)} samples/s; (a) ${(refScoreNs / score64.ns).toFixed(1)}× faster than ml-matrix; (b) ${rate(SCORE_MA, score64)}`);
+  report.add("learn 256-32-256 float64", learn64.ns, baseline,
+    `${(1e9 / learn64.ns).toFixed(0)} samples/s; (a) ${(refLearnNs / learn64.ns).toFixed(1)}× faster than ml-matrix; (b) ${rate(LEARN_MA, learn64)}`);
+  report.add("score, same algorithm in ml-matrix operations", refScoreNs, baseline, `${(1e9 / refScoreNs).toFixed(0)} samples/s`);
+  report.add("learn, same algorithm in ml-matrix operations", refLearnNs, baseline, `${(1e9 / refLearnNs).toFixed(0)} samples/s`);
+
+  // pool of 4 members: score all, train the nearest (learnScored reuses the nearest's forward pass)
+  const pool = new AutoencoderPool({ inputs: n, hidden: L, maxMembers: 4, seed: 5 });
+  for (let m = 0; m < 4; m++) pool.addMember(rows(64, 10 + m));
+  let q = 0;
+  const poolTiming = beside(() => nsPerOp(() => { for (let i = 0; i < 64; i++) consume(pool.learn(data[q++ & 4095] as Float64Array).loss); }, 64));
+  report.add("pool of 4: score all + learn nearest", poolTiming.ns, baseline, `${(1e9 / poolTiming.ns).toFixed(0)} samples/s; (b) ${rate(4 * SCORE_MA + UPDATE_MA, poolTiming)}`);
+
+  // learnChunk per sample for k = 1, 4, 16, 64
+  for (const k of [1, 4, 16, 64]) {
+    const model = fitted("float64");
+    const chunks = Array.from({ length: 64 }, (_, c) => data.slice((c * k) % 4032, ((c * k) % 4032) + k));
+    let c = 0;
+    const ns = nsPerOp(() => { model.learnChunk(chunks[c++ & 63] as Float64Array[]); consume(model.count); }, k);
+    report.add(`learnChunk k=${k}, per sample`, ns, baseline, `${(1e9 / ns).toFixed(0)} samples/s; ${(ns / learn64.ns).toFixed(2)}× the cost of one learn`);
+  }
+
+  // float32 state last: from here on the shared loops also see Float32Array
+  const model32 = fitted("float32");
+  const score32 = beside(scoreOf(model32));
+  const learn32 = beside(learnOf(model32));
+  report.add("score 256-32-256 float32", score32.ns, baseline, `${(1e9 / score32.ns).toFixed(0)} samples/s; (b) ${rate(SCORE_MA, score32)}`);
+  report.add("learn 256-32-256 float32", learn32.ns, baseline, `${(1e9 / learn32.ns).toFixed(0)} samples/s; (b) ${rate(LEARN_MA, learn32)}`);
+  report.write();
+});
