@@ -83,4 +83,11 @@ describe("Framer", () => {
     allFrames(gap, [1, 2, 3]);
     expectRefusesCorruptions((s) => Framer.restore(s), gap.snapshot(), { sizePaths: [["size"], ["hop"]], variableLengthPaths: [["buffer"]] });
   });
+  it("the documented example: size 4, hop 2 gives [1, 2, 3, 4] then [3, 4, 5, 6]", () => {
+    const framer = new Framer({ size: 4, hop: 2 });
+    expect([1, 2, 3].map((x) => framer.observe(x))).toEqual([null, null, null]);
+    expect(Array.from(framer.observe(4) ?? [])).toEqual([1, 2, 3, 4]);
+    expect(framer.observe(5)).toBeNull();
+    expect(Array.from(framer.observe(6) ?? [])).toEqual([3, 4, 5, 6]);
+  });
 });

@@ -121,4 +121,13 @@ describe("RealFft", () => {
     expectLeewayError(() => new RealFft(8).forward(new Float64Array(7)), "E_OPTION", "data", "length 8");
     expectLeewayError(() => new RealFft(8).inverse(new Float64Array(16)), "E_OPTION", "data", "length 8");
   });
+  it("the documented example: eight ones give X_0 = 8 and zeros, and invert back", () => {
+    const fft = new RealFft(8);
+    const x = Float64Array.from([1, 1, 1, 1, 1, 1, 1, 1]);
+    fft.forward(x);
+    expect(x[0]).toBe(8);
+    for (let i = 1; i < 8; i++) expect(Math.abs(x[i] as number)).toBeLessThan(1e-15);
+    fft.inverse(x);
+    for (const v of x) expect(v).toBeCloseTo(1, 15);
+  });
 });

@@ -36,4 +36,7 @@ describe("reduceBins", () => {
     expectLeewayError(() => reduceBins(new Float64Array(4), 2, new Float64Array(3)), "E_DIMENSION", "out");
     expectLeewayError(() => reduceBins(new Float64Array(4), 2, new Float64Array(2), "max" as never), "E_OPTION", "how");
   });
+  it("the documented example: [1, 3, 5, 7] to 2 bins is [2, 6]", () => {
+    expect(Array.from(reduceBins(Float64Array.from([1, 3, 5, 7]), 2))).toEqual([2, 6]);
+  });
 });

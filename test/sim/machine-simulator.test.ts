@@ -199,6 +199,7 @@ describe("MachineSimulator", () => {
       }
       expect(previous).toBeCloseTo(1, 12);
     }
+    expect(degradationSeverity({ start: 0, end: 10, growth: "linear", rate: 4 }, 4)).toBe(0.5);
     const sim = new MachineSimulator(slowDegradation({ length: 2000 }));
     let previous = 0;
     for (let i = 400; i < 2000; i++) {
