@@ -49,6 +49,12 @@ function modeStream(seed: number): Family[] {
 }
 
 describe("AutoencoderPool: specialization", () => {
+  it("doc example: the empty pool starts member 0 and scores with it", () => {
+    const pool = new AutoencoderPool({ inputs: 2, hidden: 3, maxMembers: 2, spawnPatience: 1, seed: 1 });
+    expect(pool.learn(Float64Array.of(1, 0)).spawned).toBe(true);
+    expect(pool.score(Float64Array.of(1, 0)).member).toBe(0);
+  });
+
   it("on three well-separated spectrum families members specialize (purity ≥ 0.95) and a fourth family starts a new member", () => {
     const pool = new AutoencoderPool(poolOptions);
     const random = new RandomSource(21);

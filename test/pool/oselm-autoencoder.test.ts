@@ -32,6 +32,12 @@ function maxRelative(a: Float64Array, b: Float64Array): number {
 const base: OselmAutoencoderOptions = { inputs: 12, hidden: 6, seed: 3 };
 
 describe("OselmAutoencoder: updates", () => {
+  it("doc example: a linear layer with L ≥ n reconstructs any input", () => {
+    const model = new OselmAutoencoder({ inputs: 3, hidden: 4, activation: "identity", ridge: 1e-9, seed: 1 });
+    model.fit([Float64Array.of(1, 0, 0), Float64Array.of(0, 1, 0), Float64Array.of(0, 0, 1)]);
+    expect(model.score(Float64Array.of(-2, 0.5, 7)) < 1e-6).toBe(true);
+  });
+
   it("learnChunk of k rows equals k single learn calls (Woodbury = k × Sherman–Morrison), also with forgetting", () => {
     fc.assert(
       fc.property(fc.integer({ min: 1, max: 24 }), fc.constantFrom(1, 0.98), fc.integer({ min: 0, max: 1e6 }), (k, forgetting, seed) => {

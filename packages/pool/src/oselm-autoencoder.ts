@@ -127,9 +127,9 @@ interface InternalOptions extends OselmAutoencoderOptions {
  * wind-up (Goodwin & Sin, 1984). The score is the mean squared reconstruction
  * error in scaled units.
  * @example
- * const model = new OselmAutoencoder({ inputs: 4, hidden: 8, activation: "identity", ridge: 1e-9, seed: 1 });
- * model.learn(Float64Array.of(1, 2, 3, 4));
- * model.score(Float64Array.of(-2, 0.5, 7, 1)) < 1e-6; // true: linear, L ≥ n
+ * const model = new OselmAutoencoder({ inputs: 3, hidden: 4, activation: "identity", ridge: 1e-9, seed: 1 });
+ * model.fit([Float64Array.of(1, 0, 0), Float64Array.of(0, 1, 0), Float64Array.of(0, 0, 1)]);
+ * model.score(Float64Array.of(-2, 0.5, 7)) < 1e-6; // true: a linear layer with L ≥ n reconstructs any input
  */
 export class OselmAutoencoder {
   static readonly kind = "leeway.pool.oselm-autoencoder";
