@@ -40,6 +40,7 @@ export interface DecisionCoreState {
   newestId: number;
   anomalous: boolean;
   anomalyRun: number;
+  normalRun: number;
   referenceTrend: Snapshot;
   gapTrend: Snapshot;
   degradationStanding: boolean;
@@ -107,7 +108,8 @@ export class DecisionCore {
   #activeId = 0;
   #newestId = 0;
   #anomalous = false;
-  #anomalyRun = 0;
+  #anomalyRun = 0; // samples above the exit threshold in the present anomaly episode
+  #normalRun = 0; // consecutive samples below it since the last one above
   #referenceTrend: BlockTrend;
   #gapTrend: BlockTrend;
   #degradationStanding = false;
@@ -224,17 +226,22 @@ export class DecisionCore {
 
     if (this.#phase === "settling") return this.#settlingStep(zActive, zCommissioning, zNewest, evidence);
 
-    // 1. Anomaly, with hysteresis: enter above the entry threshold, leave below the exit threshold.
-    const anomalous = this.#anomalous ? uLive > (this.#anomalyExit as number) : uLive > (this.#anomalyEnter as number);
-    if (anomalous) {
+    // 1. Anomaly, with hysteresis in level and in time: an episode begins above the entry threshold and
+    // ends only after `anomalyRun` consecutive samples below the exit threshold; all its samples are held.
+    const above = this.#anomalous ? uLive > (this.#anomalyExit as number) : uLive > (this.#anomalyEnter as number);
+    if (above || (this.#anomalous && this.#normalRun + 1 < this.settings.anomalyRun)) {
+      if (above) {
+        this.#anomalyRun += 1;
+        this.#normalRun = 0;
+      } else this.#normalRun += 1;
       this.#anomalous = true;
-      this.#anomalyRun += 1;
-      evidence.anomaly = { threshold: this.anomalyThreshold, run: this.#anomalyRun, needed: this.settings.anomalyRun };
+      evidence.anomaly = { threshold: this.anomalyThreshold, run: this.#anomalyRun, needed: this.settings.anomalyRun, above };
       if (this.#phase !== "latched" && this.#anomalyRun >= this.settings.anomalyRun) return this.#latch("anomaly", evidence);
       return this.#decision("hold", this.#phase === "latched" ? (this.#latchCause as Cause) : "anomaly", evidence);
     }
     this.#anomalous = false;
     this.#anomalyRun = 0;
+    this.#normalRun = 0;
 
     // 2. Degradation: long decimated trends of the active reference's score and of the reference-minus-live gap.
     this.#referenceTrend.observe(zActive, this.#wantSlope);
@@ -343,6 +350,7 @@ export class DecisionCore {
     this.#phase = "watching";
     this.#anomalous = false;
     this.#anomalyRun = 0;
+    this.#normalRun = 0;
     this.#referenceTrend.restart();
     this.#gapTrend.restart();
   }
@@ -366,6 +374,7 @@ export class DecisionCore {
     }
     this.#anomalous = false;
     this.#anomalyRun = 0;
+    this.#normalRun = 0;
     this.keptAt = window.push(zActive, zCommissioning, zNewest);
     const elapsed = this.#index - this.#settlingStart;
     const settling: Record<string, unknown> = { samples: this.#settlingWindow.count, needed: s.settling, elapsed, progress: Math.min(1, this.#settlingWindow.count / s.settling) };
@@ -535,6 +544,7 @@ export class DecisionCore {
     this.#calibrationFilled = 0;
     this.#anomalous = false;
     this.#anomalyRun = 0;
+    this.#normalRun = 0;
   }
 
   /** Operator: go ahead with the retrain the engine awaits confirmation for (it starts with the next sample). */
@@ -566,6 +576,7 @@ export class DecisionCore {
     this.#toWatching();
     this.#anomalous = false;
     this.#anomalyRun = 0;
+    this.#normalRun = 0;
     if (cause === "anomaly") {
       // Whatever follows an acknowledged anomaly settles first: a level that persists is then a change
       // (retrain or switch), one that returns to normal is not confirmed; nothing is learnt meanwhile.
@@ -601,6 +612,7 @@ export class DecisionCore {
     this.#newestId = 0;
     this.#anomalous = false;
     this.#anomalyRun = 0;
+    this.#normalRun = 0;
     this.#degradationStanding = false;
     this.#degradationAlarmed = false;
     this.#pending = false;
@@ -637,6 +649,7 @@ export class DecisionCore {
       newestId: this.#newestId,
       anomalous: this.#anomalous,
       anomalyRun: this.#anomalyRun,
+      normalRun: this.#normalRun,
       referenceTrend: this.#referenceTrend.snapshot(),
       gapTrend: this.#gapTrend.snapshot(),
       degradationStanding: this.#degradationStanding,
@@ -699,6 +712,7 @@ export class DecisionCore {
     if (calibrated && calibrationPurpose === null && levels.length !== newestId + 1) r.fail("levels", `must have length ${newestId + 1}, got length ${levels.length}`);
     const anomalous = r.boolean("anomalous");
     const anomalyRun = r.integer("anomalyRun", 0, big);
+    const normalRun = r.integer("normalRun", 0, settings.anomalyRun);
     const referenceTrend = BlockTrend.restore(r.raw("referenceTrend"), settings.trendBlock, settings.trendWindow);
     const gapTrend = BlockTrend.restore(r.raw("gapTrend"), settings.trendBlock, settings.trendWindow);
     const degradationStanding = r.boolean("degradationStanding");
@@ -738,6 +752,7 @@ export class DecisionCore {
     core.#newestId = newestId;
     core.#anomalous = anomalous;
     core.#anomalyRun = anomalyRun;
+    core.#normalRun = normalRun;
     core.#referenceTrend = referenceTrend;
     core.#gapTrend = gapTrend;
     core.#degradationStanding = degradationStanding;
