@@ -23,6 +23,7 @@ export const ENGINE_FIELDS: Readonly<Record<string, ConfigField>> = {
   changeTest: { kind: "string", default: "cusum", choices: ["cusum", "page-hinkley"], doc: "The change test on the active reference's normalised score (two-sided, reference value 0.5 σ)." },
   targetArl0: n("samples", 20000, "Target in-control average run length of the change test; its threshold is calibrated to it at the end of commissioning."),
   calibrationReplicates: count(40, "Bootstrap replicates of that calibration (cost grows with replicates × targetArl0)."),
+  baselineHalfLife: count(1800, "Half-life of the slowly following baseline the change test measures from."),
   scoreClip: n("σ", 6, "Normalised scores are clipped to ± this before the change test, so one wild sample cannot fire it."),
   settling: count(300, "Samples the post-change stream must stay stationary before the engine acts."),
   settlingLimit: count(3600, "Longest settling before an unsettled change raises an alarm."),

@@ -123,4 +123,16 @@ describe("leeway replay", () => {
     expect(latched(without.stdout)).toBeGreaterThan(0);
     expect(latched(withOp.stdout)).toBeLessThan(latched(without.stdout));
   });
+
+  it("draws a progress bar on stderr only when stderr is a terminal", async () => {
+    const dir = scratchDir("replay-progress");
+    const path = join(dir, "scores.csv");
+    writeFileSync(path, scoreCsv(3000, 2));
+    const tty = await runCli(["replay", path], { tty: true });
+    expect(tty.stderr).toMatch(/\rreplay \[#*-*\] +\d+% \d/);
+    expect(tty.stderr).toContain("\r\u001b[K");
+    const pipe = await runCli(["replay", path]);
+    expect(pipe.stderr).not.toContain("\r");
+    expect(tty.stdout).toBe(pipe.stdout);
+  });
 });

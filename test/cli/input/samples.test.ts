@@ -66,6 +66,15 @@ describe("readSamples: layout", () => {
 });
 
 describe("readSamples: malformed input names line, column and what was expected", () => {
+  it("the good records before a malformed one are delivered before the error", async () => {
+    const lines = readLines((async function* () { yield Buffer.from("score\n1\n2\nx\n4\n"); })(), { name: "in" });
+    const seen: number[] = [];
+    const error = await (async () => {
+      for await (const batch of readSamples(lines, { name: "in" })) seen.push(...batch.rows.map((r) => r.values[0] as number));
+    })().then(() => null, (e: unknown) => e);
+    expect(seen).toEqual([1, 2]);
+    expect((error as Error).message).toContain("in:4:1");
+  });
   it("a non-number in a used column", async () => {
     expect(await inputError("score,ref\n0.1,0.2\n0.3,n/a\n")).toBe('in:3:5: field 2 ("ref"): expected a number, got "n/a"');
   });

@@ -55,6 +55,7 @@ export function demoEngineOptions(scale: number, inputs: number, seed: string): 
     trendBlock,
     trendWindow: Math.max(40, Math.round((36 * scale) / trendBlock)),
     coolDown: hours(1, 10),
+    baselineHalfLife: hours(0.5, 60),
     retrainHorizon: hours(24, 100),
     targetArl0: Math.min(1e7, Math.max(1000, hours(168 * 4, 1000))),
     calibrationReplicates: 30,
