@@ -39,6 +39,20 @@ describe("EwMoments", () => {
     );
   });
 
+  it("observeMany's converged fast path (W at its fixed point) stays bit-identical to observe, across non-finite skips", () => {
+    const xs = Float64Array.from({ length: 3000 }, (_, i) => Math.sin(i * 0.37) * 5 + (i % 11));
+    xs[2500] = Number.NaN;
+    for (const alpha of [0.3, 0.05]) {
+      const one = new EwMoments({ alpha, nonFinite: "skip" });
+      for (const x of xs) one.observe(x);
+      const many = new EwMoments({ alpha, nonFinite: "skip" });
+      many.observeMany(xs.subarray(0, 1234));
+      many.observeMany(xs.subarray(1234));
+      expect(many.snapshot()).toEqual(one.snapshot());
+      expect(many.skipped).toBe(1);
+    }
+  });
+
   it("mean and variance equal the exponentially weighted moments computed from their definition (bias-free warm-up)", () => {
     fc.assert(
       fc.property(stream(300), fc.double({ min: 0.01, max: 1, noNaN: true }), (xs, a) => {

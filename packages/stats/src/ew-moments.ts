@@ -136,8 +136,9 @@ export class EwMoments {
       const r = 1 / weight;
       const old = this.#mean;
       const mean = (1 - r) * old + r * x; // x̄ ← (1 − r)x̄ + r·x
-      // S ← λS + (x − x̄_old)(x − x̄_new); the product can round to −ulp², so S is kept ≥ 0.
-      this.#s = Math.max(0, this.#lambda * this.#s + (x - old) * (x - mean));
+      // S ← λS + (x − x̄_old)(x − x̄_new); the product can round to −ulp², so it is taken ≥ 0.
+      const p = (x - old) * (x - mean);
+      this.#s = this.#lambda * this.#s + (p > 0 ? p : 0);
       this.#mean = mean;
       this.#weight = weight;
       this.#count++;
@@ -145,32 +146,59 @@ export class EwMoments {
     return { count: this.#count, mean: this.mean, variance: this.variance, skipped: this.#skipped };
   }
 
-  /** Takes every sample of `xs`; the same state as `observe` on each, bit for bit. */
+  /**
+   * Takes every sample of `xs`; the same state as `observe` on each, bit for
+   * bit. Once W has reached its fixed point λW + 1 = W in floating point (a
+   * few dozen half-lives in), r = 1/W is a constant and the loop skips the
+   * division; the arithmetic stays the same.
+   */
   observeMany(xs: Float64Array): void {
+    let rest = xs;
+    for (;;) {
+      const stop = this.#run(rest);
+      if (stop === rest.length) return;
+      this.observe(rest[stop] as number); // refuses, or skips and counts
+      rest = rest.subarray(stop + 1);
+    }
+  }
+
+  /** Takes xs[0], xs[1], ... up to the first non-finite sample and returns its index (xs.length when all are finite). */
+  #run(xs: Float64Array): number {
     const lambda = this.#lambda;
     let weight = this.#weight;
     let mean = this.#mean;
     let s = this.#s;
     let i = 0;
     const len = xs.length;
-    for (; i < len; i++) {
+    while (i < len && lambda * weight + 1 !== weight) {
       const x = xs[i] as number;
-      if (!Number.isFinite(x)) break;
-      const w = lambda * weight + 1;
+      if (!(x - x === 0)) break; // NaN or ±Infinity
+      const w = lambda * weight + 1; // W ← λW + 1
       const r = 1 / w;
       const m = (1 - r) * mean + r * x;
-      s = Math.max(0, lambda * s + (x - mean) * (x - m));
+      const p = (x - mean) * (x - m);
+      s = lambda * s + (p > 0 ? p : 0);
       mean = m;
       weight = w;
+      i++;
+    }
+    if (i < len && lambda * weight + 1 === weight) {
+      const r = 1 / weight;
+      const c = 1 - r;
+      for (; i < len; i++) {
+        const x = xs[i] as number;
+        if (!(x - x === 0)) break;
+        const m = c * mean + r * x; // x̄ ← (1 − r)x̄ + r·x
+        const p = (x - mean) * (x - m); // (x − x̄_old)(x − x̄_new)
+        s = lambda * s + (p > 0 ? p : 0); // S ← λS + p
+        mean = m;
+      }
     }
     this.#count += i;
     this.#weight = weight;
     this.#mean = mean;
     this.#s = s;
-    if (i < len) {
-      this.observe(xs[i] as number);
-      this.observeMany(xs.subarray(i + 1));
-    }
+    return i;
   }
 
   /** The whole state as JSON-safe data. */

@@ -110,22 +110,23 @@ export class Moments {
 
   /** Weighted mean x̄; NaN before the first sample. */
   get mean(): number {
-    if (this.count === 0) return Number.NaN;
+    if (this.#n + this.#bCount === 0) return Number.NaN;
     if (this.#bCount === 0) return this.#mean;
-    const bw = this.#bWeight;
-    const bMean = this.#bShift + this.#bSum / bw;
-    if (this.#n === 0) return bMean;
-    return this.#mean + (bMean - this.#mean) * (bw / (this.#w + bw));
+    const t = this.#bSum / this.#bWeight; // block mean − K
+    if (this.#n === 0) return this.#bShift + t;
+    const f = this.#bWeight / (this.#w + this.#bWeight); // W_B/W
+    return this.#mean + (this.#bShift + t - this.#mean) * f;
   }
 
   /** M₂ = Σw(x − x̄)², the sum of squared deviations. */
   get sumSquaredDeviations(): number {
     if (this.#bCount === 0) return this.#m2;
-    const bw = this.#bWeight;
-    const bM2 = Math.max(0, this.#bSq - (this.#bSum * this.#bSum) / bw);
+    const t = this.#bSum / this.#bWeight;
+    const bM2 = Math.max(0, this.#bSq - this.#bSum * t); // S₂ − S₁²/W_B
     if (this.#n === 0) return bM2;
-    const delta = this.#bShift + this.#bSum / bw - this.#mean;
-    return this.#m2 + bM2 + delta * delta * ((this.#w * bw) / (this.#w + bw));
+    const f = this.#bWeight / (this.#w + this.#bWeight);
+    const delta = this.#bShift + t - this.#mean;
+    return this.#m2 + bM2 + delta * delta * (this.#w * f); // + δ²·W_A·W_B/W
   }
 
   /** Population variance M₂/W; NaN before the first sample. */
@@ -176,7 +177,8 @@ export class Moments {
     } else {
       this.#take(x, w);
     }
-    return { count: this.count, mean: this.mean, variance: this.variance, skipped: this.#skipped };
+    const count = this.#n + this.#bCount;
+    return { count, mean: this.mean, variance: count === 0 ? Number.NaN : this.sumSquaredDeviations / (this.#w + this.#bWeight), skipped: this.#skipped };
   }
 
   /**
@@ -199,35 +201,36 @@ export class Moments {
         i++;
         continue;
       }
-      const end = Math.min(len, i + (MOMENTS_BLOCK - this.#bCount));
+      const start = i;
       const shift = this.#bShift;
       let s1 = this.#bSum;
       let s2 = this.#bSq;
       let lo = this.#min;
       let hi = this.#max;
-      for (let j = i; j < end; j++) {
-        const x = xs[j] as number;
+      let left = MOMENTS_BLOCK - this.#bCount; // samples until this block is full
+      for (; i < xs.length; ) {
+        const x = xs[i] as number;
         const d = x - shift; // d = x − K
         s1 += d;
         s2 += d * d;
         if (x < lo) lo = x;
         if (x > hi) hi = x;
+        i++;
+        if (--left === 0) break;
       }
       if (!Number.isFinite(s1) || !Number.isFinite(s2)) {
         // A non-finite sample (or an overflow) in this run: redo it one by one,
         // which refuses or skips exactly where `observe` would.
-        for (let j = i; j < end; j++) this.observe(xs[j] as number);
-        i = end;
+        for (let j = start; j < i; j++) this.observe(xs[j] as number);
         continue;
       }
       this.#bSum = s1;
       this.#bSq = s2;
-      this.#bCount += end - i;
-      this.#bWeight += end - i;
+      this.#bCount += i - start;
+      this.#bWeight += i - start;
       this.#min = lo + 0; // + 0 turns −0 into 0, as JSON would
       this.#max = hi + 0;
       if (this.#bCount === MOMENTS_BLOCK) this.#flush();
-      i = end;
     }
   }
 
@@ -335,8 +338,9 @@ export class Moments {
   #flush(): void {
     if (this.#bCount === 0) return;
     const bw = this.#bWeight;
-    const bMean = this.#bShift + this.#bSum / bw;
-    const bM2 = Math.max(0, this.#bSq - (this.#bSum * this.#bSum) / bw);
+    const t = this.#bSum / bw;
+    const bMean = this.#bShift + t;
+    const bM2 = Math.max(0, this.#bSq - this.#bSum * t);
     const count = this.#bCount;
     this.#bCount = 0;
     this.#bWeight = 0;
@@ -356,9 +360,10 @@ export class Moments {
     }
     const wA = this.#w;
     const total = wA + wB;
+    const f = wB / total; // W_B/W
     const delta = meanB - this.#mean; // δ = x̄_B − x̄_A
-    this.#mean += delta * (wB / total);
-    this.#m2 += m2B + delta * delta * ((wA * wB) / total);
+    this.#mean += delta * f;
+    this.#m2 += m2B + delta * delta * (wA * f); // + δ²·W_A·W_B/W
     this.#n += count;
     this.#w = total;
   }

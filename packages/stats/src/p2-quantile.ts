@@ -72,7 +72,7 @@ export class P2Quantile {
   readonly #policy: NonFinitePolicy;
   readonly #q = new Float64Array(5); // marker heights q₁..q₅
   readonly #n = new Float64Array(5); // marker positions n₁..n₅
-  readonly #f: Float64Array; // desired-position increments fᵢ
+  readonly #one = new Float64Array(1); // observe(x) runs the batch loop on [x]
   #count = 0;
   #skipped = 0;
 
@@ -80,7 +80,6 @@ export class P2Quantile {
     const o = optionsObject<P2QuantileOptions>("P2Quantile", options, ["p", "nonFinite"]);
     this.#p = numberInRange("P2Quantile", "p", o.p, { min: 0, max: 1, minExclusive: true, maxExclusive: true });
     this.#policy = nonFiniteOption("P2Quantile", o.nonFinite);
-    this.#f = Float64Array.from([0, this.#p / 2, this.#p, (1 + this.#p) / 2, 1]);
     for (let i = 0; i < 5; i++) this.#n[i] = i + 1;
   }
 
@@ -127,17 +126,20 @@ export class P2Quantile {
       if (this.#policy === "refuse") throw new NonFiniteError("P2Quantile", "x", x);
       this.#skipped++;
     } else {
-      this.#take(x);
+      this.#one[0] = x;
+      this.#run(this.#one);
     }
     return { count: this.#count, estimate: this.estimate, skipped: this.#skipped };
   }
 
-  /** Takes every sample of `xs`; the same state as `observe` on each. */
+  /** Takes every sample of `xs`; the same state as `observe` on each, bit for bit (both run the same loop). */
   observeMany(xs: Float64Array): void {
-    for (let i = 0; i < xs.length; i++) {
-      const x = xs[i] as number;
-      if (Number.isFinite(x)) this.#take(x);
-      else this.observe(x);
+    let rest = xs;
+    for (;;) {
+      const stop = this.#run(rest);
+      if (stop === rest.length) return;
+      this.observe(rest[stop] as number); // refuses, or skips and counts
+      rest = rest.subarray(stop + 1);
     }
   }
 
@@ -182,53 +184,104 @@ export class P2Quantile {
     return q;
   }
 
-  #take(x: number): void {
-    x += 0; // −0 becomes 0, as it would through JSON
+  /**
+   * Takes xs[0], xs[1], ... up to the first non-finite sample and returns its
+   * index (xs.length when all are finite); the markers live in locals.
+   */
+  #run(xs: Float64Array): number {
     const q = this.#q;
     const n = this.#n;
-    const c = this.#count;
-    if (c < 5) {
-      q[c] = x;
-      this.#count = c + 1;
-      if (c === 4) q.sort();
-      return;
+    let count = this.#count;
+    let i = 0;
+    for (; count < 5 && i < xs.length; i++) {
+      const x = (xs[i] as number) + 0; // + 0 turns −0 into 0, as JSON would
+      if (!(x - x === 0)) {
+        this.#count = count;
+        return i;
+      }
+      q[count++] = x;
+      if (count === 5) q.sort();
     }
-    // Find the cell k with q_k ≤ x < q_{k+1}, widening the extremes if needed.
-    let k: number;
-    if (x < (q[0] as number)) {
-      q[0] = x;
-      k = 0;
-    } else if (x >= (q[4] as number)) {
-      if (x > (q[4] as number)) q[4] = x;
-      k = 3;
-    } else {
-      k = x < (q[1] as number) ? 0 : x < (q[2] as number) ? 1 : x < (q[3] as number) ? 2 : 3;
-    }
-    for (let i = k + 1; i < 5; i++) n[i] = (n[i] as number) + 1;
-    const count = c + 1;
-    this.#count = count;
-    // Adjust the middle markers toward their desired positions n′ᵢ = 1 + (count − 1)·fᵢ.
-    const f = this.#f;
-    for (let i = 1; i < 4; i++) {
-      const ni = n[i] as number;
-      const d = 1 + (count - 1) * (f[i] as number) - ni;
-      const up = (n[i + 1] as number) - ni;
-      const down = (n[i - 1] as number) - ni;
-      if ((d >= 1 && up > 1) || (d <= -1 && down < -1)) {
+    const f1 = this.#p / 2; // desired-position increments fᵢ
+    const f2 = this.#p;
+    const f3 = (1 + this.#p) / 2;
+    let q0 = q[0] as number;
+    let q1 = q[1] as number;
+    let q2 = q[2] as number;
+    let q3 = q[3] as number;
+    let q4 = q[4] as number;
+    const n0 = 1;
+    let n1 = n[1] as number;
+    let n2 = n[2] as number;
+    let n3 = n[3] as number;
+    let n4 = n[4] as number;
+    for (; i < xs.length; i++) {
+      const x = (xs[i] as number) + 0;
+      if (!(x - x === 0)) break; // NaN or ±Infinity
+      // The cell k with q_k ≤ x < q_{k+1} (extremes widened): every marker above it moves up one position.
+      if (x < q1) {
+        if (x < q0) q0 = x;
+        n1++;
+        n2++;
+        n3++;
+      } else if (x < q2) {
+        n2++;
+        n3++;
+      } else if (x < q3) {
+        n3++;
+      } else if (x > q4) {
+        q4 = x;
+      }
+      n4++;
+      count++;
+      // Move each middle marker one step toward its desired position n′ᵢ = 1 + (count − 1)·fᵢ when it is off by ≥ 1.
+      const c1 = count - 1;
+      let d = 1 + c1 * f1 - n1;
+      if ((d >= 1 && n2 - n1 > 1) || (d <= -1 && n0 - n1 < -1)) {
         const s = d >= 1 ? 1 : -1;
-        const qi = q[i] as number;
-        const qUp = q[i + 1] as number;
-        const qDown = q[i - 1] as number;
-        // Parabolic prediction; symbols as in Jain & Chlamtac (1985), eq. for q′ᵢ.
-        const parabolic = qi + (s / (up - down)) * ((s - down) * ((qUp - qi) / up) + (up - s) * ((qi - qDown) / -down));
-        if (qDown < parabolic && parabolic < qUp) {
-          q[i] = parabolic;
-        } else {
-          // Linear: qᵢ + d·(q_{i+d} − qᵢ)/(n_{i+d} − nᵢ).
-          q[i] = s > 0 ? qi + (qUp - qi) / up : qi - (qDown - qi) / down;
-        }
-        n[i] = ni + s;
+        q1 = markerHeight(s, q0, q1, q2, n0, n1, n2);
+        n1 += s;
+      }
+      d = 1 + c1 * f2 - n2;
+      if ((d >= 1 && n3 - n2 > 1) || (d <= -1 && n1 - n2 < -1)) {
+        const s = d >= 1 ? 1 : -1;
+        q2 = markerHeight(s, q1, q2, q3, n1, n2, n3);
+        n2 += s;
+      }
+      d = 1 + c1 * f3 - n3;
+      if ((d >= 1 && n4 - n3 > 1) || (d <= -1 && n2 - n3 < -1)) {
+        const s = d >= 1 ? 1 : -1;
+        q3 = markerHeight(s, q2, q3, q4, n2, n3, n4);
+        n3 += s;
       }
     }
+    if (this.#count >= 5 || count >= 5) {
+      q[0] = q0;
+      q[1] = q1;
+      q[2] = q2;
+      q[3] = q3;
+      q[4] = q4;
+      n[1] = n1;
+      n[2] = n2;
+      n[3] = n3;
+      n[4] = n4;
+    }
+    this.#count = count;
+    return i;
   }
+}
+
+/**
+ * The new height of a middle marker moved by s = ±1 (Jain & Chlamtac, 1985):
+ * the piecewise-parabolic prediction
+ * qᵢ + s/(nᵢ₊₁ − nᵢ₋₁)·[(nᵢ − nᵢ₋₁ + s)(qᵢ₊₁ − qᵢ)/(nᵢ₊₁ − nᵢ) + (nᵢ₊₁ − nᵢ − s)(qᵢ − qᵢ₋₁)/(nᵢ − nᵢ₋₁)]
+ * when it stays strictly between the neighbours, else the linear one
+ * qᵢ + s·(q_{i+s} − qᵢ)/(n_{i+s} − nᵢ).
+ */
+function markerHeight(s: number, qDown: number, qi: number, qUp: number, nDown: number, ni: number, nUp: number): number {
+  const up = nUp - ni;
+  const down = nDown - ni;
+  const parabolic = qi + (s / (up - down)) * ((s - down) * ((qUp - qi) / up) + (up - s) * ((qi - qDown) / -down));
+  if (qDown < parabolic && parabolic < qUp) return parabolic;
+  return s > 0 ? qi + (qUp - qi) / up : qi - (qDown - qi) / down;
 }
