@@ -61,6 +61,7 @@ describe("MachineSimulator", () => {
     expect(count).toBe(120);
     expect(sim.next()).toBeNull();
     expect(sim.frame()).toBeNull();
+    for (const bad of [-1, 120, 2.5, Number.NaN]) expectLeewayError(() => sim.truthAt(bad), "E_OPTION", "i", "[0, 119]");
   });
 
   it("each tonal component appears at its FFT bin with its amplitude (no jitter, lines on exact bins)", () => {

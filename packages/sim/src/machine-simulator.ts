@@ -1,4 +1,4 @@
-import { LeewayError, RandomSource, SnapshotError, envelope, openSnapshot, type RandomSourceState, type Snapshot } from "@leeway/core";
+import { LeewayError, OptionError, RandomSource, SnapshotError, envelope, openSnapshot, type RandomSourceState, type Snapshot } from "@leeway/core";
 import { SpectrumAnalyzer, reduceBins } from "@leeway/signal";
 import { bearingOrders, type BearingOrders } from "./bearing.js";
 import { defineScenario, type DegradationEvent, type Scenario, type ScenarioEvent, type ScenarioSpec } from "./scenario.js";
@@ -194,6 +194,7 @@ export class MachineSimulator {
   /** The ground truth at sample i (pure: does not advance the simulator). */
   truthAt(i: number): SampleTruth {
     const s = this.scenario;
+    if (!Number.isInteger(i) || i < 0 || i >= s.length) throw new OptionError("MachineSimulator", "i", i, `a sample index, an integer in [0, ${s.length - 1}]`);
     let environment = 0;
     let environmentStart = -1;
     let severity = 0;
