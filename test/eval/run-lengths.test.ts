@@ -1,8 +1,20 @@
 import { describe, expect, it } from "vitest";
 import { RandomSource } from "@leeway/core";
 import { poissonInterval, runLengths } from "@leeway/eval";
+import { expectLeewayError } from "../support/errors.js";
 
 describe("runLengths", () => {
+  it("refuses unequal masks and a bad level", () => {
+    expectLeewayError(() => runLengths(new Uint8Array(5), new Uint8Array(4)), "E_DIMENSION", "falseAlarmAt", "5", "4");
+    expectLeewayError(() => runLengths(new Uint8Array(5), new Uint8Array(5), 0), "E_OPTION", "level", "0");
+  });
+
+  it("ignores a false alarm flagged at an excluded sample", () => {
+    const r = runLengths(Uint8Array.of(0, 1, 0), Uint8Array.of(0, 1, 0));
+    expect(r.falseAlarms).toBe(0);
+    expect(r.censored).toEqual([1, 1]);
+  });
+
   it("splits the in-control samples into completed and censored runs", () => {
     // in control: 0–3, 6–9; false alarms at 1 and 8
     const excluded = Uint8Array.from([0, 0, 0, 0, 1, 1, 0, 0, 0, 0]);

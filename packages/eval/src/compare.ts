@@ -75,11 +75,16 @@ export interface Comparison {
  * Poisson interval of Garwood, 1936; delays over all detected events; areas
  * averaged over scenarios), plus one row per policy and scenario.
  * @example
+ * // Two policies that alarm above a fixed score, on one scenario with a rag at 3–4.
+ * const above = (limit: number) => (): Pipeline<number> => ({
+ *   observe: (s) => ({ index: 0, action: s > limit ? "alarm" : "learn", cause: s > limit ? "anomaly" : "normal", phase: "watching", evidence: { liveScore: s, referenceScores: [s] } }),
+ * });
  * const table = compare(
- *   [{ name: "frozen only", create: () => frozenPipeline() }, { name: "gated", create: () => gatedPipeline() }],
- *   [{ name: "clog", stream: () => clogScores, labels: { events: [{ cause: "anomaly", start: 500, end: 560 }] } }],
+ *   [{ name: "limit 5", create: above(5) }, { name: "limit 1.5", create: above(1.5) }],
+ *   [{ name: "rag", stream: () => [1, 2, 1, 9, 8, 1], labels: { events: [{ cause: "anomaly", start: 3, end: 5 }] } }],
  * );
- * table.markdown; // "| policy | scenarios | events | ... |"
+ * table.rows.map((r) => [r.policy, r.detected, r.falseAlarms]); // [["limit 5", 1, 0], ["limit 1.5", 1, 1]]
+ * table.markdown.split("\n")[0]; // "| policy | events | detected | right cause | revised | missed | ..."
  */
 export function compare<S>(policies: readonly PolicyUnderTest<S>[], suite: readonly SuiteScenario<S>[], options?: EvaluateOptions): Comparison {
   const opts = optionsObject<EvaluateOptions>("compare", options, EVALUATE_OPTIONS);

@@ -72,9 +72,10 @@ const CAUSE_CODES: readonly (EventCause | undefined)[] = [undefined, ...EVENT_CA
  *   against the anomaly labels, over the samples outside commissioning.
  * @example
  * const t = new Timeline();
- * // ... t.record(decision) for each sample
- * const m = evaluate(t, { events: [{ cause: "anomaly", start: 100, end: 160 }] });
- * m.perEvent[0]?.delay; // samples from 100 to the first response, or null
+ * const decide = (action: Action, cause: Cause): Decision => ({ index: t.length, action, cause, phase: "watching", evidence: { liveScore: 1, referenceScores: [1] } });
+ * for (let i = 0; i < 10; i++) t.record(i === 6 ? decide("alarm", "anomaly") : decide("learn", "normal"));
+ * const m = evaluate(t, { events: [{ cause: "anomaly", start: 4, end: 8 }] });
+ * [m.perEvent[0]?.delay, m.perEvent[0]?.claimed, m.falseAlarms, m.runLengths.exposure]; // [2, "anomaly", 0, 6]
  */
 export function evaluate(timeline: Timeline, labels?: ReplayLabels, options?: EvaluateOptions): ReplayMetrics {
   const { maxDelay, level } = checkEvaluateOptions("evaluate", optionsObject<EvaluateOptions>("evaluate", options, EVALUATE_OPTIONS));

@@ -1,3 +1,4 @@
+import { DimensionError, numberInRange } from "@leeway/core";
 import type { RunLengths } from "./metrics.js";
 import { poissonInterval } from "./poisson-interval.js";
 
@@ -14,8 +15,15 @@ import { poissonInterval } from "./poisson-interval.js";
  * alarm probability p, censored runs included — and the interval
  * [exposure / μ_U, exposure / μ_L] from the exact Poisson limits of Garwood
  * (1936) for k (μ_L = 0 when k = 0: the upper bound is then null, unbounded).
+ * A false alarm flagged at an excluded sample is not counted.
+ * @example
+ * // in control 0–3 and 6–9, false alarms at 1 and 8
+ * const r = runLengths(Uint8Array.of(0, 0, 0, 0, 1, 1, 0, 0, 0, 0), Uint8Array.of(0, 1, 0, 0, 0, 0, 0, 0, 1, 0));
+ * [r.completed, r.censored, r.arl]; // [[2, 3], [2, 1], 4]
  */
-export function runLengths(excluded: Uint8Array, falseAlarmAt: Uint8Array, level: number): RunLengths {
+export function runLengths(excluded: Uint8Array, falseAlarmAt: Uint8Array, level = 0.95): RunLengths {
+  if (falseAlarmAt.length !== excluded.length) throw new DimensionError("runLengths", "falseAlarmAt", excluded.length, falseAlarmAt.length);
+  numberInRange("runLengths", "level", level, { min: 0, max: 1, minExclusive: true, maxExclusive: true });
   const completed: number[] = [];
   const censored: number[] = [];
   let exposure = 0;
