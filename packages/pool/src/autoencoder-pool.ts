@@ -32,8 +32,14 @@ export const MAX_MEMBERS = 64;
 /** Largest accepted spawnPatience. */
 export const MAX_SPAWN_PATIENCE = 10_000;
 
-/** Options of {@link AutoencoderPool}. */
-export interface AutoencoderPoolOptions {
+/**
+ * Options of {@link AutoencoderPool}. The member options (activation, ridge,
+ * forgetting, traceBound, dtype, scaling) are those of {@link OselmAutoencoderOptions};
+ * "standardize" scaling fits each member's scaling to the rows it starts from.
+ * `nonFinite` applies to `learn`; `score` always refuses non-finite values.
+ */
+export interface AutoencoderPoolOptions
+  extends Pick<OselmAutoencoderOptions, "activation" | "ridge" | "forgetting" | "traceBound" | "dtype" | "scaling" | "nonFinite"> {
   /** n, the input length of every member. */
   inputs: number;
   /** L, the hidden units of every member. */
@@ -46,16 +52,6 @@ export interface AutoencoderPoolOptions {
   spawnPatience?: number;
   /** Seed of the pool; member k's hidden layer is drawn from `${seed}/member/${k}`. */
   seed: number | string;
-  /** Member options (see {@link OselmAutoencoderOptions}). */
-  activation?: Activation;
-  ridge?: number;
-  forgetting?: number;
-  traceBound?: number;
-  dtype?: Dtype;
-  /** Member scaling; "standardize" fits each member's scaling to the rows it starts from. */
-  scaling?: ScalingOption;
-  /** "refuse" (default) or "skip" non-finite samples in learn; score always refuses them. */
-  nonFinite?: NonFinitePolicy;
 }
 
 /** What {@link AutoencoderPool.score} returns. */
@@ -229,10 +225,8 @@ export class AutoencoderPool {
    */
   score(x: ArrayLike<number>): PoolScore {
     this.#calls++;
-    if (this.#members.length === 0) {
-      this.#check(x, true);
-      return { member: -1, loss: Infinity, losses: this.#losses };
-    }
+    this.#check(x, true);
+    if (this.#members.length === 0) return { member: -1, loss: Infinity, losses: this.#losses };
     const nearest = this.#scoreAll(x);
     return { member: nearest, loss: this.#losses[nearest] as number, losses: this.#losses };
   }

@@ -492,15 +492,7 @@ export class OselmAutoencoder {
     for (let i = 0; i < L; i++) for (let j = i; j < L; j++) upper.push(this.#p[i * L + j] as number);
     const { mode, offset, scale } = this.#scaling;
     return envelope(OselmAutoencoder.kind, OselmAutoencoder.version, {
-      inputs: this.#n,
-      hidden: L,
-      activation: this.#activation,
-      ridge: this.#ridge,
-      forgetting: this.#forgetting,
-      traceBound: this.#traceBound,
-      dtype: this.#dtype,
-      nonFinite: this.#nonFinite,
-      seed: this.#seed,
+      ...this.#plainOptions(),
       hiddenChecksum: this.#layer.checksum,
       scaling: mode,
       offset: offset === null ? null : toPlainArray(offset),
@@ -595,19 +587,24 @@ export class OselmAutoencoder {
     return model;
   }
 
-  #options(): InternalOptions {
+  /** The resolved options as plain data (every default filled in). */
+  #plainOptions(): Required<Omit<OselmAutoencoderOptions, "scaling">> & { seed: string } {
     return {
       inputs: this.#n,
       hidden: this.#L,
-      seed: this.#seed,
       activation: this.#activation,
       ridge: this.#ridge,
       forgetting: this.#forgetting,
       traceBound: this.#traceBound,
       dtype: this.#dtype,
       nonFinite: this.#nonFinite,
-      [LAYER]: this.#layer,
+      seed: this.#seed,
     };
+  }
+
+  /** Options that build a copy sharing this model's hidden layer. */
+  #options(): InternalOptions {
+    return { ...this.#plainOptions(), [LAYER]: this.#layer };
   }
 
   #assign(beta: Vector, p: Vector, scaling: Scaling, fitted: boolean): void {
