@@ -328,10 +328,9 @@ export class Adwin implements ChangeTest {
     m2s[c0] = 0;
     counts[0] = ++c0;
     if (this.#levels === 0) this.#levels = 1;
-    for (let l = 0; (counts[l] as number) > this.#m; l++) {
+    for (let l = 0, n = 1; (counts[l] as number) > this.#m; l++, n *= 2) {
       // merge the two oldest buckets of level l (each of n = 2^l samples) into one of level l + 1
       const base = l * cap;
-      const n = 2 ** l;
       const t0 = totals[base] as number;
       const t1 = totals[base + 1] as number;
       const d = (t0 - t1) / n;
