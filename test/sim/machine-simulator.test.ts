@@ -134,6 +134,11 @@ describe("MachineSimulator", () => {
     expect(sum / count / ((4 * sigma2) / 1024)).toBeCloseTo(1, 1);
   });
 
+  it("long frames (65 536 samples) get a noise bank large enough for two non-overlapping segments", () => {
+    const sim = new MachineSimulator(defineScenario({ length: 3, frameSize: 65536, bins: 64, schedule: [{ start: 0, mode: "mid", rpm: 1485 }] }));
+    for (let s = sim.next(); s !== null; s = sim.next()) expect(s.spectrum.every((v) => Number.isFinite(v) && v > 0)).toBe(true);
+  });
+
   it("ground-truth onsets match the timeline of every suite preset", () => {
     const L = 1200;
     const cases: [Scenario, (i: number, t: { mode: string; environment: number; severity: number; fault: string | null }) => void][] = [

@@ -63,6 +63,7 @@ describe("defineScenario", () => {
     expectLeewayError(() => defineScenario({ ...base, frameSize: 1000 }), "E_OPTION", "frameSize", "power of two");
     expectLeewayError(() => defineScenario({ ...base, bins: 513 }), "E_OPTION", "bins", "[1, 512]");
     expectLeewayError(() => defineScenario({ ...base, machine: { vanes: 0 } }), "E_OPTION", "machine.vanes");
+    expectLeewayError(() => defineScenario({ ...base, machine: { jitter: 0.5 } }), "E_OPTION", "machine.jitter", "[0, 0.1]");
     expectLeewayError(() => defineScenario({ ...base, machine: { harmonics: [0.5, -1] } }), "E_OPTION", "machine.harmonics[1]");
     expectLeewayError(() => defineScenario({ ...base, machine: { wheels: 3 } as never }), "E_OPTION", "wheels");
     expectLeewayError(() => defineScenario({ ...base, duration: 5 } as never), "E_OPTION", "duration");

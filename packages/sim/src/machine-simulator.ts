@@ -21,7 +21,7 @@ export interface SimulatedFrame {
   truth: SampleTruth;
 }
 
-const NOISE_BANK_BITS = 16; // 65 536 Gaussian deviates
+const NOISE_BANK_BITS = 16; // at least 65 536 Gaussian deviates (4 frames' worth for long frames)
 const LOOSENESS_HALF_ORDERS = [0.5, 1.5, 2.5];
 const RESONANCE_HZ = 1800; // structural resonance excited by impacts
 const RESONANCE_DECAY_S = 0.001; // ringing time constant, s
@@ -44,7 +44,7 @@ const IMPACT_AMPLITUDE = 1; // m/s² per unit of fault gain, at the reference sp
  *   plus ½-orders and harmonics up to 8×) or impacts (once per revolution, a
  *   ringing at 1.8 kHz of gain × 1 m/s², decaying with τ = 1 ms).
  * Every tone has a random phase per frame. The noise comes from a bank of
- * 2^16 Gaussian deviates drawn once from the seed; each frame mixes two
+ * max(2^16, 4·frameSize) Gaussian deviates drawn once from the seed; each frame mixes two
  * non-overlapping random segments of it, (g_a + g_b)/√2, which keeps the
  * deviates exactly N(0, 1) and makes 10^5-frame runs cheap.
  *
@@ -53,7 +53,7 @@ const IMPACT_AMPLITUDE = 1; // m/s² per unit of fault gain, at the reference sp
  * bins summed into `bins` bands of equal width, and each band's RMS
  * a_b = √(Σ P_k) mapped to log1p(a_b / a_ref) with a_ref = `reference`
  * (default 1 mm/s²): 0 for silence, ≈ 1.6 for the default noise floor per band,
- * ≈ 5–8 for the shaft and vane-pass lines.
+ * ≈ 5–7 for the shaft and vane-pass lines.
  * Same scenario (including its seed) ⇒ identical frames and spectra.
  * @example
  * const sim = new MachineSimulator(stationaryNull({ length: 100, seed: 1 }));
@@ -62,12 +62,15 @@ const IMPACT_AMPLITUDE = 1; // m/s² per unit of fault gain, at the reference sp
  * first?.truth.mode; // "mid"
  */
 export class MachineSimulator {
+  static readonly kind = "leeway.sim.machine-simulator";
+  static readonly version = 1;
   /** The validated scenario (plain data). */
   readonly scenario: Scenario;
   /** The scenario's events in start order. */
   readonly events: TruthEvent[];
   #rng: RandomSource;
   readonly #bank: Float64Array;
+  readonly #bankSize: number; // a power of two ≥ 4·frameSize
   readonly #frame: Float64Array;
   readonly #defect: Float64Array; // scratch: a defect's lines before modulation
   readonly #power: Float64Array;
@@ -87,7 +90,8 @@ export class MachineSimulator {
     this.events = truthEvents(s);
     this.#rng = new RandomSource(s.seed);
     // the bank plus a copy of its first frameSize deviates, so that a segment never wraps
-    const bankSize = 1 << NOISE_BANK_BITS;
+    const bankSize = Math.max(1 << NOISE_BANK_BITS, 4 * s.frameSize);
+    this.#bankSize = bankSize;
     const bank = new Float64Array(bankSize + s.frameSize);
     this.#rng.derive("noise-bank").fillNormal(bank.subarray(0, bankSize));
     bank.copyWithin(bankSize, 0, s.frameSize);
@@ -105,9 +109,6 @@ export class MachineSimulator {
     shifts.sort((a, b) => a.e.start - b.e.start || a.i - b.i).forEach((x, k) => (order[x.i] = k + 1));
     this.#environmentOrdinal = order;
   }
-
-  static readonly kind = "leeway.sim.machine-simulator";
-  static readonly version = 1;
 
   /**
    * The whole state as plain data: the scenario, the next index and the
@@ -249,7 +250,7 @@ export class MachineSimulator {
 
     // noise: two non-overlapping segments of the bank, (g_a + g_b)/√2
     const bank = this.#bank;
-    const size = 1 << NOISE_BANK_BITS;
+    const size = this.#bankSize;
     const sd = Math.sqrt(m.sensorNoise * m.sensorNoise + (noiseFactor * m.floorNoise) ** 2) * Math.SQRT1_2;
     const a = rng.integer(size);
     const b = (a + n + rng.integer(size - 2 * n)) & (size - 1);

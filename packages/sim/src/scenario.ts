@@ -29,7 +29,7 @@ export interface MachineSpec {
   referenceRpm: number;
   /** Every machine amplitude scales by (rpm / referenceRpm)^speedExponent. */
   speedExponent: number;
-  /** Speed jitter: relative standard deviation of the shaft rate from frame to frame. */
+  /** Speed jitter: relative standard deviation of the shaft rate from frame to frame, in [0, 0.1]. */
   jitter: number;
   /** Sensor noise, white, standard deviation in m/s². */
   sensorNoise: number;
@@ -214,7 +214,7 @@ function validateMachine(value: Partial<MachineSpec> | undefined): MachineSpec {
     vanePass: amplitudes("machine.vanePass", m.vanePass ?? d.vanePass),
     referenceRpm: m.referenceRpm === undefined ? d.referenceRpm : positiveNumber(C, "machine.referenceRpm", m.referenceRpm),
     speedExponent: m.speedExponent === undefined ? d.speedExponent : nonNegativeNumber(C, "machine.speedExponent", m.speedExponent),
-    jitter: m.jitter === undefined ? d.jitter : nonNegativeNumber(C, "machine.jitter", m.jitter),
+    jitter: m.jitter === undefined ? d.jitter : numberInRangeClosed("machine.jitter", m.jitter, 0, 0.1),
     sensorNoise: m.sensorNoise === undefined ? d.sensorNoise : nonNegativeNumber(C, "machine.sensorNoise", m.sensorNoise),
     floorNoise: m.floorNoise === undefined ? d.floorNoise : nonNegativeNumber(C, "machine.floorNoise", m.floorNoise),
   };
