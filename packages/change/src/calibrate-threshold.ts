@@ -156,25 +156,19 @@ export function calibrateThreshold(
   }
   // then the Illinois variant of regula falsi on f(t) = ln(ARL0(t)/target), f(lo) < 0 ≤ f(hi)
   const logRatio = (t: number): number => Math.log(Math.min(evaluate(t, "search").arl, cap * replicates) / target);
-  let best = hi;
   if (hi / lo - 1 > tolerance) {
     let fLo = logRatio(lo);
     let fHi = logRatio(hi);
-    let bestGap = Math.abs(fHi);
     let side = 0;
-    for (let it = 0; it < 30 && hi / lo - 1 > tolerance && bestGap > 1e-3; it++) {
+    for (let it = 0; it < 30 && hi / lo - 1 > tolerance && fHi > 1e-3; it++) {
       let t = hi - (fHi * (hi - lo)) / (fHi - fLo);
       if (!(t > lo && t < hi)) t = Math.sqrt(lo * hi);
       const f = logRatio(t);
       if (f >= 0) {
         hi = t;
         fHi = f;
-        if (side === 1) fLo /= 2;
+        if (side === 1) fLo /= 2; // Illinois: halve the end that stayed
         side = 1;
-        if (f < bestGap) {
-          bestGap = f;
-          best = t;
-        }
       } else {
         lo = t;
         fLo = f;
@@ -182,8 +176,8 @@ export function calibrateThreshold(
         side = -1;
       }
     }
-    best = hi;
   }
+  const best = hi;
   const final = evaluate(best, "estimate");
   return {
     threshold: best,
@@ -253,20 +247,22 @@ function runLengths(
 }
 
 function confidenceInterval(s: RunSummary, replicates: number): [number, number] {
-  if (s.alarms === 0) return [s.exposure / chiSquareQuantile(2, 0.95) * 2, Infinity];
+  if (s.alarms === 0) return [(2 * s.exposure) / chiSquareQuantile(2, Z_95_ONE_SIDED), Infinity];
   if (s.censored === 0) {
     const mean = s.exposure / replicates;
     const variance = Math.max(0, (s.sumSquares - replicates * mean * mean) / (replicates - 1));
-    const half = 1.96 * Math.sqrt(variance / replicates);
+    const half = Z_975 * Math.sqrt(variance / replicates);
     return [Math.max(1, mean - half), mean + half];
   }
   const dof = 2 * s.alarms;
-  return [(2 * s.exposure) / chiSquareQuantile(dof, 0.975), (2 * s.exposure) / chiSquareQuantile(dof, 0.025)];
+  return [(2 * s.exposure) / chiSquareQuantile(dof, Z_975), (2 * s.exposure) / chiSquareQuantile(dof, -Z_975)];
 }
 
-/** χ² quantile by the Wilson-Hilferty (1931) cube-root normal approximation. */
-function chiSquareQuantile(dof: number, p: number): number {
-  const z = p === 0.975 ? 1.959963984540054 : p === 0.025 ? -1.959963984540054 : 1.6448536269514722; // p = 0.95
+const Z_975 = 1.959963984540054; // Φ⁻¹(0.975)
+const Z_95_ONE_SIDED = 1.6448536269514722; // Φ⁻¹(0.95)
+
+/** The χ² quantile with `dof` degrees of freedom at the normal quantile z, by Wilson & Hilferty (1931). */
+function chiSquareQuantile(dof: number, z: number): number {
   const a = 2 / (9 * dof);
   const c = 1 - a + z * Math.sqrt(a);
   return dof * c * c * c;
