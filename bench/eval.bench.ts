@@ -1,6 +1,6 @@
 import { it } from "vitest";
 import { RandomSource } from "@leeway/core";
-import { anomalyMask, decimate, evaluate, prAuc, replay, rocAuc, type LabelledEvent, type Pipeline } from "@leeway/eval";
+import { EVENT_CAUSES, anomalyMask, decimate, evaluate, prAuc, replay, rocAuc, type EventCause, type LabelledEvent, type Pipeline } from "@leeway/eval";
 import type { Decision } from "@leeway/policy";
 import { BenchReport, consume, nsPerOp, sumBaselineNs } from "./harness.js";
 
@@ -37,7 +37,7 @@ it("eval: replay overhead and exact AUCs", () => {
   const replayNs = nsPerOp(() => consume(replay(trivialPipeline(), stream, undefined, { keepDecisions: false }).metrics.falseAlarms), n, { repeats: 5 });
   report.add("replay, trivial pipeline, no labels (10^5)", replayNs, baseline, `${(replayNs / bare).toFixed(1)}x the bare loop`);
 
-  const events: LabelledEvent[] = Array.from({ length: 20 }, (_, k) => ({ cause: (["anomaly", "degradation", "concept-drift"] as const)[k % 3], start: 5000 * k + 1000, end: 5000 * k + 1600 }));
+  const events: LabelledEvent[] = Array.from({ length: 20 }, (_, k) => ({ cause: EVENT_CAUSES[k % 3] as EventCause, start: 5000 * k + 1000, end: 5000 * k + 1600 }));
   const labels = { events, anomaly: anomalyMask(events, n) };
   const labelled = nsPerOp(() => consume(replay(trivialPipeline(), stream, labels, { keepDecisions: false }).metrics.falseAlarms), n, { repeats: 5 });
   report.add("replay, trivial pipeline, 20 events + anomaly labels (10^5)", labelled, baseline, "includes ROC and PR AUC of two scores");
