@@ -1,4 +1,4 @@
-import { OptionError } from "@leeway/core";
+import { DimensionError, OptionError } from "@leeway/core";
 
 /** The largest transform size accepted (2^24 points). */
 export const MAX_FFT_SIZE = 2 ** 24;
@@ -110,9 +110,8 @@ export class RealFft {
   }
 
   #checkLength(data: Float64Array): void {
-    if (!(data instanceof Float64Array) || data.length !== this.size) {
-      throw new OptionError("RealFft", "data", data, `a Float64Array of length ${this.size}`);
-    }
+    if (!(data instanceof Float64Array)) throw new OptionError("RealFft", "data", data, `a Float64Array of length ${this.size}`);
+    if (data.length !== this.size) throw new DimensionError("RealFft", "data", this.size, data.length);
   }
 
   /** Complex FFT of the M interleaved points of `src` into `dst` (src is left unchanged). */
