@@ -11,7 +11,7 @@ export const MAX_FFT_SIZE = 2 ** 24;
  * z_n = x_{2n} + i·x_{2n+1}; one complex FFT of length M = N/2 (iterative
  * decimation in time on bit-reversed input, radix-4 butterflies with one
  * radix-2 stage when log2 M is odd; Cooley & Tukey, 1965) is followed by the
- * split step that separates the even and odd halves (Brigham, 1988, §9;
+ * split step that separates the even and odd halves (Brigham, 1988;
  * Sorensen et al., 1987):
  *   E_k = (Z_k + conj Z_{M−k}) / 2,  O_k = (Z_k − conj Z_{M−k}) / (2i),
  *   X_k = E_k + W^k·O_k,  X_{M−k} = conj(E_k − W^k·O_k),  W = e^{−2πi/N}.

@@ -40,7 +40,7 @@ export const PS2_DRIVE_END_BEARING: Readonly<BearingGeometry> = Object.freeze({ 
  * often appears at 2·BSF.
  * Method: rolling-bearing kinematics (for example Harris & Kotzalas, Rolling
  * Bearing Analysis; Randall & Antoni, 2011, "Rolling element bearing
- * diagnostics — a tutorial", eqs. 1–4).
+ * diagnostics — a tutorial").
  * @example
  * const o = bearingOrders(PS2_DRIVE_END_BEARING);
  * o.bpfo; // ≈ 3.5848 (× shaft rate)
