@@ -31,6 +31,7 @@ describe("Timeline", () => {
     expectLeewayError(() => t.record({ ...good, cause: "gremlins" as never }), "E_OPTION", "decision.cause", "gremlins");
     expectLeewayError(() => t.record({ ...good, phase: "asleep" as never }), "E_OPTION", "decision.phase", "asleep");
     expectLeewayError(() => t.record({ ...good, evidence: { liveScore: "1" as never, referenceScores: [] } }), "E_OPTION", "liveScore");
+    expectLeewayError(() => t.record({ ...good, evidence: { liveScore: 1, referenceScores: 2 as never } }), "E_OPTION", "referenceScores");
     expect(t.length).toBe(0);
     t.record(good);
     expectLeewayError(() => t.actionAt(1), "E_OPTION", "position", "1");

@@ -8,6 +8,7 @@ import { fileURLToPath } from "node:url";
 import { describe, expect, it } from "vitest";
 import { decimate, mannWhitney, prAuc, replay, type Pipeline } from "@leeway/eval";
 import type { Decision } from "@leeway/policy";
+import { DecisionEngine } from "@leeway/policy";
 import { AutoencoderPool } from "@leeway/pool";
 import { Framer, SpectrumAnalyzer, reduceBins } from "@leeway/signal";
 
@@ -41,8 +42,8 @@ function readColumn(file: string): Float64Array {
 }
 
 // frames → Hann-windowed amplitude spectra (g) → 0–4.5 kHz in 128 averaged bins → log10, in framer order
-function spectra(signal: Float64Array): Float64Array[] {
-  const framer = new Framer({ size: FRAME, hop: HOP });
+function spectra(signal: Float64Array, hop = HOP): Float64Array[] {
+  const framer = new Framer({ size: FRAME, hop });
   const analyzer = new SpectrumAnalyzer({ size: FRAME, sampleRate: 12_000, window: "hann" });
   const amplitude = new Float64Array(analyzer.bins);
   const out: Float64Array[] = [];
@@ -100,5 +101,29 @@ describe(`CWRU bearing data: spectra scored by an autoencoder commissioned on th
     console.log(
       [`CWRU: ${commissioning.length} commissioning frames (in-sample scores ≤ ${inSampleMax.toFixed(3)}) and ${heldOut.length} held-out normal frames (0 HP)`, "| fault | load | fault frames | ROC AUC | PR AUC | max normal score | min fault score |", "|---|---|---:|---:|---:|---:|---:|", ...rows].join("\n"),
     );
+  });
+
+  it.skipIf(!present)("the decision engine, commissioned on the normal frames, answers every fault record with an anomaly alarm and learns none of it (docs/cwru-example.md)", () => {
+    // As in docs/cwru-example.md: frames 128 samples apart; 180 normal frames, then 180 of one fault record.
+    const normal = spectra(decimate(readColumn("1797_Normal_DE.csv"), 4), 128);
+    const outcomes: string[] = [];
+    for (const fault of FAULTS) {
+      for (const load of LOADS) {
+        const faulty = spectra(readColumn(`${load.rpm}_${fault.code}_21_DE12_DE.csv`), 128);
+        const engine = new DecisionEngine({ inputs: BINS, commissioning: 100, calibration: 60, hidden: 8 });
+        const event = { cause: "anomaly" as const, start: normal.length, end: normal.length + faulty.length };
+        const { metrics } = replay(engine, [...normal, ...faulty], { events: [event] }, { keepDecisions: false });
+        const answer = metrics.perEvent[0];
+        const where = `${fault.name} at ${load.hp} HP`;
+        expect(answer?.claimed, where).toBe("anomaly");
+        // anomalyRun (5 by default) consecutive anomalous frames raise the alarm
+        expect(answer?.delay, where).toBeLessThanOrEqual(10);
+        expect(metrics.falseAlarms, where).toBe(0);
+        expect(metrics.retrains.count, where).toBe(0);
+        expect(metrics.learnedDuring.anomaly, where).toBe(0);
+        outcomes.push(`${fault.name} ${load.hp} HP: alarm (${answer?.claimed}) after ${answer?.delay} frames`);
+      }
+    }
+    console.log(`CWRU through the decision engine: ${outcomes.join("; ")}`);
   });
 });

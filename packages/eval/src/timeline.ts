@@ -56,7 +56,9 @@ export class Timeline {
     const evidence = decision.evidence;
     const live = evidence.liveScore;
     if (typeof live !== "number") throw new OptionError("Timeline", "decision.evidence.liveScore", live, "a number");
-    const first = evidence.referenceScores.length > 0 ? evidence.referenceScores[0] : Number.NaN;
+    const references = evidence.referenceScores;
+    if (!Array.isArray(references)) throw new OptionError("Timeline", "decision.evidence.referenceScores", references, "an array of numbers");
+    const first = references.length > 0 ? references[0] : Number.NaN;
     if (typeof first !== "number") throw new OptionError("Timeline", "decision.evidence.referenceScores[0]", first, "a number");
     if (this.#length === this.#actions.length) this.#grow();
     const i = this.#length++;
