@@ -75,10 +75,17 @@ export function csvFieldColumn(text: string, field: number): number {
  * parseNumberCell("n/a"); // NaN
  */
 export function parseNumberCell(text: string): number {
-  const value = Number(text);
-  if (Number.isNaN(value)) return NaN;
-  if (value === 0 && !/\d/.test(text)) return NaN; // Number("") and Number("  ") are 0
-  if (/^\s*[+-]?0[xob]/i.test(text)) return NaN;
+  const value = +text; // Number(text): decimal, exponent, Infinity, surrounding white space
+  if (value !== value) return NaN;
+  let i = 0;
+  while (i < text.length && text.charCodeAt(i) <= 32) i++;
+  if (i === text.length) return NaN; // "" and "  " are 0 to Number()
+  let c = text.charCodeAt(i);
+  if (c === 43 || c === 45) c = text.charCodeAt(++i); // + or -
+  if (c === 48 && i + 1 < text.length) {
+    const next = text.charCodeAt(i + 1) | 32; // lower case
+    if (next === 120 || next === 111 || next === 98) return NaN; // 0x, 0o, 0b
+  }
   return value;
 }
 

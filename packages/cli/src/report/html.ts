@@ -22,6 +22,9 @@ export interface ReportContent {
   version: string;
 }
 
+/** The styles the plots need on their own (tick labels, legends), for showing a figure outside a report. */
+export const FIGURE_STYLE = `figure.plot{margin:0 0 14px;font:13px/1.4 system-ui,sans-serif;color:${INK}}figcaption{color:${MUTED}}figcaption strong{color:${INK};margin-right:6px}svg text.tick{font-size:11px;fill:${MUTED}}svg text.event-label{font-size:11px;fill:${INK}}ul.legend{list-style:none;display:flex;flex-wrap:wrap;gap:4px 16px;margin:2px 0 0 7.5%;padding:0;font-size:12px;color:${MUTED}}ul.legend li{display:flex;align-items:center;gap:5px}p.note{margin:0 0 0 7.5%;font-size:11px;color:${MUTED}}`;
+
 const STYLE = `
 :root{color-scheme:light}
 *{box-sizing:border-box}
