@@ -86,6 +86,7 @@ export class Moments {
   #min = Infinity;
   #max = -Infinity;
   #skipped = 0;
+  readonly #out = new Float64Array(3); // mean, M₂ and M₂/W of the whole, from #summarise
 
   constructor(options?: MomentsOptions) {
     const o = optionsObject<MomentsOptions>("Moments", options, ["weighted", "nonFinite"]);
@@ -111,27 +112,21 @@ export class Moments {
   /** Weighted mean x̄; NaN before the first sample. */
   get mean(): number {
     if (this.#n + this.#bCount === 0) return Number.NaN;
-    if (this.#bCount === 0) return this.#mean;
-    const t = this.#bSum / this.#bWeight; // block mean − K
-    if (this.#n === 0) return this.#bShift + t;
-    const f = this.#bWeight / (this.#w + this.#bWeight); // W_B/W
-    return this.#mean + (this.#bShift + t - this.#mean) * f;
+    this.#summarise();
+    return this.#out[0] as number;
   }
 
   /** M₂ = Σw(x − x̄)², the sum of squared deviations. */
   get sumSquaredDeviations(): number {
-    if (this.#bCount === 0) return this.#m2;
-    const t = this.#bSum / this.#bWeight;
-    const bM2 = Math.max(0, this.#bSq - this.#bSum * t); // S₂ − S₁²/W_B
-    if (this.#n === 0) return bM2;
-    const f = this.#bWeight / (this.#w + this.#bWeight);
-    const delta = this.#bShift + t - this.#mean;
-    return this.#m2 + bM2 + delta * delta * (this.#w * f); // + δ²·W_A·W_B/W
+    this.#summarise();
+    return this.#out[1] as number;
   }
 
   /** Population variance M₂/W; NaN before the first sample. */
   get variance(): number {
-    return this.count === 0 ? Number.NaN : this.sumSquaredDeviations / this.weight;
+    if (this.#n + this.#bCount === 0) return Number.NaN;
+    this.#summarise();
+    return this.#out[2] as number;
   }
 
   /** Sample variance M₂/(W − 1) (frequency weights); NaN while W ≤ 1. */
@@ -178,7 +173,9 @@ export class Moments {
       this.#take(x, w);
     }
     const count = this.#n + this.#bCount;
-    return { count, mean: this.mean, variance: count === 0 ? Number.NaN : this.sumSquaredDeviations / (this.#w + this.#bWeight), skipped: this.#skipped };
+    if (count === 0) return { count, mean: Number.NaN, variance: Number.NaN, skipped: this.#skipped };
+    this.#summarise();
+    return { count, mean: this.#out[0] as number, variance: this.#out[2] as number, skipped: this.#skipped };
   }
 
   /**
@@ -311,6 +308,37 @@ export class Moments {
     m.#max = max ?? -Infinity;
     m.#skipped = skipped;
     return m;
+  }
+
+  /**
+   * Writes the mean and M₂ of merged part + open block into #out, by the
+   * same Chan–Golub–LeVeque step a flush would take (so readings before and
+   * after a flush agree to rounding).
+   */
+  #summarise(): void {
+    const out = this.#out;
+    if (this.#bCount === 0) {
+      out[0] = this.#mean;
+      out[1] = this.#m2;
+      out[2] = this.#m2 / this.#w;
+      return;
+    }
+    const bw = this.#bWeight;
+    const t = this.#bSum / bw; // block mean − K
+    const bM2 = Math.max(0, this.#bSq - this.#bSum * t); // S₂ − S₁²/W_B
+    if (this.#n === 0) {
+      out[0] = this.#bShift + t;
+      out[1] = bM2;
+      out[2] = bM2 / bw;
+      return;
+    }
+    const inverse = 1 / (this.#w + bw); // 1/W, computed beside t rather than after it
+    const f = bw * inverse; // W_B/W
+    const delta = this.#bShift + t - this.#mean; // δ = x̄_B − x̄_A
+    const m2 = this.#m2 + bM2 + delta * delta * (this.#w * f); // + δ²·W_A·W_B/W
+    out[0] = this.#mean + delta * f;
+    out[1] = m2;
+    out[2] = m2 * inverse; // M₂/W
   }
 
   #checkWeight(weight: number | undefined): number {

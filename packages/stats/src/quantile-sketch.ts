@@ -369,7 +369,7 @@ export class QuantileSketch {
     if (h === this.#levels.length - 1) this.#setLevels(this.#levels.length + 1);
     const items = this.#levels[h] as Float64Array;
     const size = this.#sizes[h] as number;
-    if (h === 0) items.subarray(0, size).sort();
+    if (h === 0) sortPrefix(items, size);
     const even = size - (size & 1); // an odd item out (the largest) stays at level h
     const offset = this.#random.next() < 0.5 ? 0 : 1;
     const half = even >>> 1;
@@ -451,6 +451,23 @@ function levelCapacities(k: number, levels: number): number[] {
   const out: number[] = [];
   for (let h = 0; h < levels; h++) out.push(Math.max(MIN_LEVEL_CAPACITY, Math.ceil(k * (2 / 3) ** (levels - 1 - h))));
   return out;
+}
+
+/** Sorts items[0..size) ascending in place: insertion sort for short runs (no allocation), the built-in sort otherwise. */
+function sortPrefix(items: Float64Array, size: number): void {
+  if (size > 48) {
+    items.subarray(0, size).sort();
+    return;
+  }
+  for (let i = 1; i < size; i++) {
+    const v = items[i] as number;
+    let j = i - 1;
+    while (j >= 0 && (items[j] as number) > v) {
+      items[j + 1] = items[j] as number;
+      j--;
+    }
+    items[j + 1] = v;
+  }
 }
 
 /** Number of items ≤ x in the sorted `items[0..size)`. */
