@@ -24,6 +24,7 @@ export interface BlockTrendState {
   z: number;
   pValue: number;
   slope: number | null;
+  lastMean: number;
   trend: Snapshot;
 }
 
@@ -52,6 +53,7 @@ export class BlockTrend {
   #z = 0;
   #pValue = 1;
   #slope: number | null = null;
+  #lastMean = 0; // the latest complete block's mean
   #trend: WindowTrend;
 
   constructor(block: number, width: number) {
@@ -69,6 +71,7 @@ export class BlockTrend {
     this.#filled += 1;
     if (this.#filled < this.#block) return false;
     const mean = this.#sum / this.#block;
+    this.#lastMean = mean;
     this.#sum = 0;
     this.#filled = 0;
     const reading = this.#trend.observe(mean);
@@ -82,6 +85,11 @@ export class BlockTrend {
   /** Blocks in the window. */
   get blocks(): number {
     return this.#trend.size;
+  }
+
+  /** The mean of the latest complete block (0 before the first). */
+  get lastMean(): number {
+    return this.#lastMean;
   }
 
   /** One-sided Mann-Kendall z (0 before two blocks). */
@@ -107,6 +115,7 @@ export class BlockTrend {
     this.#z = 0;
     this.#pValue = 1;
     this.#slope = null;
+    this.#lastMean = 0;
     this.#trend = new WindowTrend({ width: this.#width });
   }
 
@@ -119,6 +128,7 @@ export class BlockTrend {
       z: this.#z,
       pValue: this.#pValue,
       slope: this.#slope,
+      lastMean: this.#lastMean,
       trend: this.#trend.snapshot() as Snapshot,
     });
   }
@@ -133,6 +143,7 @@ export class BlockTrend {
     const z = r.number("z");
     const pValue = r.numberIn("pValue", 0, 1);
     const slope = r.numberOrNull("slope");
+    const lastMean = r.number("lastMean");
     const trend = WindowTrend.restore(r.raw("trend"));
     const t = new BlockTrend(block, width);
     t.#sum = sum;
@@ -140,6 +151,7 @@ export class BlockTrend {
     t.#z = z;
     t.#pValue = pValue;
     t.#slope = slope;
+    t.#lastMean = lastMean;
     t.#trend = trend;
     return t;
   }

@@ -45,6 +45,7 @@ export interface DecisionCoreState {
   gapTrend: Snapshot;
   degradationStanding: boolean;
   degradationAlarmed: boolean;
+  episodeAlarmed: boolean;
   settlingWindow: Snapshot;
   settlingStart: number;
   risingRun: number;
@@ -113,7 +114,8 @@ export class DecisionCore {
   #referenceTrend: BlockTrend;
   #gapTrend: BlockTrend;
   #degradationStanding = false;
-  #degradationAlarmed = false; // the standing evidence has raised its alarm
+  #degradationAlarmed = false; // a degradation alarm was raised since the last commissioning
+  #episodeAlarmed = false; // the present degradation evidence has raised its alarm
   #settlingWindow: SettlingWindow;
   #settlingStart = -1;
   #risingRun = 0; // consecutive settling checks with a rising trend
@@ -250,11 +252,13 @@ export class DecisionCore {
     evidence.gap = { value: zActive - zLive, ...this.#gapTrend.evidence };
     if (this.#phase === "latched") return this.#decision("hold", this.#latchCause as Cause, evidence);
     const strength = this.#degradationStrength();
-    if (strength === 2 && !this.#degradationAlarmed) return this.#latch("degradation", evidence);
+    if (strength === 2 && !this.#episodeAlarmed) return this.#latch("degradation", evidence);
     if (strength >= 1) this.#degradationStanding = true;
-    else if (this.#degradationStanding && this.#referenceTrend.z < this.settings.trendClearZ && this.#gapTrend.z < this.settings.trendClearZ) {
+    else if (this.#degradationStanding && this.#degradationCleared()) {
+      // Learning may resume; a degradation that has raised its alarm keeps refusing retrains until the
+      // operator commissions the machine again (wear does not heal; a repair is a new commissioning).
       this.#degradationStanding = false;
-      this.#degradationAlarmed = false;
+      this.#episodeAlarmed = false;
     }
 
     // 3. Concept drift: the change test on the active reference's normalised score.
@@ -267,7 +271,7 @@ export class DecisionCore {
     evidence.change = { test: test.name, statistic: reading.statistic, threshold: reading.threshold, status: reading.status, direction: reading.direction ?? null };
     if (reading.status === "change") {
       test.restart();
-      if (this.#degradationAlarmed) return this.#decision("hold", "degradation", evidence);
+      if (this.#episodeAlarmed) return this.#decision("hold", "degradation", evidence);
       if (this.#degradationStanding) {
         // A change point on top of a rising trend: the level crept up before it jumped.
         return this.#latch("degradation", evidence);
@@ -284,6 +288,17 @@ export class DecisionCore {
 
   /** The Theil-Sen slope is needed only once a trend is at least as strong as the clearing level. */
   readonly #wantSlope = (z: number): boolean => z >= this.settings.trendClearZ;
+
+  /**
+   * Degradation evidence clears when neither trend is significant any more
+   * and the active reference's level (the latest block mean) is back within
+   * `confirmShift` σ of normal: a degradation that stops rising but stays up
+   * has not gone away.
+   */
+  #degradationCleared(): boolean {
+    const s = this.settings;
+    return this.#referenceTrend.z < s.trendClearZ && this.#gapTrend.z < s.trendClearZ && this.#referenceTrend.lastMean < s.confirmShift;
+  }
 
   /** 0: no degradation evidence; 1: a warning (stop learning); 2: an alarm. */
   #degradationStrength(): number {
@@ -412,10 +427,9 @@ export class DecisionCore {
     const known = this.#knownMode(check);
     if (known >= 0) return this.switchTo(known, evidence);
     if (this.#degradationAlarmed) {
-      // Retraining is refused while the degradation evidence that raised an alarm stands.
-      evidence.outcome = "refused: degradation evidence stands";
-      this.#toWatching();
-      return this.#decision("hold", "degradation", evidence);
+      // A change on a machine with a degradation alarm behind it is not learnt: it is reported.
+      evidence.outcome = "retrain refused: degradation evidence stands";
+      return this.#latch("degradation", evidence);
     }
     if (this.#budgetExhausted()) {
       evidence.budget = { used: this.#retrainLog.length, allowed: s.retrainBudget, horizon: s.retrainHorizon };
@@ -492,6 +506,7 @@ export class DecisionCore {
     if (cause === "degradation") {
       this.#degradationStanding = true;
       this.#degradationAlarmed = true;
+      this.#episodeAlarmed = true;
     }
     this.#phase = "latched";
     this.#latchCause = cause;
@@ -615,6 +630,7 @@ export class DecisionCore {
     this.#normalRun = 0;
     this.#degradationStanding = false;
     this.#degradationAlarmed = false;
+    this.#episodeAlarmed = false;
     this.#pending = false;
     this.#confirmed = false;
     this.#settlingWindow.clear();
@@ -654,6 +670,7 @@ export class DecisionCore {
       gapTrend: this.#gapTrend.snapshot(),
       degradationStanding: this.#degradationStanding,
       degradationAlarmed: this.#degradationAlarmed,
+      episodeAlarmed: this.#episodeAlarmed,
       settlingWindow: this.#settlingWindow.snapshot(),
       settlingStart: this.#settlingStart,
       risingRun: this.#risingRun,
@@ -717,7 +734,8 @@ export class DecisionCore {
     const gapTrend = BlockTrend.restore(r.raw("gapTrend"), settings.trendBlock, settings.trendWindow);
     const degradationStanding = r.boolean("degradationStanding");
     const degradationAlarmed = r.boolean("degradationAlarmed");
-    if (degradationAlarmed && !degradationStanding) r.fail("degradationAlarmed", "can be true only while degradation evidence stands");
+    const episodeAlarmed = r.boolean("episodeAlarmed");
+    if (episodeAlarmed && !degradationAlarmed) r.fail("episodeAlarmed", "can be true only after a degradation alarm");
     const settlingWindow = SettlingWindow.restore(r.raw("settlingWindow"), settings.settling);
     const settlingStart = r.integer("settlingStart", -1, big);
     const risingRun = r.integer("risingRun", 0, big);
@@ -757,6 +775,7 @@ export class DecisionCore {
     core.#gapTrend = gapTrend;
     core.#degradationStanding = degradationStanding;
     core.#degradationAlarmed = degradationAlarmed;
+    core.#episodeAlarmed = episodeAlarmed;
     core.#settlingWindow = settlingWindow;
     core.#settlingStart = settlingStart;
     core.#risingRun = risingRun;
