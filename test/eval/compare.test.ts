@@ -50,6 +50,7 @@ describe("compare", () => {
       const exposure = runs.reduce((sum, m) => sum + m.runLengths.exposure, 0);
       expect(row?.events).toBe(2);
       expect(row?.detected).toBe(runs.reduce((sum, m) => sum + m.detected, 0));
+      expect(row?.missedByCause.degradation).toBe(runs.reduce((sum, m) => sum + m.missedByCause.degradation, 0));
       expect(row?.falseAlarms).toBe(falseAlarms);
       expect(row?.exposure).toBe(exposure);
       expect(row?.falseAlarmsPer10k).toBeCloseTo((1e4 * falseAlarms) / exposure, 12);
@@ -80,7 +81,7 @@ describe("compare", () => {
 
   it("renders the table in Markdown, one line per policy, then one per policy and scenario", () => {
     const lines = result.markdown.trim().split("\n");
-    expect(lines[0]).toMatch(/^\| policy \| events \| detected \| right cause \| revised \| missed \|/);
+    expect(lines[0]).toMatch(/^\| policy \| events \| detected \| right cause \| revised \| missed d\/g\/a \|/);
     expect(lines.filter((l) => l.startsWith("| low threshold |"))).toHaveLength(3);
     expect(lines.some((l) => l.startsWith("| low threshold | noise floor |"))).toBe(true);
     const header = (lines[0] as string).split("|").length;

@@ -88,6 +88,7 @@ describe("evaluate: windows, misses and claims", () => {
       ["anomaly", 5],
     ]);
     expect(m.missed).toBe(1);
+    expect(m.missedByCause).toEqual({ "concept-drift": 0, degradation: 1, anomaly: 0 });
     expect(m.confusion.degradation.none).toBe(1);
     // Excluded: 10–39 (the missed window), 40–49 (the anomaly): exposure 0–9 and 50–59.
     expect(m.runLengths.exposure).toBe(20);

@@ -87,7 +87,7 @@ describe("documented examples", () => {
       ["limit 5", 1, 0],
       ["limit 1.5", 1, 1],
     ]);
-    expect(table.markdown.split("\n")[0]).toMatch(/^\| policy \| events \| detected \| right cause \| revised \| missed \| /);
+    expect(table.markdown.split("\n")[0]).toMatch(/^\| policy \| events \| detected \| right cause \| revised \| missed d\/g\/a \| /);
   });
 
   it("sortFloat64, lowPassKernel, decimate", () => {

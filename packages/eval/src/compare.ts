@@ -1,6 +1,6 @@
 import { OptionError, optionsObject } from "@leeway/core";
 import { EVALUATE_OPTIONS, checkEvaluateOptions, summarizeDelays, zeroCounts, type EvaluateOptions, type ReplayMetrics, type ResponseClass } from "./metrics.js";
-import type { ReplayLabels } from "./labels.js";
+import type { EventCause, ReplayLabels } from "./labels.js";
 import { poissonInterval } from "./poisson-interval.js";
 import { replay, type Pipeline } from "./replay.js";
 import { comparisonMarkdown } from "./comparison-table.js";
@@ -30,6 +30,8 @@ export interface ComparisonRow {
   /** Detected events whose response claimed the true cause. */
   correctCause: number;
   missed: number;
+  /** Missed events by true cause (a silently absorbed drift may be fine; a missed fault never is). */
+  missedByCause: Record<EventCause, number>;
   /** Detected events whose wrong first claim was later revised to the true cause. */
   revisions: number;
   /** Over every detected event of the pooled scenarios, in samples; null with none detected. */
@@ -84,7 +86,7 @@ export interface Comparison {
  *   [{ name: "rag", stream: () => [1, 2, 1, 9, 8, 1], labels: { events: [{ cause: "anomaly", start: 3, end: 5 }] } }],
  * );
  * table.rows.map((r) => [r.policy, r.detected, r.falseAlarms]); // [["limit 5", 1, 0], ["limit 1.5", 1, 1]]
- * table.markdown.split("\n")[0]; // "| policy | events | detected | right cause | revised | missed | ..."
+ * table.markdown.split("\n")[0]; // "| policy | events | detected | right cause | revised | missed d/g/a | ..."
  */
 export function compare<S>(policies: readonly PolicyUnderTest<S>[], suite: readonly SuiteScenario<S>[], options?: EvaluateOptions): Comparison {
   const opts = optionsObject<EvaluateOptions>("compare", options, EVALUATE_OPTIONS);
@@ -126,6 +128,11 @@ export function comparisonRow(policy: string, runs: readonly { scenario: string;
     detected: sum((m) => m.detected),
     correctCause: sum((m) => m.correctCause),
     missed: sum((m) => m.missed),
+    missedByCause: {
+      "concept-drift": sum((m) => m.missedByCause["concept-drift"]),
+      degradation: sum((m) => m.missedByCause.degradation),
+      anomaly: sum((m) => m.missedByCause.anomaly),
+    },
     revisions: sum((m) => m.revisions),
     meanDelay: delays?.mean ?? null,
     medianDelay: delays?.median ?? null,

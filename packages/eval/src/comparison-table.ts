@@ -13,7 +13,7 @@ const COLUMNS: readonly Column[] = [
   { header: "detected", cell: (r) => String(r.detected) },
   { header: "right cause", cell: (r) => String(r.correctCause) },
   { header: "revised", cell: (r) => String(r.revisions) },
-  { header: "missed", cell: (r) => String(r.missed) },
+  { header: "missed d/g/a", cell: (r) => `${r.missed} (${r.missedByCause["concept-drift"]}/${r.missedByCause.degradation}/${r.missedByCause.anomaly})` },
   { header: "mean delay", cell: (r) => fixed(r.meanDelay, 1) },
   { header: "median delay", cell: (r) => fixed(r.medianDelay, 1) },
   { header: "false alarms", cell: (r) => String(r.falseAlarms) },
@@ -28,8 +28,9 @@ const COLUMNS: readonly Column[] = [
 
 /**
  * Renders comparison rows as a Markdown table: the pooled rows, then (when
- * given) one row per policy and scenario. Retrains are split by the truth at
- * the time: concept drift / degradation / anomaly / none. "–" marks a value
+ * given) one row per policy and scenario. Missed events are split by their
+ * cause (concept drift / degradation / anomaly), retrains by the truth at the
+ * time (concept drift / degradation / anomaly / none). "–" marks a value
  * that is not defined (no detection, no false alarm, no anomaly labels).
  */
 export function comparisonMarkdown(rows: readonly ComparisonRow[], perScenario: readonly ComparisonRow[] = []): string {

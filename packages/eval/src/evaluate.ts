@@ -160,6 +160,11 @@ export function evaluate(timeline: Timeline, labels?: ReplayLabels, options?: Ev
     eventsBeyondStream: events.length - reached.length,
     detected: detected.length,
     missed: perEvent.length - detected.length,
+    missedByCause: {
+      "concept-drift": perEvent.filter((r) => r.response === null && r.cause === "concept-drift").length,
+      degradation: perEvent.filter((r) => r.response === null && r.cause === "degradation").length,
+      anomaly: perEvent.filter((r) => r.response === null && r.cause === "anomaly").length,
+    },
     correctCause: perEvent.filter((r) => r.correct).length,
     delay: summarizeDelays(detected),
     delayByCause,

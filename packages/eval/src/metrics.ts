@@ -116,6 +116,12 @@ export interface ReplayMetrics {
   eventsBeyondStream: number;
   detected: number;
   missed: number;
+  /**
+   * Missed events by true cause. A concept drift with no response may be
+   * fine — a policy that absorbs a return to a known mode without a word has
+   * done its job — while a missed degradation or anomaly never is.
+   */
+  missedByCause: Record<EventCause, number>;
   /** Detected events whose response claimed the true cause. */
   correctCause: number;
   delay: DelaySummary | null;
