@@ -43,8 +43,8 @@ describe("compare", () => {
 
   it("pools per-scenario metrics into one row per policy", () => {
     expect(result.rows.map((r) => r.policy)).toEqual(["low threshold", "high threshold, adapts"]);
-    for (const [p, spec] of policies.entries()) {
-      const runs = suite.map((s) => evaluate(replay(spec.create(), s.stream(), s.labels).timeline, s.labels));
+    for (const [p, entry] of policies.entries()) {
+      const runs = suite.map((s) => evaluate(replay(entry.create(), s.stream(), s.labels).timeline, s.labels));
       const row = result.rows[p];
       const falseAlarms = runs.reduce((sum, m) => sum + m.falseAlarms, 0);
       const exposure = runs.reduce((sum, m) => sum + m.runLengths.exposure, 0);
