@@ -1,7 +1,7 @@
+import { acceptSample, runBatch } from "./samples.js";
 import {
   envelope,
   nonFiniteOption,
-  NonFiniteError,
   numberInRange,
   openSnapshot,
   OptionError,
@@ -128,10 +128,7 @@ export class EwMoments {
 
   /** Takes one sample; returns the weighted mean and variance so far. */
   observe(x: number): EwMomentsReading {
-    if (!Number.isFinite(x)) {
-      if (this.#policy === "refuse") throw new NonFiniteError("EwMoments", "x", x);
-      this.#skipped++;
-    } else {
+    if (acceptSample("EwMoments", this.#policy, x)) {
       const weight = this.#lambda * this.#weight + 1; // W ← λW + 1
       const r = 1 / weight;
       const old = this.#mean;
@@ -142,6 +139,8 @@ export class EwMoments {
       this.#mean = mean;
       this.#weight = weight;
       this.#count++;
+    } else {
+      this.#skipped++;
     }
     return { count: this.#count, mean: this.mean, variance: this.variance, skipped: this.#skipped };
   }
@@ -153,13 +152,11 @@ export class EwMoments {
    * division; the arithmetic stays the same.
    */
   observeMany(xs: Float64Array): void {
-    let rest = xs;
-    for (;;) {
-      const stop = this.#run(rest);
-      if (stop === rest.length) return;
-      this.observe(rest[stop] as number); // refuses, or skips and counts
-      rest = rest.subarray(stop + 1);
-    }
+    runBatch(
+      xs,
+      (rest) => this.#run(rest),
+      (x) => this.observe(x),
+    );
   }
 
   /** Takes xs[0], xs[1], ... up to the first non-finite sample and returns its index (xs.length when all are finite). */

@@ -1,7 +1,7 @@
+import { acceptSample, runBatch } from "./samples.js";
 import {
   envelope,
   nonFiniteOption,
-  NonFiniteError,
   numberInRange,
   openSnapshot,
   optionsObject,
@@ -122,25 +122,22 @@ export class P2Quantile {
 
   /** Takes one sample; returns the estimate. */
   observe(x: number): P2QuantileReading {
-    if (!Number.isFinite(x)) {
-      if (this.#policy === "refuse") throw new NonFiniteError("P2Quantile", "x", x);
-      this.#skipped++;
-    } else {
+    if (acceptSample("P2Quantile", this.#policy, x)) {
       this.#one[0] = x;
       this.#run(this.#one);
+    } else {
+      this.#skipped++;
     }
     return { count: this.#count, estimate: this.estimate, skipped: this.#skipped };
   }
 
   /** Takes every sample of `xs`; the same state as `observe` on each, bit for bit (both run the same loop). */
   observeMany(xs: Float64Array): void {
-    let rest = xs;
-    for (;;) {
-      const stop = this.#run(rest);
-      if (stop === rest.length) return;
-      this.observe(rest[stop] as number); // refuses, or skips and counts
-      rest = rest.subarray(stop + 1);
-    }
+    runBatch(
+      xs,
+      (rest) => this.#run(rest),
+      (x) => this.observe(x),
+    );
   }
 
   /** The whole state as JSON-safe data. */

@@ -1,8 +1,8 @@
+import { acceptSample } from "./samples.js";
 import {
   envelope,
   integerInRange,
   nonFiniteOption,
-  NonFiniteError,
   numberInRange,
   openSnapshot,
   optionsObject,
@@ -142,11 +142,10 @@ export class QuantileSketch {
 
   /** Takes one sample. */
   observe(x: number): QuantileSketchReading {
-    if (!Number.isFinite(x)) {
-      if (this.#policy === "refuse") throw new NonFiniteError("QuantileSketch", "x", x);
-      this.#skipped++;
-    } else {
+    if (acceptSample("QuantileSketch", this.#policy, x)) {
       this.#take(x);
+    } else {
+      this.#skipped++;
     }
     return { count: this.#count, retained: this.#retained, skipped: this.#skipped };
   }

@@ -1,7 +1,7 @@
+import { acceptSample, runBatch } from "./samples.js";
 import {
   envelope,
   nonFiniteOption,
-  NonFiniteError,
   openSnapshot,
   optionsObject,
   positiveInteger,
@@ -179,25 +179,22 @@ export class WindowMoments {
 
   /** Takes one sample; returns the window's moments. */
   observe(x: number): WindowMomentsReading {
-    if (!Number.isFinite(x)) {
-      if (this.#policy === "refuse") throw new NonFiniteError("WindowMoments", "x", x);
-      this.#skipped++;
-    } else {
+    if (acceptSample("WindowMoments", this.#policy, x)) {
       this.#one[0] = x;
       this.#run(this.#one);
+    } else {
+      this.#skipped++;
     }
     return { count: this.#count, size: this.#size, mean: this.mean, variance: this.variance, min: this.min, max: this.max, skipped: this.#skipped };
   }
 
   /** Takes every sample of `xs`; the same state as `observe` on each, bit for bit (both run the same loop). */
   observeMany(xs: Float64Array): void {
-    let rest = xs;
-    for (;;) {
-      const stop = this.#run(rest);
-      if (stop === rest.length) return;
-      this.observe(rest[stop] as number); // refuses, or skips and counts
-      rest = rest.subarray(stop + 1);
-    }
+    runBatch(
+      xs,
+      (rest) => this.#run(rest),
+      (x) => this.observe(x),
+    );
   }
 
   /** The samples in the window, oldest first (a copy). */

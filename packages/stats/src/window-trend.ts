@@ -1,7 +1,7 @@
+import { acceptSample } from "./samples.js";
 import {
   envelope,
   nonFiniteOption,
-  NonFiniteError,
   openSnapshot,
   optionsObject,
   integerInRange,
@@ -133,11 +133,10 @@ export class WindowTrend {
 
   /** Takes one sample; returns S, its variance, z and the p-value over the window. */
   observe(x: number): WindowTrendReading {
-    if (!Number.isFinite(x)) {
-      if (this.#policy === "refuse") throw new NonFiniteError("WindowTrend", "x", x);
-      this.#skipped++;
-    } else {
+    if (acceptSample("WindowTrend", this.#policy, x)) {
       this.#push(x);
+    } else {
+      this.#skipped++;
     }
     const variance = this.variance;
     const { z, pValue } = mannKendallZ(this.#s, variance);
