@@ -66,26 +66,37 @@ class MatrixAutoencoder {
   }
 }
 
+function median(xs: number[]): number {
+  const sorted = xs.slice().sort((a, b) => a - b);
+  return sorted[Math.floor(sorted.length / 2)] as number;
+}
+
+/**
+ * Times several runs in alternation, `rounds` times, so that a change of the
+ * machine's load hits all of them alike. Returns the ns per operation of each
+ * run in each round.
+ */
+function interleaved(runs: (() => number)[], rounds = 9): number[][] {
+  const times = runs.map(() => [] as number[]);
+  for (let r = 0; r < rounds; r++) runs.forEach((run, i) => (times[i] as number[]).push(run()));
+  return times;
+}
+
+/** Median over rounds of a[r] / b[r]. */
+function ratioOf(a: number[], b: number[]): number {
+  return median(a.map((x, r) => x / (b[r] as number)));
+}
+
 it("pool: OS-ELM autoencoder 256-32-256 and a pool of 4", () => {
   const data = rows(4096, 1);
   const baseline = sumBaselineNs(data[0] as Float64Array);
   const report = new BenchReport("pool");
+  const quick = { minMs: 40, repeats: 3 };
   // The machine's scalar multiply-add rate: a tight dot product of two Float64Arrays
-  // of L·n elements (the size of W and of β). The machine is shared and noisy, so
-  // every kernel is timed between two dot-product timings and compared with their mean.
+  // of L·n elements (the size of W and of β), timed in alternation with the kernels.
   const da = new RandomSource(2).fillUniform(new Float64Array(L * n));
   const db = new RandomSource(3).fillUniform(new Float64Array(L * n));
-  const dotNs = (): number => nsPerOp(() => consume(dot(da, db)), L * n, { minMs: 60, repeats: 5 });
-  const beside = (run: () => number): { ns: number; dotRate: number } => {
-    const before = dotNs();
-    const ns = run();
-    const after = dotNs();
-    return { ns, dotRate: 2 / (before + after) };
-  };
-  const rate = (ma: number, timing: { ns: number; dotRate: number }): string =>
-    `${(ma / timing.ns).toFixed(3)} multiply-adds/ns = ${(ma / timing.ns / timing.dotRate).toFixed(2)} × the dot-product rate (${timing.dotRate.toFixed(3)}/ns)`;
-  const firstDot = dotNs();
-  report.add("dot product of two Float64Arrays (per multiply-add)", firstDot, baseline, `${(1 / firstDot).toFixed(3)} multiply-adds/ns`);
+  const dotRun = (): number => nsPerOp(() => consume(dot(da, db)), L * n, quick);
 
   const fitted = (dtype: Dtype): OselmAutoencoder => {
     const model = new OselmAutoencoder({ inputs: n, hidden: L, seed: 4, dtype });
@@ -93,55 +104,62 @@ it("pool: OS-ELM autoencoder 256-32-256 and a pool of 4", () => {
     return model;
   };
   let t = 0;
-  const scoreOf = (model: OselmAutoencoder) => (): number =>
+  const scoreRun = (model: OselmAutoencoder) => (): number =>
     nsPerOp(() => {
       let s = 0;
       for (let i = 0; i < 64; i++) s += model.score(data[t++ & 4095] as Float64Array);
       consume(s);
-    }, 64);
-  const learnOf = (model: OselmAutoencoder) => (): number =>
+    }, 64, quick);
+  const learnRun = (model: OselmAutoencoder) => (): number =>
     nsPerOp(() => {
       let s = 0;
       for (let i = 0; i < 64; i++) s += model.learn(data[t++ & 4095] as Float64Array);
       consume(s);
-    }, 64);
+    }, 64, quick);
   const model64 = fitted("float64");
-  const score64 = beside(scoreOf(model64));
-  const learn64 = beside(learnOf(model64));
-
   const reference = new MatrixAutoencoder(fitted("float64"));
   let r = 0;
-  const refScoreNs = nsPerOp(() => { let s = 0; for (let i = 0; i < 8; i++) s += reference.score(data[r++ & 4095] as Float64Array); consume(s); }, 8);
-  const refLearnNs = nsPerOp(() => { for (let i = 0; i < 8; i++) reference.learn(data[r++ & 4095] as Float64Array); consume(reference.p.get(0, 0)); }, 8);
-
-  report.add("score 256-32-256 float64", score64.ns, baseline,
-    `${(1e9 / score64.ns).toFixed(0)} samples/s; (a) ${(refScoreNs / score64.ns).toFixed(1)}× faster than ml-matrix; (b) ${rate(SCORE_MA, score64)}`);
-  report.add("learn 256-32-256 float64", learn64.ns, baseline,
-    `${(1e9 / learn64.ns).toFixed(0)} samples/s; (a) ${(refLearnNs / learn64.ns).toFixed(1)}× faster than ml-matrix; (b) ${rate(LEARN_MA, learn64)}`);
-  report.add("score, same algorithm in ml-matrix operations", refScoreNs, baseline, `${(1e9 / refScoreNs).toFixed(0)} samples/s`);
-  report.add("learn, same algorithm in ml-matrix operations", refLearnNs, baseline, `${(1e9 / refLearnNs).toFixed(0)} samples/s`);
-
-  // pool of 4 members: score all, train the nearest (learnScored reuses the nearest's forward pass)
+  const refScoreRun = (): number => nsPerOp(() => { let s = 0; for (let i = 0; i < 8; i++) s += reference.score(data[r++ & 4095] as Float64Array); consume(s); }, 8, quick);
+  const refLearnRun = (): number => nsPerOp(() => { for (let i = 0; i < 8; i++) reference.learn(data[r++ & 4095] as Float64Array); consume(reference.p.get(0, 0)); }, 8, quick);
   const pool = new AutoencoderPool({ inputs: n, hidden: L, maxMembers: 4, seed: 5 });
   for (let m = 0; m < 4; m++) pool.addMember(rows(64, 10 + m));
   let q = 0;
-  const poolTiming = beside(() => nsPerOp(() => { for (let i = 0; i < 64; i++) consume(pool.learn(data[q++ & 4095] as Float64Array).loss); }, 64));
-  report.add("pool of 4: score all + learn nearest", poolTiming.ns, baseline, `${(1e9 / poolTiming.ns).toFixed(0)} samples/s; (b) ${rate(4 * SCORE_MA + UPDATE_MA, poolTiming)}`);
+  // pool of 4 members: score all, train the nearest (learnScored reuses the nearest's forward pass)
+  const poolRun = (): number => nsPerOp(() => { for (let i = 0; i < 64; i++) consume(pool.learn(data[q++ & 4095] as Float64Array).loss); }, 64, quick);
 
-  // learnChunk per sample for k = 1, 4, 16, 64
-  for (const k of [1, 4, 16, 64]) {
+  const [dotNs, scoreNs, learnNs, refScoreNs, refLearnNs, poolNs] = interleaved([dotRun, scoreRun(model64), learnRun(model64), refScoreRun, refLearnRun, poolRun]) as [number[], number[], number[], number[], number[], number[]];
+  // (b): achieved multiply-adds per ns over the dot product's, per round
+  const rate = (ma: number, ns: number[]): string => {
+    const achieved = median(ns.map((x) => ma / x));
+    return `${achieved.toFixed(3)} multiply-adds/ns = ${ratioOf(dotNs, ns.map((x) => x / ma)).toFixed(2)} × the dot-product rate`;
+  };
+  report.add("dot product of two Float64Arrays (per multiply-add)", median(dotNs), baseline, `${(1 / median(dotNs)).toFixed(3)} multiply-adds/ns (median of ${dotNs.length} rounds)`);
+  report.add("score 256-32-256 float64", median(scoreNs), baseline,
+    `${(1e9 / median(scoreNs)).toFixed(0)} samples/s; (a) ${ratioOf(refScoreNs, scoreNs).toFixed(1)}× faster than ml-matrix; (b) ${rate(SCORE_MA, scoreNs)}`);
+  report.add("learn 256-32-256 float64", median(learnNs), baseline,
+    `${(1e9 / median(learnNs)).toFixed(0)} samples/s; (a) ${ratioOf(refLearnNs, learnNs).toFixed(1)}× faster than ml-matrix; (b) ${rate(LEARN_MA, learnNs)}`);
+  report.add("score, same algorithm in ml-matrix operations", median(refScoreNs), baseline, `${(1e9 / median(refScoreNs)).toFixed(0)} samples/s`);
+  report.add("learn, same algorithm in ml-matrix operations", median(refLearnNs), baseline, `${(1e9 / median(refLearnNs)).toFixed(0)} samples/s`);
+  report.add("pool of 4: score all + learn nearest", median(poolNs), baseline, `${(1e9 / median(poolNs)).toFixed(0)} samples/s; (b) ${rate(4 * SCORE_MA + UPDATE_MA, poolNs)}`);
+
+  // learnChunk per sample for k = 1, 4, 16, 64, against learn in the same rounds
+  const chunkRuns = [1, 4, 16, 64].map((k) => {
     const model = fitted("float64");
     const chunks = Array.from({ length: 64 }, (_, c) => data.slice((c * k) % 4032, ((c * k) % 4032) + k));
     let c = 0;
-    const ns = nsPerOp(() => { model.learnChunk(chunks[c++ & 63] as Float64Array[]); consume(model.count); }, k);
-    report.add(`learnChunk k=${k}, per sample`, ns, baseline, `${(1e9 / ns).toFixed(0)} samples/s; ${(ns / learn64.ns).toFixed(2)}× the cost of one learn`);
-  }
+    return (): number => nsPerOp(() => { model.learnChunk(chunks[c++ & 63] as Float64Array[]); consume(model.count); }, k, quick);
+  });
+  const chunkTimes = interleaved([learnRun(fitted("float64")), ...chunkRuns], 5);
+  [1, 4, 16, 64].forEach((k, i) => {
+    const ns = chunkTimes[i + 1] as number[];
+    report.add(`learnChunk k=${k}, per sample`, median(ns), baseline, `${(1e9 / median(ns)).toFixed(0)} samples/s; ${ratioOf(ns, chunkTimes[0] as number[]).toFixed(2)}× the cost of one learn`);
+  });
 
   // float32 state last: from here on the shared loops also see Float32Array
   const model32 = fitted("float32");
-  const score32 = beside(scoreOf(model32));
-  const learn32 = beside(learnOf(model32));
-  report.add("score 256-32-256 float32", score32.ns, baseline, `${(1e9 / score32.ns).toFixed(0)} samples/s; (b) ${rate(SCORE_MA, score32)}`);
-  report.add("learn 256-32-256 float32", learn32.ns, baseline, `${(1e9 / learn32.ns).toFixed(0)} samples/s; (b) ${rate(LEARN_MA, learn32)}`);
+  const [dot32, score32, learn32] = interleaved([dotRun, scoreRun(model32), learnRun(model32)], 5) as [number[], number[], number[]];
+  const rate32 = (ma: number, ns: number[]): string => `${median(ns.map((x) => ma / x)).toFixed(3)} multiply-adds/ns = ${ratioOf(dot32, ns.map((x) => x / ma)).toFixed(2)} × the dot-product rate`;
+  report.add("score 256-32-256 float32", median(score32), baseline, `${(1e9 / median(score32)).toFixed(0)} samples/s; (b) ${rate32(SCORE_MA, score32)}`);
+  report.add("learn 256-32-256 float32", median(learn32), baseline, `${(1e9 / median(learn32)).toFixed(0)} samples/s; (b) ${rate32(LEARN_MA, learn32)}`);
   report.write();
 });
