@@ -151,7 +151,11 @@ export function evaluate(timeline: Timeline, labels?: ReplayLabels, options?: Ev
 
   const detected = perEvent.filter((r) => r.response !== null);
   const delayByCause = {} as Record<EventCause, DelaySummary | null>;
-  for (const cause of EVENT_CAUSES) delayByCause[cause] = summarizeDelays(detected.filter((r) => r.cause === cause));
+  const missedByCause = {} as Record<EventCause, number>;
+  for (const cause of EVENT_CAUSES) {
+    delayByCause[cause] = summarizeDelays(detected.filter((r) => r.cause === cause));
+    missedByCause[cause] = perEvent.filter((r) => r.response === null && r.cause === cause).length;
+  }
   const runs = runLengths(excluded, falseAlarmAt, level);
 
   return {
@@ -160,11 +164,7 @@ export function evaluate(timeline: Timeline, labels?: ReplayLabels, options?: Ev
     eventsBeyondStream: events.length - reached.length,
     detected: detected.length,
     missed: perEvent.length - detected.length,
-    missedByCause: {
-      "concept-drift": perEvent.filter((r) => r.response === null && r.cause === "concept-drift").length,
-      degradation: perEvent.filter((r) => r.response === null && r.cause === "degradation").length,
-      anomaly: perEvent.filter((r) => r.response === null && r.cause === "anomaly").length,
-    },
+    missedByCause,
     correctCause: perEvent.filter((r) => r.correct).length,
     delay: summarizeDelays(detected),
     delayByCause,
