@@ -373,6 +373,7 @@ describe("OselmAutoencoder: bad input", () => {
     ["activation", { activation: "relu" }, '"relu"'],
     ["ridge", { ridge: 0 }, "0"],
     ["ridge", { ridge: -1 }, "-1"],
+    ["ridge", { ridge: 1e-300 }, "1e-300"],
     ["forgetting", { forgetting: 0 }, "0"],
     ["forgetting", { forgetting: 1.01 }, "1.01"],
     ["traceBound", { traceBound: -2 }, "-2"],

@@ -180,7 +180,7 @@ export class AutoencoderPool {
       scaling: scaling.offset !== null && scaling.scale !== null ? { offset: scaling.offset, scale: scaling.scale } : scaling.mode === "standardize" ? "standardize" : "none",
     };
     if (o.activation !== undefined) memberOptions.activation = oneOf(COMPONENT, "activation", o.activation, ACTIVATIONS);
-    if (o.ridge !== undefined) memberOptions.ridge = positiveNumber(COMPONENT, "ridge", o.ridge);
+    if (o.ridge !== undefined) memberOptions.ridge = numberInRange(COMPONENT, "ridge", o.ridge, { min: 1e-15, max: 1e15 });
     if (o.forgetting !== undefined) memberOptions.forgetting = numberInRange(COMPONENT, "forgetting", o.forgetting, { min: 0, max: 1, minExclusive: true });
     if (o.traceBound !== undefined) memberOptions.traceBound = positiveNumber(COMPONENT, "traceBound", o.traceBound);
     if (o.dtype !== undefined) memberOptions.dtype = oneOf(COMPONENT, "dtype", o.dtype, DTYPES);

@@ -46,7 +46,7 @@ export interface OselmAutoencoderOptions {
   seed: number | string;
   /** g of the hidden layer; default "sigmoid". */
   activation?: Activation;
-  /** Ridge δ = 1/C added to the Gram matrix: P = (HᵀH + δI)⁻¹; default 0.01. */
+  /** Ridge δ = 1/C added to the Gram matrix: P = (HᵀH + δI)⁻¹, in [1e-15, 1e15]; default 0.01. */
   ridge?: number;
   /** Forgetting factor λ in (0, 1]; 1 (default) weighs every sample equally, λ < 1 weighs a sample learnt m steps ago by λ^m (memory ≈ 1/(1 − λ) samples). */
   forgetting?: number;
@@ -172,7 +172,8 @@ export class OselmAutoencoder {
     }
     this.#seed = String(seedOption(COMPONENT, "seed", o.seed));
     this.#activation = o.activation === undefined ? "sigmoid" : oneOf(COMPONENT, "activation", o.activation, ACTIVATIONS);
-    this.#ridge = o.ridge === undefined ? 0.01 : positiveNumber(COMPONENT, "ridge", o.ridge);
+    // 1/δ is the prior P, so δ is kept where 1/δ is a normal float32 number
+    this.#ridge = o.ridge === undefined ? 0.01 : numberInRange(COMPONENT, "ridge", o.ridge, { min: 1e-15, max: 1e15 });
     this.#forgetting = o.forgetting === undefined ? 1 : numberInRange(COMPONENT, "forgetting", o.forgetting, { min: 0, max: 1, minExclusive: true });
     this.#traceBound = o.traceBound === undefined ? this.#L / this.#ridge : positiveNumber(COMPONENT, "traceBound", o.traceBound);
     if (!(this.#traceBound < Infinity)) throw new OptionError(COMPONENT, "traceBound", o.traceBound, "a finite number > 0 (L/ridge is too large)");
