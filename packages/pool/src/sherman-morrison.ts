@@ -106,25 +106,20 @@ function prepareGain(p: Vector, h: Float64Array, e: Float64Array, L: number, n: 
   return null;
 }
 
-/** β ← β + k eᵀ for β of L rows × n columns. */
+/** β ← β + k eᵀ for β of L rows × n columns (inner loop unrolled by four). */
 export function addOuterProduct(beta: Vector, k: Float64Array, e: Float64Array, L: number, n: number): void {
-  // two rows per pass share the loads of e
-  let i = 0;
-  for (; i + 1 < L; i += 2) {
-    const k0 = k[i] as number;
-    const k1 = k[i + 1] as number;
-    const r0 = i * n;
-    const r1 = r0 + n;
-    for (let j = 0; j < n; j++) {
-      const ej = e[j] as number;
-      beta[r0 + j] = (beta[r0 + j] as number) + k0 * ej;
-      beta[r1 + j] = (beta[r1 + j] as number) + k1 * ej;
-    }
-  }
-  if (i < L) {
+  const n4 = n - (n % 4);
+  for (let i = 0; i < L; i++) {
     const ki = k[i] as number;
     const row = i * n;
-    for (let j = 0; j < n; j++) beta[row + j] = (beta[row + j] as number) + ki * (e[j] as number);
+    let j = 0;
+    for (; j < n4; j += 4) {
+      beta[row + j] = (beta[row + j] as number) + ki * (e[j] as number);
+      beta[row + j + 1] = (beta[row + j + 1] as number) + ki * (e[j + 1] as number);
+      beta[row + j + 2] = (beta[row + j + 2] as number) + ki * (e[j + 2] as number);
+      beta[row + j + 3] = (beta[row + j + 3] as number) + ki * (e[j + 3] as number);
+    }
+    for (; j < n; j++) beta[row + j] = (beta[row + j] as number) + ki * (e[j] as number);
   }
 }
 
