@@ -17,6 +17,7 @@ import type { ChangeDirection, ChangeReading, ChangeSides, ChangeTest } from "./
 import { burnInSigma, burnInStep, emptyBurnIn, readBurnIn, type BurnIn } from "./burn-in.js";
 import { scanStart, sidesOption, warningFractionOption } from "./options.js";
 import { buildFromSnapshot, definedOnly } from "./restore-support.js";
+import { lastZero, positivePart, SCAN_BLOCK } from "./scan-block.js";
 
 /** Options of {@link Cusum}. Give `mean` and `sigma`, or `burnIn` to estimate them. */
 export interface CusumOptions {
@@ -102,6 +103,9 @@ export class Cusum implements ChangeTest {
   #lowerZero: number;
   #count = 0;
   #skipped = 0;
+  #loop: Float64Array | null = null; // scan's state in and out of cusumLoop
+  #upSums: Float64Array | null = null; // scan's per-block C⁺ (allocated by the first scan), to find the last zero
+  #lowSums: Float64Array | null = null;
 
   constructor(options: CusumOptions = {}) {
     const o = optionsObject<CusumOptions>(NAME, options, KNOWN);
@@ -177,16 +181,10 @@ export class Cusum implements ChangeTest {
       return this.#reading(i);
     }
     const z = (x - this.#mean) * this.#invSigma;
-    let up = this.#upper + (z - this.#k);
-    let lo = this.#lower + (-z - this.#k);
-    if (up <= 0) {
-      up = 0;
-      this.#upperZero = i;
-    }
-    if (lo <= 0) {
-      lo = 0;
-      this.#lowerZero = i;
-    }
+    const up = positivePart(this.#upper + (z - this.#k));
+    const lo = positivePart(this.#lower + (-z - this.#k));
+    if (up === 0) this.#upperZero = i;
+    if (lo === 0) this.#lowerZero = i;
     this.#upper = up;
     this.#lower = lo;
     return this.#reading(i);
@@ -197,50 +195,28 @@ export class Cusum implements ChangeTest {
     const n = xs.length;
     for (; j < n && this.#burnIn !== null; j++) this.observe(xs[j] as number);
     if (j >= n) return -1;
-    const mu = this.#mean;
-    const inv = this.#invSigma;
-    const k = this.#k;
-    const hUp = this.#hUp;
-    const hDown = this.#hDown;
-    const refuse = this.#nonFinite === "refuse";
-    let up = this.#upper;
-    let lo = this.#lower;
-    let uz = this.#upperZero;
-    let lz = this.#lowerZero;
-    let skipped = this.#skipped;
-    let idx = this.#count + skipped; // stream index of xs[j]
-    let found = -1;
-    for (; j < n; j++, idx++) {
-      const x = xs[j] as number;
-      if (!(x - x === 0)) {
-        if (refuse) break;
-        skipped++;
-        continue;
-      }
-      const z = (x - mu) * inv;
-      up = up + (z - k);
-      lo = lo + (-z - k);
-      if (up <= 0) {
-        up = 0;
-        uz = idx;
-      }
-      if (lo <= 0) {
-        lo = 0;
-        lz = idx;
-      }
-      if (up > hUp || lo > hDown) {
-        found = j;
-        idx++;
-        break;
-      }
-    }
-    this.#upper = up;
-    this.#lower = lo;
-    this.#upperZero = uz;
-    this.#lowerZero = lz;
-    this.#count = idx - skipped;
-    this.#skipped = skipped;
-    if (j < n && found < 0) throw new NonFiniteError(NAME, `xs[${j}]`, xs[j]);
+    const state = (this.#loop ??= new Float64Array(LOOP.size));
+    state[LOOP.mu] = this.#mean;
+    state[LOOP.inv] = this.#invSigma;
+    state[LOOP.k] = this.#k;
+    state[LOOP.hUp] = this.#hUp;
+    state[LOOP.hDown] = this.#hDown;
+    state[LOOP.up] = this.#upper;
+    state[LOOP.lo] = this.#lower;
+    state[LOOP.uz] = this.#upperZero;
+    state[LOOP.lz] = this.#lowerZero;
+    state[LOOP.idx] = this.#count + this.#skipped;
+    state[LOOP.skipped] = this.#skipped;
+    state[LOOP.refuse] = this.#nonFinite === "refuse" ? 1 : 0;
+    const found = cusumLoop(xs, j, state, (this.#upSums ??= new Float64Array(SCAN_BLOCK)), (this.#lowSums ??= new Float64Array(SCAN_BLOCK)));
+    this.#upper = state[LOOP.up] as number;
+    this.#lower = state[LOOP.lo] as number;
+    this.#upperZero = state[LOOP.uz] as number;
+    this.#lowerZero = state[LOOP.lz] as number;
+    this.#skipped = state[LOOP.skipped] as number;
+    this.#count = (state[LOOP.idx] as number) - this.#skipped;
+    const stop = state[LOOP.j] as number;
+    if (found < 0 && stop < n) throw new NonFiniteError(NAME, `xs[${stop}]`, xs[stop]);
     return found;
   }
 
@@ -352,4 +328,70 @@ export class Cusum implements ChangeTest {
     }
     return reading;
   }
+}
+
+/** Slots of the state array that {@link cusumLoop} reads and writes. */
+const LOOP = { mu: 0, inv: 1, k: 2, hUp: 3, hDown: 4, up: 5, lo: 6, uz: 7, lz: 8, idx: 9, skipped: 10, refuse: 11, j: 12, size: 13 } as const;
+
+/**
+ * The hot loop of {@link Cusum.scan}, outside the class so that the engine optimizes it as a whole
+ * function: the same arithmetic as `observe`, the last zeros found per block (see scan-block.ts).
+ * Returns the index of the first alarm or −1; leaves in `s[LOOP.j]` where it stopped.
+ */
+function cusumLoop(xs: Float64Array, from: number, s: Float64Array, upSums: Float64Array, lowSums: Float64Array): number {
+  const mu = s[LOOP.mu] as number;
+  const inv = s[LOOP.inv] as number;
+  const k = s[LOOP.k] as number;
+  const hUp = s[LOOP.hUp] as number;
+  const hDown = s[LOOP.hDown] as number;
+  const refuse = s[LOOP.refuse] === 1;
+  let up = s[LOOP.up] as number;
+  let lo = s[LOOP.lo] as number;
+  let uz = s[LOOP.uz] as number;
+  let lz = s[LOOP.lz] as number;
+  let idx = s[LOOP.idx] as number; // stream index of xs[j]
+  let skipped = s[LOOP.skipped] as number;
+  const n = xs.length;
+  let j = from;
+  let found = -1;
+  while (j < n) {
+    const blockStart = j;
+    const end = Math.min(n, j + SCAN_BLOCK);
+    for (; j < end; j++) {
+      const x = xs[j] as number;
+      if (!(x - x === 0)) break;
+      const z = (x - mu) * inv;
+      up = positivePart(up + (z - k));
+      lo = positivePart(lo + (-z - k));
+      upSums[j - blockStart] = up;
+      lowSums[j - blockStart] = lo;
+      if (up > hUp || lo > hDown) {
+        found = j;
+        j++;
+        break;
+      }
+    }
+    const length = j - blockStart;
+    const qUp = lastZero(upSums, length);
+    const qLow = lastZero(lowSums, length);
+    if (qUp >= 0) uz = idx + qUp;
+    if (qLow >= 0) lz = idx + qLow;
+    idx += length;
+    if (found >= 0 || j >= n) break;
+    if (j < end) {
+      // a non-finite sample at xs[j]
+      if (refuse) break;
+      skipped++;
+      idx++;
+      j++;
+    }
+  }
+  s[LOOP.up] = up;
+  s[LOOP.lo] = lo;
+  s[LOOP.uz] = uz;
+  s[LOOP.lz] = lz;
+  s[LOOP.idx] = idx;
+  s[LOOP.skipped] = skipped;
+  s[LOOP.j] = j;
+  return found;
 }

@@ -18,6 +18,7 @@ import type { ChangeDirection, ChangeReading, ChangeSides, ChangeTest } from "./
 import { burnInSigma, burnInStep, emptyBurnIn, readBurnIn, type BurnIn } from "./burn-in.js";
 import { scanStart, sidesOption, warningFractionOption } from "./options.js";
 import { buildFromSnapshot, definedOnly } from "./restore-support.js";
+import { lastNonNegative, lastNonPositive, SCAN_BLOCK } from "./scan-block.js";
 
 /** Which control limits an {@link EwmaChart} uses. */
 export type EwmaLimits = "asymptotic" | "exact";
@@ -106,6 +107,8 @@ export class EwmaChart implements ChangeTest {
   #lowerZero = -1; // … with z ≥ 0
   #count = 0;
   #skipped = 0;
+  #loop: Float64Array | null = null; // scan's state in and out of ewmaLoop
+  #zs: Float64Array | null = null; // scan's per-block z, to find the last sign change
 
   constructor(options: EwmaChartOptions = {}) {
     const o = optionsObject<EwmaChartOptions>(NAME, options, KNOWN);
@@ -189,47 +192,29 @@ export class EwmaChart implements ChangeTest {
     const n = xs.length;
     for (; j < n && this.#burnIn !== null; j++) this.observe(xs[j] as number);
     if (j >= n) return -1;
-    const mu = this.#mean;
-    const inv = this.#invSigma;
-    const lam = this.#lambda;
-    const keep = 1 - lam;
-    const step = this.#decayStep;
-    const bUp = this.#boundUp;
-    const bDown = this.#boundDown;
-    const refuse = this.#nonFinite === "refuse";
-    let z = this.#z;
-    let q = this.#decay;
-    let uz = this.#upperZero;
-    let lz = this.#lowerZero;
-    let skipped = this.#skipped;
-    let idx = this.#count + skipped; // stream index of xs[j]
-    let found = -1;
-    for (; j < n; j++, idx++) {
-      const x = xs[j] as number;
-      if (!(x - x === 0)) {
-        if (refuse) break;
-        skipped++;
-        continue;
-      }
-      const u = (x - mu) * inv;
-      z = keep * z + lam * u;
-      q = q > 1e-20 ? q * step : 0;
-      if (z <= 0) uz = idx;
-      if (z >= 0) lz = idx;
-      if (z * z > (z > 0 ? bUp : bDown) * (1 - q)) {
-        found = j;
-        idx++;
-        break;
-      }
-    }
-    const count = idx - skipped;
-    this.#z = z;
-    this.#decay = q;
-    this.#upperZero = uz;
-    this.#lowerZero = lz;
-    this.#count = count;
-    this.#skipped = skipped;
-    if (j < n && found < 0) throw new NonFiniteError(NAME, `xs[${j}]`, xs[j]);
+    const state = (this.#loop ??= new Float64Array(LOOP.size));
+    state[LOOP.mu] = this.#mean;
+    state[LOOP.inv] = this.#invSigma;
+    state[LOOP.lambda] = this.#lambda;
+    state[LOOP.step] = this.#decayStep;
+    state[LOOP.bUp] = this.#boundUp;
+    state[LOOP.bDown] = this.#boundDown;
+    state[LOOP.refuse] = this.#nonFinite === "refuse" ? 1 : 0;
+    state[LOOP.z] = this.#z;
+    state[LOOP.q] = this.#decay;
+    state[LOOP.uz] = this.#upperZero;
+    state[LOOP.lz] = this.#lowerZero;
+    state[LOOP.idx] = this.#count + this.#skipped;
+    state[LOOP.skipped] = this.#skipped;
+    const found = ewmaLoop(xs, j, state, (this.#zs ??= new Float64Array(SCAN_BLOCK)));
+    this.#z = state[LOOP.z] as number;
+    this.#decay = state[LOOP.q] as number;
+    this.#upperZero = state[LOOP.uz] as number;
+    this.#lowerZero = state[LOOP.lz] as number;
+    this.#skipped = state[LOOP.skipped] as number;
+    this.#count = (state[LOOP.idx] as number) - this.#skipped;
+    const stop = state[LOOP.j] as number;
+    if (found < 0 && stop < n) throw new NonFiniteError(NAME, `xs[${stop}]`, xs[stop]);
     return found;
   }
 
@@ -339,4 +324,71 @@ export class EwmaChart implements ChangeTest {
     }
     return reading;
   }
+}
+
+/** Slots of the state array that {@link ewmaLoop} reads and writes. */
+const LOOP = { mu: 0, inv: 1, lambda: 2, step: 3, bUp: 4, bDown: 5, refuse: 6, z: 7, q: 8, uz: 9, lz: 10, idx: 11, skipped: 12, j: 13, size: 14 } as const;
+
+/**
+ * The hot loop of {@link EwmaChart.scan}, outside the class so that the engine optimizes it as a whole
+ * function: the same arithmetic as `observe`, the last sign changes found per block.
+ * Returns the index of the first alarm or −1; leaves in `s[LOOP.j]` where it stopped.
+ */
+function ewmaLoop(xs: Float64Array, from: number, s: Float64Array, zs: Float64Array): number {
+  const mu = s[LOOP.mu] as number;
+  const inv = s[LOOP.inv] as number;
+  const lam = s[LOOP.lambda] as number;
+  const keep = 1 - lam;
+  const step = s[LOOP.step] as number;
+  const bUp = s[LOOP.bUp] as number;
+  const bDown = s[LOOP.bDown] as number;
+  const refuse = s[LOOP.refuse] === 1;
+  let z = s[LOOP.z] as number;
+  let q = s[LOOP.q] as number;
+  let uz = s[LOOP.uz] as number;
+  let lz = s[LOOP.lz] as number;
+  let idx = s[LOOP.idx] as number; // stream index of xs[blockStart]
+  let skipped = s[LOOP.skipped] as number;
+  const n = xs.length;
+  let j = from;
+  let found = -1;
+  while (j < n) {
+    const blockStart = j;
+    const end = Math.min(n, j + SCAN_BLOCK);
+    for (; j < end; j++) {
+      const x = xs[j] as number;
+      if (!(x - x === 0)) break;
+      const u = (x - mu) * inv;
+      z = keep * z + lam * u;
+      q = q > 1e-20 ? q * step : 0;
+      zs[j - blockStart] = z;
+      if (z * z > (z > 0 ? bUp : bDown) * (1 - q)) {
+        found = j;
+        j++;
+        break;
+      }
+    }
+    const length = j - blockStart;
+    const qUp = lastNonPositive(zs, length);
+    const qLow = lastNonNegative(zs, length);
+    if (qUp >= 0) uz = idx + qUp;
+    if (qLow >= 0) lz = idx + qLow;
+    idx += length;
+    if (found >= 0 || j >= n) break;
+    if (j < end) {
+      // a non-finite sample at xs[j]
+      if (refuse) break;
+      skipped++;
+      idx++;
+      j++;
+    }
+  }
+  s[LOOP.z] = z;
+  s[LOOP.q] = q;
+  s[LOOP.uz] = uz;
+  s[LOOP.lz] = lz;
+  s[LOOP.idx] = idx;
+  s[LOOP.skipped] = skipped;
+  s[LOOP.j] = j;
+  return found;
 }

@@ -15,6 +15,7 @@ import {
 import type { ChangeDirection, ChangeReading, ChangeSides, ChangeTest } from "./change-test.js";
 import { scanStart, sidesOption, warningFractionOption } from "./options.js";
 import { buildFromSnapshot, definedOnly } from "./restore-support.js";
+import { lastZero, positivePart, SCAN_BLOCK } from "./scan-block.js";
 
 /** Options of {@link PageHinkley}. */
 export interface PageHinkleyOptions {
@@ -95,6 +96,9 @@ export class PageHinkley implements ChangeTest {
   #lowerZero = -1;
   #count = 0;
   #skipped = 0;
+  #loop: Float64Array | null = null; // scan's state in and out of pageHinkleyLoop
+  #upSums: Float64Array | null = null; // scan's per-block sums, to find the last zero
+  #lowSums: Float64Array | null = null;
 
   constructor(options: PageHinkleyOptions) {
     const o = optionsObject<PageHinkleyOptions>(NAME, options, KNOWN);
@@ -149,16 +153,10 @@ export class PageHinkley implements ChangeTest {
     const runMean = this.#runningMean + (x - this.#runningMean) * r;
     this.#runningMean = runMean;
     const d = x - (this.#knownMean === null ? runMean : this.#knownMean);
-    let up = this.#upper + (d - this.#delta);
-    let lo = this.#lower + (-d - this.#delta);
-    if (up <= 0) {
-      up = 0;
-      this.#upperZero = i;
-    }
-    if (lo <= 0) {
-      lo = 0;
-      this.#lowerZero = i;
-    }
+    const up = positivePart(this.#upper + (d - this.#delta));
+    const lo = positivePart(this.#lower + (-d - this.#delta));
+    if (up === 0) this.#upperZero = i;
+    if (lo === 0) this.#lowerZero = i;
     this.#upper = up;
     this.#lower = lo;
     return this.#reading(i);
@@ -167,61 +165,34 @@ export class PageHinkley implements ChangeTest {
   scan(xs: Float64Array, from = 0): number {
     let j = scanStart(NAME, xs, from);
     const n = xs.length;
-    const alpha = this.#forgetting;
-    const delta = this.#delta;
-    const lamUp = this.#lambdaUp;
-    const lamDown = this.#lambdaDown;
-    const minSamples = this.#minSamples;
-    const known = this.#knownMean !== null;
-    const mu0 = this.#knownMean ?? 0;
-    const refuse = this.#nonFinite === "refuse";
-    let w = this.#weight;
-    let runMean = this.#runningMean;
-    let up = this.#upper;
-    let lo = this.#lower;
-    let uz = this.#upperZero;
-    let lz = this.#lowerZero;
-    let count = this.#count;
-    let skipped = this.#skipped;
-    let idx = count + skipped; // stream index of xs[j]
-    let found = -1;
-    for (; j < n; j++, idx++) {
-      const x = xs[j] as number;
-      if (!(x - x === 0)) {
-        if (refuse) break;
-        skipped++;
-        continue;
-      }
-      count++;
-      // Wₜ and 1/Wₜ depend on no sample: the division stays off the running mean's chain.
-      w = alpha * w + 1;
-      const r = 1 / w;
-      runMean = runMean + (x - runMean) * r;
-      const d = x - (known ? mu0 : runMean);
-      up = up + (d - delta);
-      lo = lo + (-d - delta);
-      if (up <= 0) {
-        up = 0;
-        uz = idx;
-      }
-      if (lo <= 0) {
-        lo = 0;
-        lz = idx;
-      }
-      if ((up > lamUp || lo > lamDown) && count >= minSamples) {
-        found = j;
-        break;
-      }
-    }
-    this.#weight = w;
-    this.#runningMean = runMean;
-    this.#upper = up;
-    this.#lower = lo;
-    this.#upperZero = uz;
-    this.#lowerZero = lz;
-    this.#count = count;
-    this.#skipped = skipped;
-    if (j < n && found < 0) throw new NonFiniteError(NAME, `xs[${j}]`, xs[j]);
+    const state = (this.#loop ??= new Float64Array(LOOP.size));
+    state[LOOP.alpha] = this.#forgetting;
+    state[LOOP.delta] = this.#delta;
+    state[LOOP.lamUp] = this.#lambdaUp;
+    state[LOOP.lamDown] = this.#lambdaDown;
+    state[LOOP.minSamples] = this.#minSamples;
+    state[LOOP.known] = this.#knownMean === null ? 0 : 1;
+    state[LOOP.mu0] = this.#knownMean ?? 0;
+    state[LOOP.refuse] = this.#nonFinite === "refuse" ? 1 : 0;
+    state[LOOP.w] = this.#weight;
+    state[LOOP.runMean] = this.#runningMean;
+    state[LOOP.up] = this.#upper;
+    state[LOOP.lo] = this.#lower;
+    state[LOOP.uz] = this.#upperZero;
+    state[LOOP.lz] = this.#lowerZero;
+    state[LOOP.idx] = this.#count + this.#skipped;
+    state[LOOP.skipped] = this.#skipped;
+    const found = pageHinkleyLoop(xs, j, state, (this.#upSums ??= new Float64Array(SCAN_BLOCK)), (this.#lowSums ??= new Float64Array(SCAN_BLOCK)));
+    this.#weight = state[LOOP.w] as number;
+    this.#runningMean = state[LOOP.runMean] as number;
+    this.#upper = state[LOOP.up] as number;
+    this.#lower = state[LOOP.lo] as number;
+    this.#upperZero = state[LOOP.uz] as number;
+    this.#lowerZero = state[LOOP.lz] as number;
+    this.#skipped = state[LOOP.skipped] as number;
+    this.#count = (state[LOOP.idx] as number) - this.#skipped;
+    const stop = state[LOOP.j] as number;
+    if (found < 0 && stop < n) throw new NonFiniteError(NAME, `xs[${stop}]`, xs[stop]);
     return found;
   }
 
@@ -307,4 +278,85 @@ export class PageHinkley implements ChangeTest {
     }
     return reading;
   }
+}
+
+/** Slots of the state array that {@link pageHinkleyLoop} reads and writes. */
+const LOOP = {
+  alpha: 0, delta: 1, lamUp: 2, lamDown: 3, minSamples: 4, known: 5, mu0: 6, refuse: 7,
+  w: 8, runMean: 9, up: 10, lo: 11, uz: 12, lz: 13, idx: 14, skipped: 15, j: 16, size: 17,
+} as const;
+
+/**
+ * The hot loop of {@link PageHinkley.scan}, outside the class so that the engine optimizes it as a
+ * whole function: the same arithmetic as `observe`, the last zeros found per block (see scan-block.ts).
+ * Returns the index of the first alarm or −1; leaves in `s[LOOP.j]` where it stopped.
+ */
+function pageHinkleyLoop(xs: Float64Array, from: number, s: Float64Array, upSums: Float64Array, lowSums: Float64Array): number {
+  const alpha = s[LOOP.alpha] as number;
+  const delta = s[LOOP.delta] as number;
+  const lamUp = s[LOOP.lamUp] as number;
+  const lamDown = s[LOOP.lamDown] as number;
+  const minSamples = s[LOOP.minSamples] as number;
+  const known = s[LOOP.known] === 1;
+  const mu0 = s[LOOP.mu0] as number;
+  const refuse = s[LOOP.refuse] === 1;
+  let w = s[LOOP.w] as number;
+  let runMean = s[LOOP.runMean] as number;
+  let up = s[LOOP.up] as number;
+  let lo = s[LOOP.lo] as number;
+  let uz = s[LOOP.uz] as number;
+  let lz = s[LOOP.lz] as number;
+  let idx = s[LOOP.idx] as number; // stream index of xs[blockStart]
+  let skipped = s[LOOP.skipped] as number;
+  const n = xs.length;
+  let j = from;
+  let found = -1;
+  while (j < n) {
+    const blockStart = j;
+    const end = Math.min(n, j + SCAN_BLOCK);
+    // finite samples taken so far, before xs[blockStart]
+    const countBefore = idx - skipped - blockStart;
+    for (; j < end; j++) {
+      const x = xs[j] as number;
+      if (!(x - x === 0)) break;
+      // Wₜ and 1/Wₜ depend on no sample: the division stays off the running mean's chain.
+      w = alpha * w + 1;
+      const r = 1 / w;
+      runMean = runMean + (x - runMean) * r;
+      const d = x - (known ? mu0 : runMean);
+      up = positivePart(up + (d - delta));
+      lo = positivePart(lo + (-d - delta));
+      upSums[j - blockStart] = up;
+      lowSums[j - blockStart] = lo;
+      if ((up > lamUp || lo > lamDown) && countBefore + j + 1 >= minSamples) {
+        found = j;
+        j++;
+        break;
+      }
+    }
+    const length = j - blockStart;
+    const qUp = lastZero(upSums, length);
+    const qLow = lastZero(lowSums, length);
+    if (qUp >= 0) uz = idx + qUp;
+    if (qLow >= 0) lz = idx + qLow;
+    idx += length;
+    if (found >= 0 || j >= n) break;
+    if (j < end) {
+      // a non-finite sample at xs[j]
+      if (refuse) break;
+      skipped++;
+      idx++;
+      j++;
+    }
+  }
+  s[LOOP.w] = w;
+  s[LOOP.runMean] = runMean;
+  s[LOOP.up] = up;
+  s[LOOP.lo] = lo;
+  s[LOOP.uz] = uz;
+  s[LOOP.lz] = lz;
+  s[LOOP.idx] = idx;
+  s[LOOP.skipped] = skipped;
+  s[LOOP.j] = j;
+  return found;
 }
