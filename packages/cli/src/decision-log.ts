@@ -1,7 +1,7 @@
 import { ACTIONS, CAUSES, PHASES, type Action, type Cause, type Decision, type Phase } from "@leeway/policy";
 import { InputError } from "./exit-codes.js";
 import type { LineBatch } from "./input/lines.js";
-import { recordError } from "./input/position.js";
+import { parseJsonLine, recordError } from "./input/position.js";
 
 /** One line of a decision log: the decision and, when the input had one, the time of its sample. */
 export interface LoggedDecision {
@@ -35,14 +35,7 @@ function oneOf<T extends string>(value: unknown, allowed: readonly T[], name: st
  * A null score (a non-finite number written out) reads back as NaN.
  */
 export function parseDecisionLine(text: string, name: string, line: number): LoggedDecision {
-  let raw: unknown;
-  try {
-    raw = JSON.parse(text);
-  } catch (error) {
-    const message = error instanceof Error ? error.message : String(error);
-    const position = /position (\d+)/.exec(message);
-    throw recordError(name, line, position === null ? 1 : Number(position[1]) + 1, `expected a decision as one JSON object per line (${message})`);
-  }
+  const raw = parseJsonLine(text, name, line, "a decision as one JSON object per line");
   if (typeof raw !== "object" || raw === null || Array.isArray(raw)) throw recordError(name, line, 1, "expected a decision object {index, action, cause, phase, evidence}");
   const r = raw as Record<string, unknown>;
   const col = (key: string): number => Math.max(1, text.indexOf(`"${key}"`) + 1);

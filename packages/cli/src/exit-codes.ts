@@ -10,8 +10,11 @@
  * | 4 | internal error: a fault in leeway itself (please report it with the command line) |
  */
 export const EXIT_OK = 0;
+/** Exit code of a usage error. */
 export const EXIT_USAGE = 2;
+/** Exit code of an input error. */
 export const EXIT_INPUT = 3;
+/** Exit code of an internal error. */
 export const EXIT_INTERNAL = 4;
 
 /** An error the command reports to the user with a chosen exit code (no stack trace). */

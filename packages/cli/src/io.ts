@@ -1,5 +1,5 @@
 import { createReadStream, createWriteStream, type WriteStream } from "node:fs";
-import { mkdir, rename, rm, stat } from "node:fs/promises";
+import { mkdir, readFile, rename, rm, stat } from "node:fs/promises";
 import { dirname, resolve } from "node:path";
 import type { Writable } from "node:stream";
 import { InputError } from "./exit-codes.js";
@@ -42,7 +42,6 @@ export async function openInput(path: string, io: CliStreams): Promise<OpenedInp
 
 /** Reads a whole small file (a config or labels file) as text. */
 export async function readTextFile(path: string, io: CliStreams): Promise<string> {
-  const { readFile } = await import("node:fs/promises");
   try {
     return await readFile(resolve(io.cwd, path), "utf8");
   } catch (error) {

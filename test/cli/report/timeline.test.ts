@@ -1,6 +1,7 @@
 import fc from "fast-check";
 import { describe, expect, it } from "vitest";
 import { CAUSES, PHASES, type Decision } from "@leeway/policy";
+import { expectLeewayError } from "../../support/errors.js";
 import { TimelineCollector } from "../../../packages/cli/src/report/timeline.js";
 import { handMadeDecisions } from "../hand-made.js";
 
@@ -76,6 +77,11 @@ describe("TimelineCollector", () => {
     expect(t.transitions.map((x) => x.index)).toEqual(changes.slice(0, 3).map((d) => d.index));
     expect(t.transitions[1]?.time).toBe(`t${changes[1]!.index}`);
     expect(t.transitionsOmitted).toBe(changes.length - 3);
+  });
+
+  it("refuses bad options with E_OPTION naming the option", () => {
+    expectLeewayError(() => new TimelineCollector({ columns: 10 }), "E_OPTION", "columns", "[64, 8192]");
+    expectLeewayError(() => new TimelineCollector({ colums: 100 } as never), "E_OPTION", "colums");
   });
 
   it("ignores non-finite evidence numbers instead of drawing them", () => {

@@ -9,6 +9,7 @@ import { formatNumber } from "../report/scale.js";
 const TESTS = ["cusum", "page-hinkley", "ewma", "adwin", "ks"] as const;
 type TestName = (typeof TESTS)[number];
 
+/** Arguments, flags and help of `leeway calibrate`. */
 export const calibrateSpec: CommandSpec = {
   name: "calibrate",
   summary: "Finds the threshold of a change test that gives a target in-control average run length (ARL0) on your normal scores.",
@@ -90,7 +91,7 @@ export async function runCalibrate(parsed: ParsedArguments, io: CliStreams): Pro
     `test        ${factory.describe}`,
     `scores      ${scores.length} from ${name} (column ${columnName}); mean ${formatNumber(mean)}, standard deviation ${formatNumber(sigma)}`,
     `threshold   ${result.threshold.toPrecision(6)}`,
-    `ARL0        ${formatNumber(result.arl0)} samples (95 % interval ${formatNumber(result.interval[0])} to ${formatNumber(result.interval[1])}; target ${formatNumber(target)})`,
+    `ARL0        ${Math.round(result.arl0)} samples (95 % interval ${Math.round(result.interval[0])} to ${Math.round(result.interval[1])}; target ${target})`,
     `bootstrap   ${result.replicates} streams per threshold, ${result.evaluations} thresholds tried, ${result.censored} final runs censored`,
   ];
   io.stdout.write(lines.join("\n") + "\n");

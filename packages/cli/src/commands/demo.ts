@@ -1,4 +1,4 @@
-import { closeSync, mkdirSync, openSync, writeSync } from "node:fs";
+import { closeSync, mkdirSync, openSync, renameSync, writeSync } from "node:fs";
 import { resolve } from "node:path";
 import { anomalyMask, replay, type Pipeline } from "@leeway/eval";
 import { DecisionEngine, type Decision, type DecisionEngineOptions } from "@leeway/policy";
@@ -19,6 +19,7 @@ import { reportMetrics } from "./report.js";
 /** Samples per simulated hour the demo runs at by default (one frame a minute). */
 export const DEMO_SCALE = 60;
 
+/** Arguments, flags and help of `leeway demo`. */
 export const demoSpec: CommandSpec = {
   name: "demo",
   summary: "Runs the embedded Harbour Lane PS-2 scenario end to end (simulator → spectra → autoencoder pool → decision engine → metrics) and writes a report.",
@@ -132,7 +133,6 @@ export async function runDemo(parsed: ParsedArguments, io: CliStreams): Promise<
   const { metrics } = replay(pipeline, frames, { events, anomaly: anomalyMask(events, length) }, { keepDecisions: false });
   if (pending.length > 0) writeSync(fd, pending.join("\n") + "\n");
   closeSync(fd);
-  const { renameSync } = await import("node:fs");
   renameSync(`${decisionsPath}.partial`, decisionsPath);
   progress.done();
 

@@ -17,6 +17,7 @@ import { countsText, metricsText, timelineText } from "../summary.js";
 import { leewayVersion } from "../version.js";
 import { labelsFromFlag, metricsOf, reportMetrics } from "./report.js";
 
+/** Arguments, flags and help of `leeway replay`. */
 export const replaySpec: CommandSpec = {
   name: "replay",
   summary: "Replays a recorded stream of scores or feature vectors (CSV or NDJSON) through the decision engine and writes one decision per sample as NDJSON.",

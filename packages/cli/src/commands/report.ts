@@ -11,6 +11,7 @@ import { renderReport } from "../report/html.js";
 import { TimelineCollector } from "../report/timeline.js";
 import { leewayVersion } from "../version.js";
 
+/** Arguments, flags and help of `leeway report`. */
 export const reportSpec: CommandSpec = {
   name: "report",
   summary: "Rebuilds the HTML report from a decision log (the NDJSON that replay and demo write).",

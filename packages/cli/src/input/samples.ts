@@ -1,7 +1,7 @@
 import { InputError } from "../exit-codes.js";
 import { csvFieldColumn, isNaNWord, parseNumberCell, splitCsvLine } from "./csv.js";
 import type { LineBatch } from "./lines.js";
-import { recordError, showCell } from "./position.js";
+import { parseJsonLine, recordError, showCell } from "./position.js";
 
 /** How the columns of a stream are read. */
 export type StreamMode = "scores" | "features";
@@ -225,15 +225,7 @@ function csvParser(names: string[], headerless: boolean, firstText: string, firs
 }
 
 function parseJsonRecord(text: string, name: string, line: number): Record<string, unknown> {
-  let value: unknown;
-  try {
-    value = JSON.parse(text);
-  } catch (error) {
-    const message = error instanceof Error ? error.message : String(error);
-    const position = /position (\d+)/.exec(message);
-    const column = position === null ? 1 : Number(position[1]) + 1;
-    throw recordError(name, line, column, `expected one JSON object per line (${message.replace(/^Unexpected/, "unexpected")})`);
-  }
+  const value = parseJsonLine(text, name, line, "one JSON object per line");
   if (typeof value !== "object" || value === null || Array.isArray(value)) throw recordError(name, line, 1, "expected a JSON object (NDJSON records are objects)");
   return value as Record<string, unknown>;
 }

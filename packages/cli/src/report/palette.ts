@@ -1,12 +1,15 @@
 import type { Cause, Phase } from "@leeway/policy";
 
 /**
- * The report's colours: ink-like series on white paper, one distinct hue per
+ * Ink: headings, the live score. The report's colours: ink-like series on white paper, one distinct hue per
  * cause, and pale phase bands that still separate in grey when printed.
  */
 export const INK = "#1f2a36";
+/** Secondary text, axes and frames. */
 export const MUTED = "#5d6b78";
+/** Grid lines and table rules. */
 export const GRID = "#e2e6ea";
+/** The page. */
 export const PAPER = "#ffffff";
 
 /** Score traces: the live model first, then the frozen references. */
@@ -41,4 +44,5 @@ export const PHASE_FILLS: Readonly<Record<Phase, string | null>> = {
 
 /** Test statistic and threshold traces. */
 export const STATISTIC_COLOUR = "#4a5a9c";
+/** Thresholds (dashed). */
 export const THRESHOLD_COLOUR = "#b8322a";

@@ -1,5 +1,5 @@
 import { ACTIONS, CAUSES, PHASES, type Cause, type Phase } from "@leeway/policy";
-import { CAUSE_COLOURS, EVENT_COLOURS, GRID, INK, MUTED, PHASE_FILLS, SERIES_COLOURS, STATISTIC_COLOUR, THRESHOLD_COLOUR } from "./palette.js";
+import { CAUSE_COLOURS, EVENT_COLOURS, GRID, MUTED, PHASE_FILLS, SERIES_COLOURS, STATISTIC_COLOUR, THRESHOLD_COLOUR } from "./palette.js";
 import { escapeXml, formatNumber, niceTicks, px, yScale, type YScale } from "./scale.js";
 import type { BucketSeries, ReportTimeline } from "./timeline.js";
 
@@ -338,4 +338,3 @@ function drawnBuckets(s: BucketSeries): number {
   return n;
 }
 
-export { INK };

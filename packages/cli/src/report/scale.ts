@@ -19,7 +19,11 @@ export function niceTicks(low: number, high: number, count: number): number[] {
   const step = (fraction <= 1 ? 1 : fraction <= 2 ? 2 : fraction <= 5 ? 5 : 10) * magnitude;
   const first = Math.floor(low / step) * step;
   const ticks: number[] = [];
-  for (let v = first; v <= high + step * 0.5 && ticks.length < 50; v += step) ticks.push(Math.abs(v) < step * 1e-9 ? 0 : v);
+  for (let k = 0; k < 50; k++) {
+    const v = first + k * step;
+    ticks.push(Math.abs(v) < step * 1e-9 ? 0 : v);
+    if (v >= high - step * 1e-9) break; // the last tick reaches high
+  }
   return ticks;
 }
 
@@ -29,9 +33,11 @@ export function formatNumber(v: number): string {
   const a = Math.abs(v);
   if (a === 0) return "0";
   if (Number.isInteger(v) && a < 1e4) return String(v);
-  if (a >= 1e6 && Number.isInteger(v)) return `${trim((v / 1e6).toPrecision(3))}M`;
-  if (a >= 1e4 && Number.isInteger(v)) return `${trim((v / 1e3).toPrecision(3))}k`;
-  if (a >= 1e-3 && a < 1e5) return trim(v.toPrecision(3));
+  if (a >= 1e9) return v.toExponential(2).replace("e+", "e");
+  if (a >= 1e6) return `${trim((v / 1e6).toPrecision(3))}M`;
+  if (a >= 1e4) return `${trim((v / 1e3).toPrecision(3))}k`;
+  if (a >= 1e3) return String(Math.round(v));
+  if (a >= 1e-3) return trim(v.toPrecision(3));
   return v.toExponential(1).replace("e+", "e");
 }
 

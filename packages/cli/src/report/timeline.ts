@@ -1,3 +1,4 @@
+import { integerInRange, optionsObject } from "@leeway/core";
 import { ACTIONS, CAUSES, PHASES, type Action, type Cause, type Decision, type Phase } from "@leeway/policy";
 
 /** One min/max trace of a numeric evidence field, one entry per bucket (±Infinity where the field was absent). */
@@ -22,7 +23,7 @@ export interface DecisionTransition {
 
 /** Options of {@link TimelineCollector}. */
 export interface TimelineCollectorOptions {
-  /** Most buckets kept (≈ pixel columns of a plot); 64 to 8192, default 1200. */
+  /** Most buckets kept (≈ pixel columns of a plot); 64 to 8192, default 1200 (an odd number is rounded down to even). */
   columns?: number;
   /** Most decision transitions kept for the table (default 400); later ones are counted. */
   transitions?: number;
@@ -67,11 +68,11 @@ export class TimelineCollector {
   #lastDecisionIndex = -1;
 
   constructor(options: TimelineCollectorOptions = {}) {
-    const columns = options.columns ?? 1200;
-    if (!Number.isInteger(columns) || columns < 64 || columns > 8192) throw new RangeError(`TimelineCollector: columns must be an integer in [64, 8192], got ${columns}`);
+    const o = optionsObject<TimelineCollectorOptions>("TimelineCollector", options, ["columns", "transitions", "series"]);
+    const columns = o.columns === undefined ? 1200 : integerInRange("TimelineCollector", "columns", o.columns, 64, 8192);
     this.#columns = columns - (columns % 2);
-    this.#maxTransitions = options.transitions ?? 400;
-    this.#maxSeries = options.series ?? 48;
+    this.#maxTransitions = o.transitions === undefined ? 400 : integerInRange("TimelineCollector", "transitions", o.transitions, 0, 1_000_000);
+    this.#maxSeries = o.series === undefined ? 48 : integerInRange("TimelineCollector", "series", o.series, 1, 1024);
     this.#phaseMask = new Uint8Array(this.#columns);
     this.#causeMask = new Uint8Array(this.#columns);
     this.#actionMask = new Uint8Array(this.#columns);
