@@ -165,6 +165,17 @@ export class Moments {
    * count, mean and population variance so far.
    */
   observe(x: number, weight?: number): MomentsReading {
+    // The common case (finite, unweighted) stays small enough to inline; the rest goes the long way.
+    if (weight === undefined && x - x === 0) this.#take(x, 1);
+    else this.#takeChecked(x, weight);
+    const count = this.#n + this.#bCount;
+    if (count === 0) return { count, mean: Number.NaN, variance: Number.NaN, skipped: this.#skipped };
+    this.#summarise();
+    return { count, mean: this.#out[0] as number, variance: this.#out[2] as number, skipped: this.#skipped };
+  }
+
+  /** Validates the weight, applies the non-finite policy, then takes the sample. */
+  #takeChecked(x: number, weight: number | undefined): void {
     const w = this.#checkWeight(weight);
     if (!Number.isFinite(x) || !Number.isFinite(w)) {
       if (this.#policy === "refuse") throw new NonFiniteError("Moments", Number.isFinite(x) ? "weight" : "x", Number.isFinite(x) ? w : x);
@@ -172,10 +183,6 @@ export class Moments {
     } else {
       this.#take(x, w);
     }
-    const count = this.#n + this.#bCount;
-    if (count === 0) return { count, mean: Number.NaN, variance: Number.NaN, skipped: this.#skipped };
-    this.#summarise();
-    return { count, mean: this.#out[0] as number, variance: this.#out[2] as number, skipped: this.#skipped };
   }
 
   /**

@@ -59,11 +59,11 @@ export interface WindowMomentsState {
  * Method: a ring buffer of the window; shifted running sums
  * S₁ = Σ(x − K), S₂ = Σ(x − K)² updated by adding the new and removing the
  * oldest sample, mean = K + S₁/n, variance = (S₂ − S₁²/n)/n. Every W samples
- * the sums are recomputed from the ring in two passes with K reset to the
- * window mean, so rounding errors cannot accumulate past one window (no drift
- * over 10⁷ samples) and the shift stays near the data; after a level jump
- * (the window mean more than one standard deviation from K) the recomputation
- * comes early, at most once per W/4 samples. Error: the variance is off by at
+ * the sums are recomputed from the ring, so rounding errors cannot accumulate
+ * past one window (no drift over 10⁷ samples); whenever the window mean has
+ * moved more than one standard deviation from K (after a level jump, say), K
+ * is reset to the window mean and the sums recomputed around it, at most once
+ * per W/4 samples. Error: the variance is off by at
  * most about W·ε·R² (ε = 2⁻⁵³, R the range of the last 2W samples), usually
  * far less. Min and max are exact, by the van Herk (1992) / Gil & Werman
  * (1993) block scheme: the running extrema of the current block of W samples
@@ -314,12 +314,17 @@ export class WindowMoments {
       head = head + 1 === width ? 0 : head + 1;
       count++;
       since++;
-      // Recompute every W samples, or early (at most every W/4; looked at every 8th sample) when the window mean has left K by more
-      // than a standard deviation: S₁² > n·S₂/2, and the offset is more than rounding of K itself.
-      if (since === width || (since >= earliest && (since & 7) === 0 && s1 * s1 > 0.5 * size * s2 && Math.abs(s1) > size * 2 ** -40 * Math.abs(k))) {
+      // Every W samples the sums are recomputed from the ring (ending drift); K moves to the window mean
+      // when it has left it by more than a standard deviation: S₁² > n·S₂/2, with the offset more than
+      // rounding of K itself (looked at on every recomputation, and every 8th sample from W/4 samples after one).
+      const due = since === width;
+      if (due || (since >= earliest && (since & 7) === 0)) {
+        const stale = s1 * s1 > 0.5 * size * s2 && Math.abs(s1) > size * 2 ** -40 * Math.abs(k);
+        if (!stale && !due) continue;
         this.#head = head;
         this.#size = size;
-        this.#rebuild();
+        this.#shift = k;
+        this.#rebuild(stale);
         k = this.#shift;
         s1 = this.#sum;
         s2 = this.#sumSq;
@@ -366,18 +371,21 @@ export class WindowMoments {
   }
 
   /**
-   * Recomputes K, S₁ and S₂ from the ring (two passes, oldest sample first so
-   * that a restored ring sums in the same order), ending any drift of the
-   * running sums.
+   * Recomputes S₁ and S₂ from the ring (oldest sample first, so that a
+   * restored ring sums in the same order), ending any drift of the running
+   * sums; with `recentre`, first moves K to the window mean (a second pass).
    */
-  #rebuild(): void {
+  #rebuild(recentre: boolean): void {
     const n = this.#size;
     const ring = this.#ring;
     const start = n === this.#width ? this.#head : 0;
-    let total = 0;
-    for (let i = start; i < n; i++) total += ring[i] as number;
-    for (let i = 0; i < start; i++) total += ring[i] as number;
-    const k = total / n;
+    let k = this.#shift;
+    if (recentre) {
+      let total = 0;
+      for (let i = start; i < n; i++) total += ring[i] as number;
+      for (let i = 0; i < start; i++) total += ring[i] as number;
+      k = total / n;
+    }
     let s1 = 0;
     let s2 = 0;
     for (let i = start; i < n; i++) {
