@@ -320,13 +320,10 @@ export class Cusum implements ChangeTest {
     const statistic = up >= lo ? up : lo;
     const change = this.#upper > this.#hUp || this.#lower > this.#hDown;
     const status = change ? "change" : statistic > this.#warningFraction * this.#h ? "warning" : "stable";
-    const reading: ChangeReading = { index: i, status, statistic, threshold: this.#h, skipped: this.#skipped };
-    if (statistic > 0) {
-      const direction: ChangeDirection = up >= lo ? "up" : "down";
-      reading.direction = direction;
-      reading.onset = (direction === "up" ? this.#upperZero : this.#lowerZero) + 1;
-    }
-    return reading;
+    if (!(statistic > 0)) return { index: i, status, statistic, threshold: this.#h, skipped: this.#skipped };
+    const direction: ChangeDirection = up >= lo ? "up" : "down";
+    const onset = (direction === "up" ? this.#upperZero : this.#lowerZero) + 1;
+    return { index: i, status, statistic, threshold: this.#h, direction, onset, skipped: this.#skipped };
   }
 }
 

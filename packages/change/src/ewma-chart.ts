@@ -316,13 +316,10 @@ export class EwmaChart implements ChangeTest {
     const statistic = watched && spread > 0 ? Math.sqrt((z * z) / (this.#variance * spread)) : 0;
     const change = z * z > (z > 0 ? this.#boundUp : this.#boundDown) * spread;
     const status = change ? "change" : statistic > this.#warningFraction * this.#L ? "warning" : "stable";
-    const reading: ChangeReading = { index: i, status, statistic, threshold: this.#L, skipped: this.#skipped };
-    if (watched) {
-      const direction: ChangeDirection = z > 0 ? "up" : "down";
-      reading.direction = direction;
-      reading.onset = (direction === "up" ? this.#upperZero : this.#lowerZero) + 1;
-    }
-    return reading;
+    if (!watched) return { index: i, status, statistic, threshold: this.#L, skipped: this.#skipped };
+    const direction: ChangeDirection = z > 0 ? "up" : "down";
+    const onset = (direction === "up" ? this.#upperZero : this.#lowerZero) + 1;
+    return { index: i, status, statistic, threshold: this.#L, direction, onset, skipped: this.#skipped };
   }
 }
 

@@ -270,13 +270,10 @@ export class PageHinkley implements ChangeTest {
     const armed = this.#count >= this.#minSamples;
     const change = armed && (this.#upper > this.#lambdaUp || this.#lower > this.#lambdaDown);
     const status = change ? "change" : statistic > this.#warningFraction * this.#threshold ? "warning" : "stable";
-    const reading: ChangeReading = { index: i, status, statistic, threshold: this.#threshold, skipped: this.#skipped };
-    if (statistic > 0) {
-      const direction: ChangeDirection = up >= lo ? "up" : "down";
-      reading.direction = direction;
-      reading.onset = (direction === "up" ? this.#upperZero : this.#lowerZero) + 1;
-    }
-    return reading;
+    if (!(statistic > 0)) return { index: i, status, statistic, threshold: this.#threshold, skipped: this.#skipped };
+    const direction: ChangeDirection = up >= lo ? "up" : "down";
+    const onset = (direction === "up" ? this.#upperZero : this.#lowerZero) + 1;
+    return { index: i, status, statistic, threshold: this.#threshold, direction, onset, skipped: this.#skipped };
   }
 }
 
