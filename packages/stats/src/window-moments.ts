@@ -286,6 +286,7 @@ export class WindowMoments {
         const e = (ring[head] as number) - k; // the oldest sample, leaving
         s1 += d - e;
         s2 += d * d - e * e;
+        if (s2 < 0) s2 = 0; // rounding can take a sum of squares a hair below 0
       } else {
         s1 += d;
         s2 += d * d;
