@@ -1,5 +1,5 @@
 import { spawn } from "node:child_process";
-import { existsSync } from "node:fs";
+import { existsSync, readFileSync } from "node:fs";
 import { fileURLToPath } from "node:url";
 import { describe, expect, it } from "vitest";
 
@@ -61,8 +61,18 @@ function* scoreStream(n: number): Generator<string> {
 }
 
 describe("leeway (spawned)", () => {
-  it("the built command exists", () => {
+  it("the built command exists, and the committed launcher the package's bin points at runs it", async () => {
     expect(existsSync(bin), `${bin} is missing: run tsc -b (npm test does)`).toBe(true);
+    const manifest = JSON.parse(readFileSync(new URL("../../packages/cli/package.json", import.meta.url), "utf8")) as { bin: Record<string, string> };
+    const launcher = fileURLToPath(new URL(`../../packages/cli/${manifest.bin.leeway as string}`, import.meta.url));
+    const version = await new Promise<string>((resolve, reject) => {
+      const child = spawn(process.execPath, [launcher, "--version"]);
+      let out = "";
+      child.stdout.on("data", (c: Buffer) => (out += c.toString()));
+      child.on("error", reject);
+      child.on("close", () => resolve(out));
+    });
+    expect(version).toMatch(/^\d+\.\d+\.\d+\n$/);
   });
 
   it("--version exits 0; an unknown command exits 2; a missing file exits 3", async () => {
