@@ -11,27 +11,29 @@ describe("BlockTrend", () => {
     const w = new WindowTrend({ width: 10 });
     const xs = Array.from({ length: 60 }, (_, i) => Math.sin(i) + i * 0.01);
     for (let i = 0; i < xs.length; i++) {
-      const completed = t.observe(xs[i] as number, true);
+      const completed = t.observe(xs[i] as number);
       expect(completed).toBe(i % 4 === 3);
       if (completed) w.observe(((xs[i - 3] as number) + (xs[i - 2] as number) + (xs[i - 1] as number) + (xs[i] as number)) / 4);
     }
     expect(t.blocks).toBe(w.size);
     expect(t.z).toBe(w.z);
-    expect(t.evidence.slope).toBeCloseTo(w.slope() / 4, 12);
     expect(t.rise).toBeCloseTo((w.slope() / 4) * 9 * 4, 12);
+    expect(t.evidence.slope).toBeCloseTo(w.slope() / 4, 12);
   });
 
   it("reports a rising ramp with a positive z and a rise close to the ramp's", () => {
     const t = new BlockTrend(10, 50);
-    for (let i = 0; i < 500; i++) t.observe(i * 0.002, true);
+    for (let i = 0; i < 500; i++) t.observe(i * 0.002);
     expect(t.z).toBeGreaterThan(5);
     expect(t.rise).toBeCloseTo(0.002 * 49 * 10, 6);
   });
 
-  it("computes the slope only when asked (NaN otherwise)", () => {
+  it("computes the slope only when the rise is asked for (the evidence shows NaN before)", () => {
     const t = new BlockTrend(2, 10);
-    for (let i = 0; i < 20; i++) t.observe(i, () => false);
-    expect(Number.isNaN(t.rise)).toBe(true);
+    for (let i = 0; i < 20; i++) t.observe(i);
+    expect(Number.isNaN(t.evidence.slope)).toBe(true);
+    expect(t.rise).toBeCloseTo(18, 12);
+    expect(t.evidence.slope).toBeCloseTo(1, 12);
     expect(t.lastMean).toBe(18.5);
   });
 
@@ -42,14 +44,16 @@ describe("BlockTrend", () => {
         const a = new BlockTrend(3, 8);
         let b: BlockTrend | null = null;
         xs.forEach((x, i) => {
-          a.observe(x, true);
-          if (b !== null) (b as BlockTrend).observe(x, true);
+          a.observe(x);
+          if (b !== null) (b as BlockTrend).observe(x);
           if (i === Math.min(cut, xs.length - 1)) b = BlockTrend.restore(throughJson(a.snapshot()), 3, 8);
         });
         const more = [1, 2, 3, 4, 5, 6];
         for (const x of more) {
-          a.observe(x, true);
-          (b as unknown as BlockTrend).observe(x, true);
+          a.observe(x);
+          (b as unknown as BlockTrend).observe(x);
+          void a.rise;
+          void (b as unknown as BlockTrend).rise;
         }
         expect((b as unknown as BlockTrend).evidence).toEqual(a.evidence);
       }),
@@ -59,7 +63,7 @@ describe("BlockTrend", () => {
 
   it("refuses corrupted snapshots and a block or width other than the engine's", () => {
     const t = new BlockTrend(3, 8);
-    for (let i = 0; i < 20; i++) t.observe(Math.cos(i), true);
+    for (let i = 0; i < 20; i++) t.observe(Math.cos(i));
     expectRefusesCorruptions((s) => BlockTrend.restore(s, 3, 8), t.snapshot(), { sizePaths: [["block"], ["width"]] });
     expect(() => BlockTrend.restore(throughJson(t.snapshot()), 4, 8)).toThrow(/block/);
   });

@@ -35,12 +35,11 @@ export interface BlockTrendState {
  * few hundred points span hours, and averaging cuts the short-range
  * correlation of score streams that would make the test liberal.
  *
- * The slope costs O(w²) and is computed only when `wantSlope` says the
- * evidence is strong enough to need it.
+ * The slope costs O(w²) and is computed only when a decision needs it.
  *
  * @example
  * const t = new BlockTrend(10, 50);
- * for (let i = 0; i < 500; i++) t.observe(i * 0.001, true);
+ * for (let i = 0; i < 500; i++) t.observe(i * 0.001);
  * t.evidence.z > 3; // true
  */
 export class BlockTrend {
@@ -62,11 +61,8 @@ export class BlockTrend {
     this.#trend = new WindowTrend({ width });
   }
 
-  /**
-   * Adds one sample. Returns true when it completed a block (the evidence
-   * changed). `wantSlope(z)` decides whether the Theil-Sen slope is computed.
-   */
-  observe(x: number, wantSlope: boolean | ((z: number) => boolean)): boolean {
+  /** Adds one sample. Returns true when it completed a block (the evidence changed). */
+  observe(x: number): boolean {
     this.#sum += x;
     this.#filled += 1;
     if (this.#filled < this.#block) return false;
@@ -77,8 +73,7 @@ export class BlockTrend {
     const reading = this.#trend.observe(mean);
     this.#z = Number.isFinite(reading.z) ? reading.z : 0;
     this.#pValue = Number.isFinite(reading.pValue) ? reading.pValue : 1;
-    const need = typeof wantSlope === "boolean" ? wantSlope : wantSlope(this.#z);
-    this.#slope = need && reading.size >= 2 ? this.#trend.slope() / this.#block : null;
+    this.#slope = null;
     return true;
   }
 
@@ -97,15 +92,21 @@ export class BlockTrend {
     return this.#z;
   }
 
-  /** The rise over the window in σ: Theil-Sen slope × span; NaN when the slope was not computed. */
+  /**
+   * The rise over the window in σ: Theil-Sen slope (per sample) × span in
+   * samples. Computed on first use after each block (O(w²)) and kept; NaN
+   * below two blocks.
+   */
   get rise(): number {
-    if (this.#slope === null) return Number.NaN;
-    return this.#slope * Math.max(0, this.#trend.size - 1) * this.#block;
+    if (this.#trend.size < 2) return Number.NaN;
+    if (this.#slope === null) this.#slope = this.#trend.slope() / this.#block;
+    return this.#slope * (this.#trend.size - 1) * this.#block;
   }
 
-  /** The latest evidence as a fresh plain object. */
+  /** The latest evidence as a fresh plain object (slope and rise NaN unless {@link BlockTrend.rise} was needed since the last block). */
   get evidence(): TrendEvidence {
-    return { blocks: this.#trend.size, z: this.#z, pValue: this.#pValue, slope: this.#slope ?? Number.NaN, rise: this.rise };
+    const slope = this.#slope ?? Number.NaN;
+    return { blocks: this.#trend.size, z: this.#z, pValue: this.#pValue, slope, rise: slope * Math.max(0, this.#trend.size - 1) * this.#block };
   }
 
   /** Forgets everything (a new reference, a new mode). */

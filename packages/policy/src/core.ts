@@ -246,12 +246,16 @@ export class DecisionCore {
     this.#normalRun = 0;
 
     // 2. Degradation: long decimated trends of the active reference's score and of the reference-minus-live gap.
-    this.#referenceTrend.observe(zActive, this.#wantSlope);
-    this.#gapTrend.observe(zActive - zLive, this.#wantSlope);
+    this.#referenceTrend.observe(zActive);
+    this.#gapTrend.observe(zActive - zLive);
+    if (this.#phase === "latched") {
+      evidence.trend = this.#referenceTrend.evidence;
+      evidence.gap = { value: zActive - zLive, ...this.#gapTrend.evidence };
+      return this.#decision("hold", this.#latchCause as Cause, evidence);
+    }
+    const strength = this.#degradationStrength();
     evidence.trend = this.#referenceTrend.evidence;
     evidence.gap = { value: zActive - zLive, ...this.#gapTrend.evidence };
-    if (this.#phase === "latched") return this.#decision("hold", this.#latchCause as Cause, evidence);
-    const strength = this.#degradationStrength();
     if (strength === 2 && !this.#episodeAlarmed) return this.#latch("degradation", evidence);
     if (strength >= 1) this.#degradationStanding = true;
     else if (this.#degradationStanding && this.#degradationCleared()) {
@@ -286,9 +290,6 @@ export class DecisionCore {
     return this.#decision("learn", "normal", evidence);
   }
 
-  /** The Theil-Sen slope is needed only once a trend is at least as strong as the clearing level. */
-  readonly #wantSlope = (z: number): boolean => z >= this.settings.trendClearZ;
-
   /**
    * Degradation evidence clears when neither trend is significant any more
    * and the active reference's level (the latest block mean) is back within
@@ -308,11 +309,11 @@ export class DecisionCore {
     // normal data also widens the gap, and that is no fault.
     const referenceRising = this.#referenceTrend.z >= s.trendClearZ;
     for (const t of [this.#referenceTrend, this.#gapTrend]) {
-      if (t.blocks < s.trendMinBlocks) continue;
+      if (t.blocks < s.trendMinBlocks || t.z < s.trendWarnZ) continue;
       if (t === this.#gapTrend && !referenceRising) continue;
-      const rise = t.rise;
+      const rise = t.rise; // the Theil-Sen slope, O(w²), only for a trend this strong
       if (t.z >= s.trendZ && rise >= s.trendMinRise) return 2;
-      if (t.z >= s.trendWarnZ && rise >= s.trendMinRise / 2) strength = 1;
+      if (rise >= s.trendMinRise / 2) strength = 1;
     }
     return strength;
   }
