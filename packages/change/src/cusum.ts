@@ -17,7 +17,7 @@ import type { ChangeDirection, ChangeReading, ChangeSides, ChangeTest } from "./
 import { burnInSigma, burnInStep, emptyBurnIn, readBurnIn, type BurnIn } from "./burn-in.js";
 import { scanStart, sidesOption, warningFractionOption } from "./options.js";
 import { buildFromSnapshot, definedOnly } from "./restore-support.js";
-import { lastZero, positivePart, SCAN_BLOCK } from "./scan-block.js";
+import { lastZero, SCAN_BLOCK } from "./scan-block.js";
 
 /** Options of {@link Cusum}. Give `mean` and `sigma`, or `burnIn` to estimate them. */
 export interface CusumOptions {
@@ -181,8 +181,10 @@ export class Cusum implements ChangeTest {
       return this.#reading(i);
     }
     const z = (x - this.#mean) * this.#invSigma;
-    const up = positivePart(this.#upper + (z - this.#k));
-    const lo = positivePart(this.#lower + (-z - this.#k));
+    const upRaw = this.#upper + (z - this.#k);
+    const up = (upRaw + Math.abs(upRaw)) * 0.5; // max(0, ·) without a branch
+    const loRaw = this.#lower + (-z - this.#k);
+    const lo = (loRaw + Math.abs(loRaw)) * 0.5; // max(0, ·) without a branch
     if (up === 0) this.#upperZero = i;
     if (lo === 0) this.#lowerZero = i;
     this.#upper = up;
@@ -349,17 +351,20 @@ function cusumLoop(xs: Float64Array, from: number, s: Float64Array, upSums: Floa
   let idx = s[LOOP.idx] as number; // stream index of xs[j]
   let skipped = s[LOOP.skipped] as number;
   const n = xs.length;
+  const block = upSums.length;
   let j = from;
   let found = -1;
   while (j < n) {
     const blockStart = j;
-    const end = Math.min(n, j + SCAN_BLOCK);
+    const end = Math.min(n, j + block);
     for (; j < end; j++) {
       const x = xs[j] as number;
       if (!(x - x === 0)) break;
       const z = (x - mu) * inv;
-      up = positivePart(up + (z - k));
-      lo = positivePart(lo + (-z - k));
+      const upRaw = up + (z - k);
+      up = (upRaw + Math.abs(upRaw)) * 0.5; // max(0, ·) without a branch
+      const loRaw = lo + (-z - k);
+      lo = (loRaw + Math.abs(loRaw)) * 0.5; // max(0, ·) without a branch
       upSums[j - blockStart] = up;
       lowSums[j - blockStart] = lo;
       if (up > hUp || lo > hDown) {

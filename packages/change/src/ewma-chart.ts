@@ -347,11 +347,12 @@ function ewmaLoop(xs: Float64Array, from: number, s: Float64Array, zs: Float64Ar
   let idx = s[LOOP.idx] as number; // stream index of xs[blockStart]
   let skipped = s[LOOP.skipped] as number;
   const n = xs.length;
+  const block = zs.length;
   let j = from;
   let found = -1;
   while (j < n) {
     const blockStart = j;
-    const end = Math.min(n, j + SCAN_BLOCK);
+    const end = Math.min(n, j + block);
     for (; j < end; j++) {
       const x = xs[j] as number;
       if (!(x - x === 0)) break;

@@ -15,7 +15,7 @@ import {
 import type { ChangeDirection, ChangeReading, ChangeSides, ChangeTest } from "./change-test.js";
 import { scanStart, sidesOption, warningFractionOption } from "./options.js";
 import { buildFromSnapshot, definedOnly } from "./restore-support.js";
-import { lastZero, positivePart, SCAN_BLOCK } from "./scan-block.js";
+import { lastZero, SCAN_BLOCK } from "./scan-block.js";
 
 /** Options of {@link PageHinkley}. */
 export interface PageHinkleyOptions {
@@ -153,8 +153,10 @@ export class PageHinkley implements ChangeTest {
     const runMean = this.#runningMean + (x - this.#runningMean) * r;
     this.#runningMean = runMean;
     const d = x - (this.#knownMean === null ? runMean : this.#knownMean);
-    const up = positivePart(this.#upper + (d - this.#delta));
-    const lo = positivePart(this.#lower + (-d - this.#delta));
+    const upRaw = this.#upper + (d - this.#delta);
+    const up = (upRaw + Math.abs(upRaw)) * 0.5; // max(0, ·) without a branch
+    const loRaw = this.#lower + (-d - this.#delta);
+    const lo = (loRaw + Math.abs(loRaw)) * 0.5; // max(0, ·) without a branch
     if (up === 0) this.#upperZero = i;
     if (lo === 0) this.#lowerZero = i;
     this.#upper = up;
@@ -306,11 +308,12 @@ function pageHinkleyLoop(xs: Float64Array, from: number, s: Float64Array, upSums
   let idx = s[LOOP.idx] as number; // stream index of xs[blockStart]
   let skipped = s[LOOP.skipped] as number;
   const n = xs.length;
+  const block = upSums.length;
   let j = from;
   let found = -1;
   while (j < n) {
     const blockStart = j;
-    const end = Math.min(n, j + SCAN_BLOCK);
+    const end = Math.min(n, j + block);
     // finite samples taken so far, before xs[blockStart]
     const countBefore = idx - skipped - blockStart;
     for (; j < end; j++) {
@@ -321,8 +324,10 @@ function pageHinkleyLoop(xs: Float64Array, from: number, s: Float64Array, upSums
       const r = 1 / w;
       runMean = runMean + (x - runMean) * r;
       const d = x - (known ? mu0 : runMean);
-      up = positivePart(up + (d - delta));
-      lo = positivePart(lo + (-d - delta));
+      const upRaw = up + (d - delta);
+      up = (upRaw + Math.abs(upRaw)) * 0.5; // max(0, ·) without a branch
+      const loRaw = lo + (-d - delta);
+      lo = (loRaw + Math.abs(loRaw)) * 0.5; // max(0, ·) without a branch
       upSums[j - blockStart] = up;
       lowSums[j - blockStart] = lo;
       if ((up > lamUp || lo > lamDown) && countBefore + j + 1 >= minSamples) {

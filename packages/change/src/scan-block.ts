@@ -5,10 +5,9 @@
  */
 export const SCAN_BLOCK = 256;
 
-/** max(a, 0) without a branch: (a + |a|)/2, exact for every finite a (and +0 for a ≤ 0). */
-export function positivePart(a: number): number {
-  return (a + Math.abs(a)) * 0.5;
-}
+// The loops write max(a, 0) as (a + |a|)/2: no branch, exact for every finite a (+0 for a ≤ 0).
+// They write it inline, because a call through an imported binding can cost a getter per sample
+// where modules are loaded by a bundler's runtime.
 
 /** The last position q < length with values[q] === 0, or −1. */
 export function lastZero(values: Float64Array, length: number): number {
