@@ -136,6 +136,17 @@ describe("EwMoments", () => {
     expect(skip.count).toBe(3);
   });
 
+  it("samples beyond |x| = 1e100 fall under the non-finite policy, in both paths", () => {
+    const a = new EwMoments({ alpha: 0.5 });
+    expectLeewayError(() => a.observe(-1e101), "E_NON_FINITE", "|x| <= 1e+100");
+    expectLeewayError(() => a.observeMany(Float64Array.from([1, 1e200])), "E_NON_FINITE", "1e+200");
+    expect(a.count).toBe(1);
+    const skip = new EwMoments({ ...{ alpha: 0.5 }, nonFinite: "skip" });
+    skip.observeMany(Float64Array.from([1, 1e300, 3]));
+    expect(skip.skipped).toBe(1);
+    expect(skip.count).toBe(2);
+  });
+
   it("rejects each bad option with E_OPTION naming it", () => {
     expectLeewayError(() => new EwMoments({}), "E_OPTION", "halfLife", "alpha");
     expectLeewayError(() => new EwMoments({ halfLife: 3, alpha: 0.2 }), "E_OPTION", "exactly one");

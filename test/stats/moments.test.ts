@@ -171,6 +171,20 @@ describe("Moments", () => {
     expectLeewayError(() => new Moments({ weighted: true }).observe(1, Infinity), "E_NON_FINITE", "weight");
   });
 
+  it("samples beyond |x| = 1e100 (whose squares could overflow) fall under the non-finite policy, in both paths", () => {
+    const m = new Moments();
+    expectLeewayError(() => m.observe(1e101), "E_NON_FINITE", "|x| <= 1e+100", "1e+101");
+    expectLeewayError(() => m.observeMany(Float64Array.from([1, 2, -1e200])), "E_NON_FINITE", "-1e+200");
+    expect(m.count).toBe(2);
+    m.observe(-1e100);
+    expect(m.min).toBe(-1e100);
+    const skip = new Moments({ nonFinite: "skip" });
+    skip.observeMany(Float64Array.from([1, 1e300, 3]));
+    expect(skip.skipped).toBe(1);
+    expect(skip.mean).toBe(2);
+    expectLeewayError(() => new Moments({ weighted: true }).observe(1, 1e60), "E_NON_FINITE", "weight", "1e+60");
+  });
+
   it("rejects each bad option and bad weight with E_OPTION naming it", () => {
     expectLeewayError(() => new Moments({ weighted: 1 as unknown as boolean }), "E_OPTION", "weighted", "1");
     expectLeewayError(() => new Moments({ nonFinite: "ignore" as "skip" }), "E_OPTION", "nonFinite", "ignore");

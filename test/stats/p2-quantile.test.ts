@@ -97,6 +97,17 @@ describe("P2Quantile", () => {
     expect(skip.observe(-Infinity)).toMatchObject({ count: 6, skipped: 2 });
   });
 
+  it("samples beyond |x| = 1e100 fall under the non-finite policy, in both paths", () => {
+    const a = new P2Quantile({ p: 0.5 });
+    expectLeewayError(() => a.observe(-1e101), "E_NON_FINITE", "|x| <= 1e+100");
+    expectLeewayError(() => a.observeMany(Float64Array.from([1, 1e200])), "E_NON_FINITE", "1e+200");
+    expect(a.count).toBe(1);
+    const skip = new P2Quantile({ ...{ p: 0.5 }, nonFinite: "skip" });
+    skip.observeMany(Float64Array.from([1, 1e300, 3]));
+    expect(skip.skipped).toBe(1);
+    expect(skip.count).toBe(2);
+  });
+
   it("rejects each bad option with E_OPTION naming it", () => {
     expectLeewayError(() => new P2Quantile({ p: 0 }), "E_OPTION", "p", "(0, 1)");
     expectLeewayError(() => new P2Quantile({ p: 1 }), "E_OPTION", "p", "1");

@@ -122,6 +122,17 @@ describe("WindowMoments", () => {
     expect(skip.sampleVariance).toBe(1);
   });
 
+  it("samples beyond |x| = 1e100 fall under the non-finite policy, in both paths", () => {
+    const a = new WindowMoments({ width: 4 });
+    expectLeewayError(() => a.observe(-1e101), "E_NON_FINITE", "|x| <= 1e+100");
+    expectLeewayError(() => a.observeMany(Float64Array.from([1, 1e200])), "E_NON_FINITE", "1e+200");
+    expect(a.count).toBe(1);
+    const skip = new WindowMoments({ ...{ width: 4 }, nonFinite: "skip" });
+    skip.observeMany(Float64Array.from([1, 1e300, 3]));
+    expect(skip.skipped).toBe(1);
+    expect(skip.count).toBe(2);
+  });
+
   it("rejects each bad option with E_OPTION naming it", () => {
     expectLeewayError(() => new WindowMoments({ width: 0 }), "E_OPTION", "width", "0");
     expectLeewayError(() => new WindowMoments({ width: 2.5 }), "E_OPTION", "width", "2.5");

@@ -1,4 +1,4 @@
-import { acceptSample, runBatch } from "./samples.js";
+import { acceptSample, MAX_SAMPLE_MAGNITUDE, runBatch } from "./samples.js";
 import {
   envelope,
   nonFiniteOption,
@@ -128,7 +128,7 @@ export class EwMoments {
 
   /** Takes one sample; returns the weighted mean and variance so far. */
   observe(x: number): EwMomentsReading {
-    if (acceptSample("EwMoments", this.#policy, x)) {
+    if (acceptSample("EwMoments", this.#policy, x, MAX_SAMPLE_MAGNITUDE)) {
       const weight = this.#lambda * this.#weight + 1; // W ← λW + 1
       const r = 1 / weight;
       const old = this.#mean;
@@ -169,7 +169,7 @@ export class EwMoments {
     const len = xs.length;
     while (i < len && lambda * weight + 1 !== weight) {
       const x = xs[i] as number;
-      if (!(x - x === 0)) break; // NaN or ±Infinity
+      if (!(Math.abs(x) <= MAX_SAMPLE_MAGNITUDE)) break; // NaN, ±Infinity or too large to square
       const w = lambda * weight + 1; // W ← λW + 1
       const r = 1 / w;
       const m = (1 - r) * mean + r * x;
@@ -184,7 +184,7 @@ export class EwMoments {
       const c = 1 - r;
       for (; i < len; i++) {
         const x = xs[i] as number;
-        if (!(x - x === 0)) break;
+        if (!(Math.abs(x) <= MAX_SAMPLE_MAGNITUDE)) break;
         const m = c * mean + r * x; // x̄ ← (1 − r)x̄ + r·x
         const p = (x - mean) * (x - m); // (x − x̄_old)(x − x̄_new)
         s = lambda * s + (p > 0 ? p : 0); // S ← λS + p

@@ -1,3 +1,4 @@
+import { acceptSample, MAX_SAMPLE_MAGNITUDE } from "./samples.js";
 import {
   booleanOption,
   DimensionError,
@@ -43,6 +44,16 @@ export interface MomentsState {
   min: number | null;
   max: number | null;
   skipped: number;
+}
+
+/** The largest weight taken: w·(x − K)² stays far from overflow for |x| ≤ 1e100. */
+export const MAX_WEIGHT = 1e50;
+
+/** The non-finite policy for a weight (the sample itself passed). */
+function acceptWeight(policy: NonFinitePolicy, w: number): boolean {
+  if (Number.isFinite(w) && w <= MAX_WEIGHT) return true;
+  if (policy === "refuse") throw new NonFiniteError("Moments", Number.isFinite(w) ? `weight (<= ${MAX_WEIGHT})` : "weight", w);
+  return false;
 }
 
 /** Samples per shifted block before it is merged into the running moments. */
@@ -166,7 +177,7 @@ export class Moments {
    */
   observe(x: number, weight?: number): MomentsReading {
     // The common case (finite, unweighted) stays small enough to inline; the rest goes the long way.
-    if (weight === undefined && x - x === 0) this.#take(x, 1);
+    if (weight === undefined && Math.abs(x) <= MAX_SAMPLE_MAGNITUDE) this.#take(x, 1);
     else this.#takeChecked(x, weight);
     const count = this.#n + this.#bCount;
     if (count === 0) return { count, mean: Number.NaN, variance: Number.NaN, skipped: this.#skipped };
@@ -177,12 +188,8 @@ export class Moments {
   /** Validates the weight, applies the non-finite policy, then takes the sample. */
   #takeChecked(x: number, weight: number | undefined): void {
     const w = this.#checkWeight(weight);
-    if (!Number.isFinite(x) || !Number.isFinite(w)) {
-      if (this.#policy === "refuse") throw new NonFiniteError("Moments", Number.isFinite(x) ? "weight" : "x", Number.isFinite(x) ? w : x);
-      this.#skipped++;
-    } else {
-      this.#take(x, w);
-    }
+    if (acceptSample("Moments", this.#policy, x, MAX_SAMPLE_MAGNITUDE) && acceptWeight(this.#policy, w)) this.#take(x, w);
+    else this.#skipped++;
   }
 
   /**
@@ -222,8 +229,8 @@ export class Moments {
         i++;
         if (--left === 0) break;
       }
-      if (!Number.isFinite(s1) || !Number.isFinite(s2)) {
-        // A non-finite sample (or an overflow) in this run: redo it one by one,
+      if (!(Number.isFinite(s1) && Number.isFinite(s2) && lo >= -MAX_SAMPLE_MAGNITUDE && hi <= MAX_SAMPLE_MAGNITUDE)) {
+        // A non-finite or too large sample in this run: redo it one by one,
         // which refuses or skips exactly where `observe` would.
         for (let j = start; j < i; j++) this.observe(xs[j] as number);
         continue;

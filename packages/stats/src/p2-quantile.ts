@@ -1,4 +1,4 @@
-import { acceptSample, runBatch } from "./samples.js";
+import { acceptSample, MAX_SAMPLE_MAGNITUDE, runBatch } from "./samples.js";
 import {
   envelope,
   nonFiniteOption,
@@ -122,7 +122,7 @@ export class P2Quantile {
 
   /** Takes one sample; returns the estimate. */
   observe(x: number): P2QuantileReading {
-    if (acceptSample("P2Quantile", this.#policy, x)) {
+    if (acceptSample("P2Quantile", this.#policy, x, MAX_SAMPLE_MAGNITUDE)) {
       this.#one[0] = x;
       this.#run(this.#one);
     } else {
@@ -192,7 +192,7 @@ export class P2Quantile {
     let i = 0;
     for (; count < 5 && i < xs.length; i++) {
       const x = (xs[i] as number) + 0; // + 0 turns −0 into 0, as JSON would
-      if (!(x - x === 0)) {
+      if (!(Math.abs(x) <= MAX_SAMPLE_MAGNITUDE)) {
         this.#count = count;
         return i;
       }
@@ -214,7 +214,7 @@ export class P2Quantile {
     let n4 = n[4] as number;
     for (; i < xs.length; i++) {
       const x = (xs[i] as number) + 0;
-      if (!(x - x === 0)) break; // NaN or ±Infinity
+      if (!(Math.abs(x) <= MAX_SAMPLE_MAGNITUDE)) break; // NaN, ±Infinity or too large to square
       // The cell k with q_k ≤ x < q_{k+1} (extremes widened): every marker above it moves up one position.
       if (x < q1) {
         if (x < q0) q0 = x;

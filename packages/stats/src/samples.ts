@@ -1,13 +1,21 @@
 import { NonFiniteError, type NonFinitePolicy } from "@leeway/core";
 
 /**
- * The non-finite policy for one sample: true when `x` is finite (take it),
- * false when it is to be skipped (and counted by the caller) under
- * `"skip"`; throws {@link NonFiniteError} naming `component` under `"refuse"`.
+ * The largest |x| the moment accumulators take: squares of larger samples
+ * (and sums of them) could overflow to Infinity. Larger samples fall under
+ * the non-finite policy.
  */
-export function acceptSample(component: string, policy: NonFinitePolicy, x: number): boolean {
-  if (Number.isFinite(x)) return true;
-  if (policy === "refuse") throw new NonFiniteError(component, "x", x);
+export const MAX_SAMPLE_MAGNITUDE = 1e100;
+
+/**
+ * The non-finite policy for one sample: true when `x` is finite (and, with a
+ * `limit`, |x| ≤ limit): take it; false when it is to be skipped (and
+ * counted by the caller) under `"skip"`; throws {@link NonFiniteError}
+ * naming `component` under `"refuse"`.
+ */
+export function acceptSample(component: string, policy: NonFinitePolicy, x: number, limit = Infinity): boolean {
+  if (Math.abs(x) <= limit && Number.isFinite(x)) return true;
+  if (policy === "refuse") throw new NonFiniteError(component, Number.isFinite(x) ? `x (|x| <= ${limit})` : "x", x);
   return false;
 }
 

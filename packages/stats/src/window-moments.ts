@@ -1,4 +1,4 @@
-import { acceptSample, runBatch } from "./samples.js";
+import { acceptSample, MAX_SAMPLE_MAGNITUDE, runBatch } from "./samples.js";
 import {
   envelope,
   nonFiniteOption,
@@ -179,7 +179,7 @@ export class WindowMoments {
 
   /** Takes one sample; returns the window's moments. */
   observe(x: number): WindowMomentsReading {
-    if (acceptSample("WindowMoments", this.#policy, x)) {
+    if (acceptSample("WindowMoments", this.#policy, x, MAX_SAMPLE_MAGNITUDE)) {
       this.#one[0] = x;
       this.#run(this.#one);
     } else {
@@ -279,7 +279,7 @@ export class WindowMoments {
     let i = 0;
     for (; i < xs.length; i++) {
       const x = (xs[i] as number) + 0; // + 0 turns −0 into 0, as JSON would
-      if (!(x - x === 0)) break; // NaN or ±Infinity
+      if (!(Math.abs(x) <= MAX_SAMPLE_MAGNITUDE)) break; // NaN, ±Infinity or too large to square
       if (count === 0) k = x;
       const d = x - k; // d = x − K
       if (size === width) {
