@@ -212,7 +212,9 @@ function actionMarkers(t: ReportTimeline, x: XAxis, top: number): string {
     const causes = t.causeMask[b] as number;
     const cause = MARKER_CAUSE_ORDER.find((c) => (causes & (1 << CAUSES.indexOf(c))) !== 0) ?? "normal";
     const xm = x.bucketMid(b);
-    out.push(`<path class="marker" data-action="${action}" data-cause="${cause}" d="M${px(xm - 4)} ${top - 12}L${px(xm + 4)} ${top - 12}L${px(xm)} ${top - 3}Z" fill="${CAUSE_COLOURS[cause]}"/>`);
+    const first = t.bucketIndex[b] as number;
+    const span = t.bucketWidth === 1 ? `sample ${first}` : `samples ${first}–${first + t.bucketWidth - 1}`;
+    out.push(`<path class="marker" data-action="${action}" data-cause="${cause}" d="M${px(xm - 4)} ${top - 12}L${px(xm + 4)} ${top - 12}L${px(xm)} ${top - 3}Z" fill="${CAUSE_COLOURS[cause]}"><title>${action} (${cause}), ${span}</title></path>`);
   }
   return out.join("");
 }
@@ -270,7 +272,7 @@ export function eventStrip(t: ReportTimeline, events: readonly ReportEvent[], id
     const x1 = Math.max(x0 + 2, x.ofIndex(e.end));
     const y0 = top + row * lane + 2;
     const label = e.label ?? e.id ?? e.type ?? e.cause;
-    body.push(`<rect class="event" data-cause="${e.cause}" x="${px(x0)}" y="${y0}" width="${px(x1 - x0)}" height="${lane - 4}" fill="${EVENT_COLOURS[e.cause]}" fill-opacity="0.28" stroke="${EVENT_COLOURS[e.cause]}" stroke-width="1"/>`);
+    body.push(`<rect class="event" data-cause="${e.cause}" x="${px(x0)}" y="${y0}" width="${px(x1 - x0)}" height="${lane - 4}" fill="${EVENT_COLOURS[e.cause]}" fill-opacity="0.28" stroke="${EVENT_COLOURS[e.cause]}" stroke-width="1"><title>${escapeXml(`${label}: ${e.cause}, samples ${e.start}–${e.end - 1}`)}</title></rect>`);
     body.push(`<text x="${px(x0 + 3)}" y="${y0 + lane - 9}" class="event-label">${escapeXml(`${label} (${e.cause})`)}</text>`);
   }
   body.push(`<rect x="${LEFT}" y="${top}" width="${INNER}" height="${bottom - top}" fill="none" stroke="${MUTED}" stroke-width="0.8"/>`);
