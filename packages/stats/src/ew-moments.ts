@@ -18,7 +18,7 @@ export interface EwMomentsOptions {
   halfLife?: number;
   /** Smoothing factor α in (0, 1]: the weight of the newest sample once warmed up. */
   alpha?: number;
-  /** What to do with NaN or ±Infinity samples: `"refuse"` (default) throws, `"skip"` counts them. */
+  /** What to do with NaN, ±Infinity or |x| > 1e100 (whose squares could overflow): `"refuse"` (default) throws, `"skip"` counts them. */
   nonFinite?: NonFinitePolicy;
 }
 

@@ -17,7 +17,7 @@ import {
 export interface MomentsOptions {
   /** Accept a weight per sample (frequency weights, each > 0). Default false: every weight is 1. */
   weighted?: boolean;
-  /** What to do with NaN or ±Infinity samples (and weights): `"refuse"` (default) throws, `"skip"` counts them. */
+  /** What to do with NaN, ±Infinity or |x| > 1e100 samples (and non-finite weights or weights > 1e50): `"refuse"` (default) throws, `"skip"` counts them. */
   nonFinite?: NonFinitePolicy;
 }
 

@@ -15,7 +15,7 @@ import {
 export interface P2QuantileOptions {
   /** The quantile to track, p in (0, 1) (0.99 for the 99th percentile). */
   p: number;
-  /** What to do with NaN or ±Infinity samples: `"refuse"` (default) throws, `"skip"` counts them. */
+  /** What to do with NaN, ±Infinity or |x| > 1e100 (whose squares could overflow): `"refuse"` (default) throws, `"skip"` counts them. */
   nonFinite?: NonFinitePolicy;
 }
 

@@ -16,7 +16,7 @@ import {
 export interface WindowMomentsOptions {
   /** W: the number of most recent samples described (an integer ≥ 1). */
   width: number;
-  /** What to do with NaN or ±Infinity samples: `"refuse"` (default) throws, `"skip"` counts them. */
+  /** What to do with NaN, ±Infinity or |x| > 1e100 (whose squares could overflow): `"refuse"` (default) throws, `"skip"` counts them. */
   nonFinite?: NonFinitePolicy;
 }
 
