@@ -33,17 +33,12 @@ describe("the demo's report in a real browser", () => {
       });
       await page.goto(pathToFileURL(join(dir, "report.html")).href, { waitUntil: "load" });
 
-      const plots = await page.evaluate(() =>
-        [...document.querySelectorAll("figure.plot")].map((figure) => {
-          const marks = [...figure.querySelectorAll("svg path.trace, svg rect.cause-mark, svg rect.event, svg path.marker")] as SVGGraphicsElement[];
-          const drawn = marks.filter((m) => {
-            const box = m.getBBox();
-            return box.width > 0 || box.height > 0;
-          });
-          const svg = figure.querySelector("svg") as SVGSVGElement;
-          return { id: figure.id, marks: marks.length, drawn: drawn.length, width: svg.getBoundingClientRect().width };
-        }),
-      );
+      // Runs in the page (a string, as the tests are type-checked without the DOM library).
+      const plots = (await page.evaluate(`[...document.querySelectorAll("figure.plot")].map((figure) => {
+        const marks = [...figure.querySelectorAll("svg path.trace, svg rect.cause-mark, svg rect.event, svg path.marker")];
+        const drawn = marks.filter((m) => { const box = m.getBBox(); return box.width > 0 || box.height > 0; });
+        return { id: figure.id, marks: marks.length, drawn: drawn.length, width: figure.querySelector("svg").getBoundingClientRect().width };
+      })`)) as { id: string; marks: number; drawn: number; width: number }[];
       expect(plots.map((p) => p.id)).toEqual(expect.arrayContaining(["plot-scores", "plot-causes", "plot-events"]));
       for (const p of plots) {
         expect(p.drawn, `${p.id} draws nothing`).toBeGreaterThan(0);
