@@ -340,8 +340,8 @@ export class OselmAutoencoder {
   }
 
   /**
-   * Learns k rows at once by the Woodbury identity (one k × k Cholesky solve);
-   * the result equals k calls of `learn` in order. With λ < 1, when the trace
+   * Learns k rows at once by the Woodbury identity (one k × k Cholesky solve;
+   * for k = 1 the Sherman–Morrison step); the result equals k calls of `learn` in order. With λ < 1, when the trace
    * bound could bind inside the chunk (trace(P)·λ^(−k) above it), the rows are
    * learnt one by one instead so that the bound is applied exactly as `learn`
    * does. Returns the number of rows learnt.
@@ -362,7 +362,8 @@ export class OselmAutoencoder {
     }
     this.#skipped += skipped;
     if (k === 0) return 0;
-    if (this.#forgetting < 1 && this.#trace() * Math.pow(this.#forgetting, -k) > this.#traceBound) {
+    // one row: Woodbury with k = 1 is the Sherman–Morrison step
+    if (k === 1 || (this.#forgetting < 1 && this.#trace() * Math.pow(this.#forgetting, -k) > this.#traceBound)) {
       for (let r = 0; r < k; r++) {
         this.#z.set(zRows.subarray(r * n, (r + 1) * n));
         hiddenForward(this.#layer, this.#activation, this.#z, this.#h);
