@@ -62,8 +62,6 @@ export interface AdwinState {
   bucketM2: number[];
   width: number;
   total: number;
-  windowMean: number;
-  m2: number;
   sinceCheck: number;
   statistic: number;
   count: number;
@@ -112,9 +110,7 @@ export class Adwin implements ChangeTest {
   readonly #levelCounts: Int32Array;
   #levels = 0; // levels in use
   #width = 0; // W, samples in the window
-  #total = 0; // Σ of the window
-  #windowMean = 0; // μ̂_W, kept by Welford's update (the mean reported is #total/W, exact on integers)
-  #m2 = 0; // Σ (x − μ̂_W)² of the window
+  #total = 0; // Σ of the window (its mean is #total/W, exact on integers)
   #sinceCheck = 0;
   #statistic = 0;
   #count = 0;
@@ -153,7 +149,7 @@ export class Adwin implements ChangeTest {
   }
   /** Population variance of the window (0 when empty). */
   get variance(): number {
-    return this.#width > 0 ? Math.max(0, this.#m2 / this.#width) : 0;
+    return this.#width > 0 ? this.#windowM2() / this.#width : 0;
   }
   /** Buckets held (memory is proportional to it). */
   get bucketCount(): number {
@@ -200,8 +196,6 @@ export class Adwin implements ChangeTest {
     this.#levels = 0;
     this.#width = 0;
     this.#total = 0;
-    this.#windowMean = 0;
-    this.#m2 = 0;
     this.#sinceCheck = 0;
     this.#statistic = 0;
   }
@@ -232,8 +226,6 @@ export class Adwin implements ChangeTest {
       bucketM2,
       width: this.#width,
       total: this.#total,
-      windowMean: this.#windowMean,
-      m2: this.#m2,
       sinceCheck: this.#sinceCheck,
       statistic: this.#statistic,
       count: this.#count,
@@ -260,8 +252,6 @@ export class Adwin implements ChangeTest {
     const skipped = r.integer("skipped", 0, Number.MAX_SAFE_INTEGER);
     const width = r.integer("width", 0, count);
     const total = r.number("total");
-    const windowMean = r.number("windowMean");
-    const m2 = r.numberIn("m2", 0, Number.MAX_VALUE);
     const sinceCheck = r.integer("sinceCheck", 0, checkPeriod - 1);
     const statistic = r.numberIn("statistic", 0, Number.MAX_VALUE);
     let implied = 0;
@@ -281,8 +271,6 @@ export class Adwin implements ChangeTest {
     test.#levels = levelCounts.length;
     test.#width = width;
     test.#total = total;
-    test.#windowMean = windowMean;
-    test.#m2 = m2;
     test.#sinceCheck = sinceCheck;
     test.#statistic = statistic;
     test.#count = count;
@@ -311,14 +299,10 @@ export class Adwin implements ChangeTest {
     return cut;
   }
 
-  /** Welford update of the window and a new bucket of size 1, then the histogram's merges. */
+  /** A new bucket of size 1, then the histogram's merges. */
   #insert(x: number): void {
-    const w = this.#width + 1;
-    const d = x - this.#windowMean;
-    this.#windowMean += d / w;
-    this.#m2 += d * (x - this.#windowMean);
     this.#total += x;
-    this.#width = w;
+    this.#width += 1;
     const cap = this.#cap;
     const counts = this.#levelCounts;
     const totals = this.#totals;
@@ -358,23 +342,8 @@ export class Adwin implements ChangeTest {
     const base = top * this.#cap;
     const nb = 2 ** top;
     const tb = this.#totals[base] as number;
-    const m2b = this.#m2s[base] as number;
-    const w = this.#width;
-    const rest = w - nb;
-    if (rest === 0) {
-      this.#total = 0;
-      this.#windowMean = 0;
-      this.#m2 = 0;
-    } else {
-      // Chan, Golub & LeVeque (1979), run backwards: M₂ = M₂,rest + M₂,b + d²·n_rest·n_b/n
-      const meanRest = (this.#total - tb) / rest;
-      const meanB = tb / nb;
-      const d = meanB - meanRest;
-      const m2 = this.#m2 - m2b - (d * d * rest * nb) / w;
-      this.#m2 = m2 > 0 ? m2 : 0;
-      this.#total -= tb;
-      this.#windowMean = meanRest;
-    }
+    const rest = this.#width - nb;
+    this.#total = rest === 0 ? 0 : this.#total - tb;
     this.#width = rest;
     const c = this.#levelCounts[top] as number;
     for (let b = 1; b < c; b++) {
@@ -395,7 +364,7 @@ export class Adwin implements ChangeTest {
     this.#statistic = 0;
     if (w < 2 * minSub) return 0;
     const total = this.#total;
-    const variance = this.#m2 > 0 ? this.#m2 / w : 0;
+    const variance = this.#bound === "hoeffding" ? 0 : this.#windowM2() / w;
     const hoeffding = this.#bound === "hoeffding";
     // ln(2/δ′) or ln(4/δ′) with δ′ = δ/W
     const logTerm = Math.log(((hoeffding ? 4 : 2) * w) / this.#delta);
@@ -434,6 +403,28 @@ export class Adwin implements ChangeTest {
     }
     this.#statistic = best;
     return 0;
+  }
+
+  /**
+   * M₂ of the window from its buckets (Chan, Golub & LeVeque, 1979): Σ_b [M₂,b + n_b·(μ_b − μ_W)²],
+   * computed at check time so that no division sits on the per-sample path.
+   */
+  #windowM2(): number {
+    const w = this.#width;
+    if (w === 0) return 0;
+    const mean = this.#total / w;
+    const cap = this.#cap;
+    let m2 = 0;
+    let size = 1;
+    for (let l = 0; l < this.#levels; l++, size *= 2) {
+      const inv = 1 / size; // a power of two: exact
+      const c = this.#levelCounts[l] as number;
+      for (let b = 0; b < c; b++) {
+        const d = (this.#totals[l * cap + b] as number) * inv - mean;
+        m2 += (this.#m2s[l * cap + b] as number) + size * d * d;
+      }
+    }
+    return m2;
   }
 
   #reading(i: number, cut: boolean): AdwinReading {
