@@ -12,6 +12,10 @@ import {
   type Snapshot,
 } from "@leeway/core";
 
+
+// Module-local copies: hot loops read them as plain bindings, whatever the module loader does with imports.
+const SAMPLE_LIMIT = MAX_SAMPLE_MAGNITUDE;
+const accept = acceptSample;
 /** Options of {@link EwMoments}: give exactly one of `halfLife` and `alpha`. */
 export interface EwMomentsOptions {
   /** Samples after which a sample's weight has halved (> 0); α = 1 − 2^(−1/halfLife). */
@@ -128,20 +132,23 @@ export class EwMoments {
 
   /** Takes one sample; returns the weighted mean and variance so far. */
   observe(x: number): EwMomentsReading {
-    if (acceptSample("EwMoments", this.#policy, x, MAX_SAMPLE_MAGNITUDE)) {
-      const weight = this.#lambda * this.#weight + 1; // W ← λW + 1
+    if (Math.abs(x) <= SAMPLE_LIMIT) {
+      const lambda = this.#lambda;
+      const weight = lambda * this.#weight + 1; // W ← λW + 1
       const r = 1 / weight;
       const old = this.#mean;
       const mean = (1 - r) * old + r * x; // x̄ ← (1 − r)x̄ + r·x
       // S ← λS + (x − x̄_old)(x − x̄_new); the product can round to −ulp², so it is taken ≥ 0.
       const p = (x - old) * (x - mean);
-      this.#s = this.#lambda * this.#s + (p > 0 ? p : 0);
+      const s = lambda * this.#s + (p > 0 ? p : 0);
+      this.#s = s;
       this.#mean = mean;
       this.#weight = weight;
       this.#count++;
-    } else {
-      this.#skipped++;
+      return { count: this.#count, mean, variance: s / weight, skipped: this.#skipped };
     }
+    accept("EwMoments", this.#policy, x, SAMPLE_LIMIT); // throws under "refuse"
+    this.#skipped++;
     return { count: this.#count, mean: this.mean, variance: this.variance, skipped: this.#skipped };
   }
 
@@ -169,7 +176,7 @@ export class EwMoments {
     const len = xs.length;
     while (i < len && lambda * weight + 1 !== weight) {
       const x = xs[i] as number;
-      if (!(Math.abs(x) <= MAX_SAMPLE_MAGNITUDE)) break; // NaN, ±Infinity or too large to square
+      if (!(Math.abs(x) <= SAMPLE_LIMIT)) break; // NaN, ±Infinity or too large to square
       const w = lambda * weight + 1; // W ← λW + 1
       const r = 1 / w;
       const m = (1 - r) * mean + r * x;
@@ -184,7 +191,7 @@ export class EwMoments {
       const c = 1 - r;
       for (; i < len; i++) {
         const x = xs[i] as number;
-        if (!(Math.abs(x) <= MAX_SAMPLE_MAGNITUDE)) break;
+        if (!(Math.abs(x) <= SAMPLE_LIMIT)) break;
         const m = c * mean + r * x; // x̄ ← (1 − r)x̄ + r·x
         const p = (x - mean) * (x - m); // (x − x̄_old)(x − x̄_new)
         s = lambda * s + (p > 0 ? p : 0); // S ← λS + p

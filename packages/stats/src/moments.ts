@@ -13,6 +13,10 @@ import {
   type Snapshot,
 } from "@leeway/core";
 
+
+// Module-local copies: hot loops read them as plain bindings, whatever the module loader does with imports.
+const SAMPLE_LIMIT = MAX_SAMPLE_MAGNITUDE;
+const accept = acceptSample;
 /** Options of {@link Moments}. */
 export interface MomentsOptions {
   /** Accept a weight per sample (frequency weights, each > 0). Default false: every weight is 1. */
@@ -177,7 +181,7 @@ export class Moments {
    */
   observe(x: number, weight?: number): MomentsReading {
     // The common case (finite, unweighted) stays small enough to inline; the rest goes the long way.
-    if (weight === undefined && Math.abs(x) <= MAX_SAMPLE_MAGNITUDE) this.#take(x, 1);
+    if (weight === undefined && Math.abs(x) <= SAMPLE_LIMIT) this.#take(x, 1);
     else this.#takeChecked(x, weight);
     const count = this.#n + this.#bCount;
     if (count === 0) return { count, mean: Number.NaN, variance: Number.NaN, skipped: this.#skipped };
@@ -188,7 +192,7 @@ export class Moments {
   /** Validates the weight, applies the non-finite policy, then takes the sample. */
   #takeChecked(x: number, weight: number | undefined): void {
     const w = this.#checkWeight(weight);
-    if (acceptSample("Moments", this.#policy, x, MAX_SAMPLE_MAGNITUDE) && acceptWeight(this.#policy, w)) this.#take(x, w);
+    if (accept("Moments", this.#policy, x, SAMPLE_LIMIT) && acceptWeight(this.#policy, w)) this.#take(x, w);
     else this.#skipped++;
   }
 
@@ -229,7 +233,7 @@ export class Moments {
         i++;
         if (--left === 0) break;
       }
-      if (!(Number.isFinite(s1) && Number.isFinite(s2) && lo >= -MAX_SAMPLE_MAGNITUDE && hi <= MAX_SAMPLE_MAGNITUDE)) {
+      if (!(Number.isFinite(s1) && Number.isFinite(s2) && lo >= -SAMPLE_LIMIT && hi <= SAMPLE_LIMIT)) {
         // A non-finite or too large sample in this run: redo it one by one,
         // which refuses or skips exactly where `observe` would.
         for (let j = start; j < i; j++) this.observe(xs[j] as number);

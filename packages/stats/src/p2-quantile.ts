@@ -11,6 +11,10 @@ import {
   type Snapshot,
 } from "@leeway/core";
 
+
+// Module-local copies: hot loops read them as plain bindings, whatever the module loader does with imports.
+const SAMPLE_LIMIT = MAX_SAMPLE_MAGNITUDE;
+const accept = acceptSample;
 /** Options of {@link P2Quantile}. */
 export interface P2QuantileOptions {
   /** The quantile to track, p in (0, 1) (0.99 for the 99th percentile). */
@@ -122,7 +126,7 @@ export class P2Quantile {
 
   /** Takes one sample; returns the estimate. */
   observe(x: number): P2QuantileReading {
-    if (acceptSample("P2Quantile", this.#policy, x, MAX_SAMPLE_MAGNITUDE)) {
+    if (accept("P2Quantile", this.#policy, x, SAMPLE_LIMIT)) {
       this.#one[0] = x;
       this.#run(this.#one);
     } else {
@@ -192,7 +196,7 @@ export class P2Quantile {
     let i = 0;
     for (; count < 5 && i < xs.length; i++) {
       const x = (xs[i] as number) + 0; // + 0 turns −0 into 0, as JSON would
-      if (!(Math.abs(x) <= MAX_SAMPLE_MAGNITUDE)) {
+      if (!(Math.abs(x) <= SAMPLE_LIMIT)) {
         this.#count = count;
         return i;
       }
@@ -214,7 +218,7 @@ export class P2Quantile {
     let n4 = n[4] as number;
     for (; i < xs.length; i++) {
       const x = (xs[i] as number) + 0;
-      if (!(Math.abs(x) <= MAX_SAMPLE_MAGNITUDE)) break; // NaN, ±Infinity or too large to square
+      if (!(Math.abs(x) <= SAMPLE_LIMIT)) break; // NaN, ±Infinity or too large to square
       // The cell k with q_k ≤ x < q_{k+1} (extremes widened): every marker above it moves up one position.
       if (x < q1) {
         if (x < q0) q0 = x;

@@ -12,6 +12,10 @@ import {
   type Snapshot,
 } from "@leeway/core";
 
+
+// Module-local copies: hot loops read them as plain bindings, whatever the module loader does with imports.
+const SAMPLE_LIMIT = MAX_SAMPLE_MAGNITUDE;
+const accept = acceptSample;
 /** Options of {@link WindowMoments}. */
 export interface WindowMomentsOptions {
   /** W: the number of most recent samples described (an integer ≥ 1). */
@@ -179,7 +183,7 @@ export class WindowMoments {
 
   /** Takes one sample; returns the window's moments. */
   observe(x: number): WindowMomentsReading {
-    if (acceptSample("WindowMoments", this.#policy, x, MAX_SAMPLE_MAGNITUDE)) {
+    if (accept("WindowMoments", this.#policy, x, SAMPLE_LIMIT)) {
       this.#one[0] = x;
       this.#run(this.#one);
     } else {
@@ -279,7 +283,7 @@ export class WindowMoments {
     let i = 0;
     for (; i < xs.length; i++) {
       const x = (xs[i] as number) + 0; // + 0 turns −0 into 0, as JSON would
-      if (!(Math.abs(x) <= MAX_SAMPLE_MAGNITUDE)) break; // NaN, ±Infinity or too large to square
+      if (!(Math.abs(x) <= SAMPLE_LIMIT)) break; // NaN, ±Infinity or too large to square
       if (count === 0) k = x;
       const d = x - k; // d = x − K
       if (size === width) {
