@@ -211,8 +211,10 @@ export class Moments {
     let i = 0;
     while (i < len) {
       if (this.#bCount === 0) {
-        // The first sample of a block fixes its shift K; take it the careful way.
-        this.observe(xs[i] as number);
+        // The first sample of a block fixes its shift K; take it one by one, as `observe` would.
+        const first = xs[i] as number;
+        if (Math.abs(first) <= SAMPLE_LIMIT) this.#take(first, 1);
+        else this.observe(first);
         i++;
         continue;
       }
