@@ -8,7 +8,7 @@ export interface Table {
 }
 
 function cell(v: unknown): string {
-  if (typeof v === "number") return formatNumber(v);
+  if (typeof v === "number") return Number.isSafeInteger(v) ? String(v) : formatNumber(v); // counts and indices in full
   if (v === null || v === undefined) return "—";
   if (typeof v === "string" || typeof v === "boolean") return String(v);
   if (Array.isArray(v)) return v.every((x) => typeof x === "number") ? `[${v.map((x) => formatNumber(x as number)).join(", ")}]` : `${v.length} items`;
