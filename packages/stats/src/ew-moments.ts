@@ -77,6 +77,7 @@ export class EwMoments {
   #count = 0;
   #skipped = 0;
   #weight = 0;
+  #r = 0; // 1/W, kept so that a converged W costs no division
   #mean = 0;
   #s = 0;
 
@@ -122,7 +123,7 @@ export class EwMoments {
 
   /** Exponentially weighted population variance S/W; NaN before the first sample. */
   get variance(): number {
-    return this.#count === 0 ? Number.NaN : this.#s / this.#weight;
+    return this.#count === 0 ? Number.NaN : this.#s * this.#r; // S/W, as S·(1/W)
   }
 
   /** √variance. */
@@ -135,7 +136,7 @@ export class EwMoments {
     if (Math.abs(x) <= SAMPLE_LIMIT) {
       const lambda = this.#lambda;
       const weight = lambda * this.#weight + 1; // W ← λW + 1
-      const r = 1 / weight;
+      const r = weight === this.#weight ? this.#r : 1 / weight; // W at its fixed point keeps its 1/W
       const old = this.#mean;
       const mean = (1 - r) * old + r * x; // x̄ ← (1 − r)x̄ + r·x
       // S ← λS + (x − x̄_old)(x − x̄_new); the product can round to −ulp², so it is taken ≥ 0.
@@ -144,8 +145,9 @@ export class EwMoments {
       this.#s = s;
       this.#mean = mean;
       this.#weight = weight;
+      this.#r = r;
       this.#count++;
-      return { count: this.#count, mean, variance: s / weight, skipped: this.#skipped };
+      return { count: this.#count, mean, variance: s * r, skipped: this.#skipped };
     }
     accept("EwMoments", this.#policy, x, SAMPLE_LIMIT); // throws under "refuse"
     this.#skipped++;
@@ -200,6 +202,7 @@ export class EwMoments {
     }
     this.#count += i;
     this.#weight = weight;
+    this.#r = weight === 0 ? 0 : 1 / weight;
     this.#mean = mean;
     this.#s = s;
     return i;
@@ -237,6 +240,7 @@ export class EwMoments {
     ew.#count = count;
     ew.#skipped = skipped;
     ew.#weight = weight;
+    ew.#r = weight === 0 ? 0 : 1 / weight;
     ew.#mean = mean;
     ew.#s = s;
     return ew;
