@@ -94,13 +94,14 @@ export class Cusum implements ChangeTest {
   readonly #nonFinite: NonFinitePolicy;
   readonly #burnInLength: number;
   #burnIn: BurnIn | null;
-  #mean: number; // μ₀ (NaN while burning in)
-  #sigma: number; // σ (NaN while burning in)
-  #invSigma: number; // 1/σ, so that the loop multiplies
-  #upper: number; // C⁺
-  #lower: number; // C⁻
-  #upperZero: number; // stream index of the last sample at which C⁺ was 0
-  #lowerZero: number;
+  // numeric fields start as numbers, so that the engine stores them unboxed
+  #mean = Number.NaN; // μ₀ (NaN while burning in)
+  #sigma = Number.NaN; // σ (NaN while burning in)
+  #invSigma = Number.NaN; // 1/σ, so that the loop multiplies
+  #upper = 0; // C⁺
+  #lower = 0; // C⁻
+  #upperZero = -1; // stream index of the last sample at which C⁺ was 0
+  #lowerZero = -1;
   #count = 0;
   #skipped = 0;
   #loop: Float64Array | null = null; // scan's state in and out of cusumLoop

@@ -98,9 +98,10 @@ export class EwmaChart implements ChangeTest {
   readonly #decayStep: number; // (1 − λ)² for exact limits, 0 for asymptotic ones
   readonly #burnInLength: number;
   #burnIn: BurnIn | null;
-  #mean: number;
-  #sigma: number;
-  #invSigma: number;
+  // numeric fields start as numbers, so that the engine stores them unboxed
+  #mean = Number.NaN;
+  #sigma = Number.NaN;
+  #invSigma = Number.NaN;
   #z = 0; // EWMA statistic, in σ
   #decay = 1; // (1 − λ)^{2i}
   #upperZero = -1; // stream index of the last sample with z ≤ 0
