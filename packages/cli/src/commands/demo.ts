@@ -146,7 +146,8 @@ export async function runDemo(parsed: ParsedArguments, io: CliStreams): Promise<
     subtitle: `Demo: seven simulated days at ${scale} samples per hour — compressor installed on day 2 (concept drift), outer-race bearing defect from day 4 (degradation), impeller clog on day 6 (anomaly). Speed changes between 990, 1485 and 2970 rpm are not drawn as events.`,
     timeline: drawn,
     events: reportEvents,
-    metrics: reportMetrics(metrics),
+    // The speed changes are labelled events too; the per-event table lists the other three.
+    metrics: { ...reportMetrics(metrics), perEvent: metrics.perEvent.filter((e) => e.type !== "mode-change") },
     facts: [["scenario", "harbourLane (invented)"], ["operator", `scripted, ${operator.actions.length} actions`], ["scale", `${scale} samples per simulated hour`], ["seed", seed], ["features", `${s.bins}-band log spectrum`]],
     version: leewayVersion(),
   });
