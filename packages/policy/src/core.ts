@@ -276,7 +276,7 @@ export class DecisionCore {
     if (reading.status === "change") {
       test.restart();
       if (this.#episodeAlarmed) return this.#decision("hold", "degradation", evidence);
-      if (this.#degradationStanding) {
+      if (strength >= 1) {
         // A change point on top of a rising trend: the level crept up before it jumped.
         return this.#latch("degradation", evidence);
       }
@@ -301,21 +301,24 @@ export class DecisionCore {
     return this.#referenceTrend.z < s.trendClearZ && this.#gapTrend.z < s.trendClearZ && this.#referenceTrend.lastMean < s.confirmShift;
   }
 
-  /** 0: no degradation evidence; 1: a warning (stop learning); 2: an alarm. */
+  /**
+   * 0: no degradation evidence; 1: a warning (stop learning, refuse retrains); 2: an alarm.
+   * The reference's own trend counts at its strength: z past the level and a Theil-Sen rise past
+   * `trendMinRise` (half of it for a warning). The reference-minus-live gap, the rise the live
+   * model has absorbed, counts the same way but only while the reference's own trend stands at
+   * warning strength: a live model that keeps improving on normal data (a fresh member most of
+   * all) widens the gap too, and that is no fault.
+   */
   #degradationStrength(): number {
     const s = this.settings;
-    let strength = 0;
-    // The gap counts only while the reference itself sees a rise: a live model that keeps improving on
-    // normal data also widens the gap, and that is no fault.
-    const referenceRising = this.#referenceTrend.z >= s.trendClearZ;
-    for (const t of [this.#referenceTrend, this.#gapTrend]) {
-      if (t.blocks < s.trendMinBlocks || t.z < s.trendWarnZ) continue;
-      if (t === this.#gapTrend && !referenceRising) continue;
-      const rise = t.rise; // the Theil-Sen slope, O(w²), only for a trend this strong
-      if (t.z >= s.trendZ && rise >= s.trendMinRise) return 2;
-      if (rise >= s.trendMinRise / 2) strength = 1;
-    }
-    return strength;
+    const ref = this.#referenceTrend;
+    if (ref.blocks < s.trendMinBlocks || ref.z < s.trendWarnZ) return 0;
+    const refRise = ref.rise; // the Theil-Sen slope, O(w²), only for a trend this strong
+    if (refRise < s.trendMinRise / 2) return 0;
+    if (ref.z >= s.trendZ && refRise >= s.trendMinRise) return 2;
+    const gap = this.#gapTrend;
+    if (gap.blocks >= s.trendMinBlocks && gap.z >= s.trendZ && gap.rise >= s.trendMinRise) return 2;
+    return 1;
   }
 
   #commissioningStep(live: number, commissioning: number, evidence: Evidence): Decision {
@@ -369,6 +372,9 @@ export class DecisionCore {
     this.#normalRun = 0;
     this.#referenceTrend.restart();
     this.#gapTrend.restart();
+    // A warning measured against the previous reference does not carry over (an alarm's refusal does).
+    this.#degradationStanding = false;
+    this.#episodeAlarmed = false;
   }
 
   #settlingStep(zActive: number, zCommissioning: number, zNewest: number, evidence: Evidence): Decision {
@@ -432,6 +438,12 @@ export class DecisionCore {
       evidence.outcome = "retrain refused: degradation evidence stands";
       return this.#latch("degradation", evidence);
     }
+    if (this.#degradationStanding) {
+      // A degradation warning refuses the retrain as well, without an alarm of its own.
+      evidence.outcome = "retrain refused: a degradation warning stands";
+      this.#toWatching();
+      return this.#decision("hold", "degradation", evidence);
+    }
     if (this.#budgetExhausted()) {
       evidence.budget = { used: this.#retrainLog.length, allowed: s.retrainBudget, horizon: s.retrainHorizon };
       return this.#latch("concept-drift", evidence);
@@ -491,6 +503,8 @@ export class DecisionCore {
     this.#toWatching();
     this.#referenceTrend.restart();
     this.#gapTrend.restart();
+    this.#degradationStanding = false;
+    this.#episodeAlarmed = false;
     this.switchedTo = id;
     evidence.switchedTo = id;
     return this.#decision("switch-mode", "known-mode", evidence);
@@ -544,6 +558,18 @@ export class DecisionCore {
     this.#settlingWindow.clear();
     this.#settlingStart = -1;
     this.#beginRecalibration();
+  }
+
+  /**
+   * The retrain cannot be carried out at all (feature mode: the live pool has
+   * no room for another member): raise a concept-drift alarm with the reason
+   * in the evidence, so that an operator decides (more members, or a new
+   * commissioning).
+   */
+  retrainRefused(evidence: Evidence, reason: string): Decision {
+    if (this.#phase !== "retraining") this.#stateError("retrainRefused", 'after a "retrain" decision');
+    evidence.outcome = `retrain refused: ${reason}`;
+    return this.#latch("concept-drift", evidence);
   }
 
   /** The candidate failed validation (or the host could not replace its model): settle again. */

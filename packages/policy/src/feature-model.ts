@@ -27,7 +27,7 @@ export interface FeatureModelOptions {
   forgetting?: number;
   /** Share of the settled samples held out to validate a candidate, in (0, 0.5]. Default 0.2. */
   validationShare?: number;
-  /** A candidate passes when its held-out loss is at most this multiple of its training loss (and below the active reference's). Default 1.5. */
+  /** A candidate passes when its held-out loss is at most this multiple of its training loss (and below the active reference's). Default 2. */
   validationTolerance?: number;
 }
 
@@ -57,7 +57,7 @@ export function resolveFeatureSettings(component: string, inputs: number, o: Fea
     ridge: numberInRange(component, "ridge", o.ridge ?? 0.01, { min: 0, minExclusive: true }),
     forgetting: numberInRange(component, "forgetting", o.forgetting ?? 1, { min: 0, max: 1, minExclusive: true }),
     validationShare: numberInRange(component, "validationShare", o.validationShare ?? 0.2, { min: 0, max: 0.5, minExclusive: true }),
-    validationTolerance: numberInRange(component, "validationTolerance", o.validationTolerance ?? 1.5, { min: 1 }),
+    validationTolerance: numberInRange(component, "validationTolerance", o.validationTolerance ?? 2, { min: 1 }),
     settling: core.settling,
     commissioning: core.commissioning,
     seed: String(core.seed),
@@ -180,6 +180,13 @@ export class FeatureModel {
       decision.phase = core.phase;
       return;
     }
+    if (this.#pool.size >= this.#pool.maxMembers) {
+      const refused = core.retrainRefused(evidence, `the live pool is full (${this.#pool.maxMembers} members)`);
+      decision.action = refused.action;
+      decision.cause = refused.cause;
+      decision.phase = refused.phase;
+      return;
+    }
     const label = `retrain-${core.retrains + 1}`;
     const member = this.#pool.addMember(rows, label);
     this.#lineage.push(this.#pool.freeze(member));
@@ -250,7 +257,13 @@ export class FeatureModel {
     const pool = AutoencoderPool.restore(r.raw("pool"));
     const lineageRaw = r.rawArray("lineage", { max: core.newestId + 1 });
     if (core.phase !== "commissioning" && lineageRaw.length !== core.newestId + 1) r.fail("lineage", `must have length ${core.newestId + 1}, got length ${lineageRaw.length}`);
+    if (pool.inputs !== inputs || pool.hidden !== settings.hidden || pool.maxMembers !== settings.members) {
+      r.fail("pool", `must have ${inputs} inputs, ${settings.hidden} hidden units and room for ${settings.members} members`);
+    }
+    // After commissioning the pool holds the commissioning member and one member per accepted retrain.
+    if (core.phase !== "commissioning" && (pool.size < 1 || pool.size < lineageRaw.length)) r.fail("pool", `must hold at least ${Math.max(1, lineageRaw.length)} members, got ${pool.size}`);
     const lineage = lineageRaw.map((s) => FrozenModel.restore(s));
+    for (const m of lineage) if (m.inputs !== inputs) r.fail("lineage", `references must have ${inputs} inputs, got ${m.inputs}`);
     const kept = r.numbers("kept", settings.settling * settings.inputs);
     const candidates = r.integer("candidates", 0, Number.MAX_SAFE_INTEGER);
     const model = new FeatureModel(settings);
