@@ -16,6 +16,16 @@ import {
 // Module-local copies: hot loops read them as plain bindings, whatever the module loader does with imports.
 const SAMPLE_LIMIT = MAX_SAMPLE_MAGNITUDE;
 const accept = acceptSample;
+/**
+ * After `since` samples since the last recomputation, the next count at which
+ * the window looks at its shift: every 8th from W/4 on, and at W itself.
+ */
+function nextCheck(since: number, earliest: number, width: number): number {
+  const next = Math.max(earliest, since + 1);
+  const aligned = Math.ceil(next / 8) * 8;
+  return aligned < width ? aligned : width;
+}
+
 /** Options of {@link WindowMoments}. */
 export interface WindowMomentsOptions {
   /** W: the number of most recent samples described (an integer ≥ 1). */
@@ -275,6 +285,7 @@ export class WindowMoments {
     let size = this.#size;
     let count = this.#count;
     let since = this.#sinceRebuild;
+    let check = nextCheck(since, earliest, width); // the next value of `since` at which to look
     let k = this.#shift; // K
     let s1 = this.#sum; // S₁ = Σ(x − K)
     let s2 = this.#sumSq; // S₂ = Σ(x − K)²
@@ -322,18 +333,20 @@ export class WindowMoments {
       // Every W samples the sums are recomputed from the ring (ending drift); K moves to the window mean
       // when it has left it by more than a standard deviation: S₁² > n·S₂/2, with the offset more than
       // rounding of K itself (looked at on every recomputation, and every 8th sample from W/4 samples after one).
-      const due = since === width;
-      if (due || (since >= earliest && (since & 7) === 0)) {
+      if (since === check) {
+        const due = since === width;
         const stale = s1 * s1 > 0.5 * size * s2 && Math.abs(s1) > size * 2 ** -40 * Math.abs(k);
-        if (!stale && !due) continue;
-        this.#head = head;
-        this.#size = size;
-        this.#shift = k;
-        this.#rebuild(stale);
-        k = this.#shift;
-        s1 = this.#sum;
-        s2 = this.#sumSq;
-        since = 0;
+        if (stale || due) {
+          this.#head = head;
+          this.#size = size;
+          this.#shift = k;
+          this.#rebuild(stale);
+          k = this.#shift;
+          s1 = this.#sum;
+          s2 = this.#sumSq;
+          since = 0;
+        }
+        check = nextCheck(since, earliest, width);
       }
     }
     this.#head = head;
