@@ -388,14 +388,14 @@ export class Adwin implements ChangeTest {
           return 0;
         }
         if (n0 < minSub) continue;
-        const r0 = 1 / n0;
-        const r1 = 1 / n1;
-        const invM = r0 + r1; // 1/m
+        // one division per split: 1/m = W/(n₀n₁) and μ̂₁ − μ̂₀ = (n₀·Σ_W − W·Σ₀)/(n₀n₁)
+        const inv = 1 / (n0 * n1);
+        const invM = w * inv;
         const eps = Math.sqrt(a * invM) + c3 * invM;
-        const diff = (total - s0) * r1 - s0 * r0; // μ̂₁ − μ̂₀
-        const ratio = Math.abs(diff) / eps;
-        if (ratio > best) best = ratio;
-        if (ratio >= threshold) {
+        const diff = (n0 * total - w * s0) * inv;
+        const size0 = Math.abs(diff);
+        if (size0 > best * eps) best = size0 / eps;
+        if (size0 >= threshold * eps) {
           this.#statistic = best;
           return diff > 0 ? 1 : -1;
         }
