@@ -340,6 +340,7 @@ function ewmaLoop(xs: Float64Array, from: number, s: Float64Array, zs: Float64Ar
   const step = s[LOOP.step] as number;
   const bUp = s[LOOP.bUp] as number;
   const bDown = s[LOOP.bDown] as number;
+  const symmetric = bUp === bDown;
   const refuse = s[LOOP.refuse] === 1;
   let z = s[LOOP.z] as number;
   let q = s[LOOP.q] as number;
@@ -361,7 +362,8 @@ function ewmaLoop(xs: Float64Array, from: number, s: Float64Array, zs: Float64Ar
       z = keep * z + lam * u;
       q = q > 1e-20 ? q * step : 0;
       zs[j - blockStart] = z;
-      if (z * z > (z > 0 ? bUp : bDown) * (1 - q)) {
+      // two-sided with equal limits: no branch on the sign of z
+      if (z * z > (symmetric ? bUp : z > 0 ? bUp : bDown) * (1 - q)) {
         found = j;
         j++;
         break;
