@@ -17,13 +17,11 @@ import {
 const SAMPLE_LIMIT = MAX_SAMPLE_MAGNITUDE;
 const accept = acceptSample;
 /**
- * After `since` samples since the last recomputation, the next count at which
- * the window looks at its shift: every 8th from W/4 on, and at W itself.
+ * After looking at the shift with `since` samples since the last
+ * recomputation, the next such count to look at: every 8th from W/4 on.
  */
-function nextCheck(since: number, earliest: number, width: number): number {
-  const next = Math.max(earliest, since + 1);
-  const aligned = Math.ceil(next / 8) * 8;
-  return aligned < width ? aligned : width;
+function nextCheck(since: number, earliest: number): number {
+  return Math.ceil(Math.max(earliest, since + 1) / 8) * 8;
 }
 
 /** Options of {@link WindowMoments}. */
@@ -62,7 +60,7 @@ export interface WindowMomentsState {
   sum: number;
   /** Σ(x − K)² over the window. */
   sumSquares: number;
-  /** Samples since K and the sums were last recomputed from the window, in [0, W). */
+  /** Samples since K or the sums were last recomputed from the window, in [0, W]. */
   sinceRebuild: number;
 }
 
@@ -72,16 +70,18 @@ export interface WindowMomentsState {
  *
  * Method: a ring buffer of the window; shifted running sums
  * S₁ = Σ(x − K), S₂ = Σ(x − K)² updated by adding the new and removing the
- * oldest sample, mean = K + S₁/n, variance = (S₂ − S₁²/n)/n. Every W samples
- * the sums are recomputed from the ring, so rounding errors cannot accumulate
- * past one window (no drift over 10⁷ samples); whenever the window mean has
- * moved more than one standard deviation from K (after a level jump, say), K
- * is reset to the window mean and the sums recomputed around it, at most once
- * per W/4 samples. Error: the variance is off by at
- * most about W·ε·R² (ε = 2⁻⁵³, R the range of the last 2W samples), usually
- * far less. Min and max are exact, by the van Herk (1992) / Gil & Werman
- * (1993) block scheme: the running extrema of the current block of W samples
- * and the suffix extrema of the previous one, recomputed once per block
+ * oldest sample, mean = K + S₁/n, variance = (S₂ − S₁²/n)/n. Each time a
+ * block of W samples completes, the sums are recomputed from the ring (in
+ * the same pass as the suffix extrema below), so rounding errors cannot
+ * accumulate past one window (no drift over 10⁷ samples); whenever the window
+ * mean has moved more than one standard deviation from K (after a level
+ * jump, say), K is reset to the window mean and the sums recomputed around
+ * it, looked at after each block and every 8th sample from W/4 samples after
+ * a recomputation. Error: the variance is off by at most about W·ε·R²
+ * (ε = 2⁻⁵³, R the range of the last 2W samples), usually far less. Min and
+ * max are exact, by the van Herk (1992) / Gil & Werman (1993) block scheme:
+ * the running extrema of the current block of W samples and the suffix
+ * extrema of the previous one, recomputed once per block
  * (about four comparisons per sample, no unpredictable branches).
  *
  * @example
@@ -250,7 +250,7 @@ export class WindowMoments {
     const shift = r.number("shift");
     const sum = r.number("sum");
     const sumSq = r.numberIn("sumSquares", 0, Number.MAX_VALUE);
-    const sinceRebuild = r.integer("sinceRebuild", 0, Math.min(width - 1, count));
+    const sinceRebuild = r.integer("sinceRebuild", 0, Math.min(width, count));
     if (size === 0 && (shift !== 0 || sum !== 0 || sumSq !== 0)) {
       throw new SnapshotError(WindowMoments.kind, "state.sum", "and state.shift, state.sumSquares must be 0 for an empty window");
     }
@@ -285,7 +285,7 @@ export class WindowMoments {
     let size = this.#size;
     let count = this.#count;
     let since = this.#sinceRebuild;
-    let check = nextCheck(since, earliest, width); // the next value of `since` at which to look
+    let check = nextCheck(since - 1, earliest); // the next value of `since` at which to look at the shift
     let k = this.#shift; // K
     let s1 = this.#sum; // S₁ = Σ(x − K)
     let s2 = this.#sumSq; // S₂ = Σ(x − K)²
@@ -295,6 +295,44 @@ export class WindowMoments {
     for (; i < xs.length; i++) {
       const x = (xs[i] as number) + 0; // + 0 turns −0 into 0, as JSON would
       if (!(Math.abs(x) <= SAMPLE_LIMIT)) break; // NaN, ±Infinity or too large to square
+      if (head === 0 && count >= width) {
+        // A block of W samples is complete and fills the ring. One pass keeps its suffix extrema and
+        // recomputes S₁ and S₂ around K from scratch (ending any drift of the running sums).
+        let lo = Infinity;
+        let hi = -Infinity;
+        let t1 = 0;
+        let t2 = 0;
+        for (let j = width - 1; j >= 0; j--) {
+          const v = ring[j] as number;
+          if (v < lo) lo = v;
+          if (v > hi) hi = v;
+          sufMin[j] = lo;
+          sufMax[j] = hi;
+          const dv = v - k;
+          t1 += dv;
+          t2 += dv * dv;
+        }
+        s1 = t1;
+        s2 = t2;
+        since = 0;
+        check = 0; // look at the shift right away
+      }
+      // K moves to the window mean when it has left it by more than a standard deviation,
+      // S₁² > n·S₂/2, with the offset more than rounding of K itself; looked at after each block
+      // and every 8th sample from W/4 samples after a recomputation.
+      if (since === check) {
+        if (s1 * s1 > 0.5 * size * s2 && Math.abs(s1) > size * 2 ** -40 * Math.abs(k)) {
+          this.#head = head;
+          this.#size = size;
+          this.#shift = k;
+          this.#rebuild();
+          k = this.#shift;
+          s1 = this.#sum;
+          s2 = this.#sumSq;
+          since = 0;
+        }
+        check = nextCheck(since, earliest);
+      }
       if (count === 0) k = x;
       const d = x - k; // d = x − K
       if (size === width) {
@@ -308,18 +346,6 @@ export class WindowMoments {
         size++;
       }
       if (head === 0) {
-        // A new block starts: keep the suffix extrema of the block just completed (still in the ring).
-        if (count >= width) {
-          let lo = Infinity;
-          let hi = -Infinity;
-          for (let j = width - 1; j >= 0; j--) {
-            const v = ring[j] as number;
-            if (v < lo) lo = v;
-            if (v > hi) hi = v;
-            sufMin[j] = lo;
-            sufMax[j] = hi;
-          }
-        }
         preMin = x;
         preMax = x;
       } else {
@@ -330,24 +356,6 @@ export class WindowMoments {
       head = head + 1 === width ? 0 : head + 1;
       count++;
       since++;
-      // Every W samples the sums are recomputed from the ring (ending drift); K moves to the window mean
-      // when it has left it by more than a standard deviation: S₁² > n·S₂/2, with the offset more than
-      // rounding of K itself (looked at on every recomputation, and every 8th sample from W/4 samples after one).
-      if (since === check) {
-        const due = since === width;
-        const stale = s1 * s1 > 0.5 * size * s2 && Math.abs(s1) > size * 2 ** -40 * Math.abs(k);
-        if (stale || due) {
-          this.#head = head;
-          this.#size = size;
-          this.#shift = k;
-          this.#rebuild(stale);
-          k = this.#shift;
-          s1 = this.#sum;
-          s2 = this.#sumSq;
-          since = 0;
-        }
-        check = nextCheck(since, earliest, width);
-      }
     }
     this.#head = head;
     this.#size = size;
@@ -389,21 +397,17 @@ export class WindowMoments {
   }
 
   /**
-   * Recomputes S₁ and S₂ from the ring (oldest sample first, so that a
-   * restored ring sums in the same order), ending any drift of the running
-   * sums; with `recentre`, first moves K to the window mean (a second pass).
+   * Moves K to the window mean and recomputes S₁ and S₂ around it from the
+   * ring (two passes, oldest sample first).
    */
-  #rebuild(recentre: boolean): void {
+  #rebuild(): void {
     const n = this.#size;
     const ring = this.#ring;
     const start = n === this.#width ? this.#head : 0;
-    let k = this.#shift;
-    if (recentre) {
-      let total = 0;
-      for (let i = start; i < n; i++) total += ring[i] as number;
-      for (let i = 0; i < start; i++) total += ring[i] as number;
-      k = total / n;
-    }
+    let total = 0;
+    for (let i = start; i < n; i++) total += ring[i] as number;
+    for (let i = 0; i < start; i++) total += ring[i] as number;
+    const k = total / n;
     let s1 = 0;
     let s2 = 0;
     for (let i = start; i < n; i++) {
