@@ -46,6 +46,7 @@ export interface DecisionCoreState {
   degradationStanding: boolean;
   degradationAlarmed: boolean;
   episodeAlarmed: boolean;
+  warningSince: number;
   settlingWindow: Snapshot;
   settlingStart: number;
   risingRun: number;
@@ -116,6 +117,7 @@ export class DecisionCore {
   #degradationStanding = false;
   #degradationAlarmed = false; // a degradation alarm was raised since the last commissioning
   #episodeAlarmed = false; // the present degradation evidence has raised its alarm
+  #warningSince = 0; // index at which the present degradation warning began
   #settlingWindow: SettlingWindow;
   #settlingStart = -1;
   #risingRun = 0; // consecutive settling checks with a rising trend
@@ -257,7 +259,13 @@ export class DecisionCore {
     evidence.trend = this.#referenceTrend.evidence;
     evidence.gap = { value: zActive - zLive, ...this.#gapTrend.evidence };
     if (strength === 2 && !this.#episodeAlarmed) return this.#latch("degradation", evidence);
-    if (strength >= 1) this.#degradationStanding = true;
+    if (strength >= 1 && !this.#degradationStanding) this.#warningSince = this.#index;
+    const span = this.settings.trendWindow * this.settings.trendBlock;
+    if (strength === 1 && this.#degradationStanding && !this.#episodeAlarmed && this.#index - this.#warningSince > span) {
+      // A warning that has neither grown into an alarm nor cleared over a whole trend window expires.
+      this.#degradationStanding = false;
+      this.#warningSince = this.#index;
+    } else if (strength >= 1) this.#degradationStanding = true;
     else if (this.#degradationStanding && this.#degradationCleared()) {
       // Learning may resume; a degradation that has raised its alarm keeps refusing retrains until the
       // operator commissions the machine again (wear does not heal; a repair is a new commissioning).
@@ -277,8 +285,10 @@ export class DecisionCore {
       test.restart();
       if (this.#episodeAlarmed) return this.#decision("hold", "degradation", evidence);
       if (strength >= 1) {
-        // A change point on top of a rising trend: the level crept up before it jumped.
-        return this.#latch("degradation", evidence);
+        // A change point on top of a rising trend: the level crept up before it jumped. Reported as
+        // degradation; it refuses retrains only while the warning stands (a full trend alarm, or a ramp
+        // found while settling, refuses them until the next commissioning).
+        return this.#latch("degradation", evidence, strength === 2);
       }
       this.#phase = "settling";
       this.#settlingStart = this.#index;
@@ -305,9 +315,9 @@ export class DecisionCore {
    * 0: no degradation evidence; 1: a warning (stop learning, refuse retrains); 2: an alarm.
    * The reference's own trend counts at its strength: z past the level and a Theil-Sen rise past
    * `trendMinRise` (half of it for a warning). The reference-minus-live gap, the rise the live
-   * model has absorbed, counts the same way but only while the reference's own trend stands at
-   * warning strength: a live model that keeps improving on normal data (a fresh member most of
-   * all) widens the gap too, and that is no fault.
+   * model has absorbed, can lend its rise to an alarm only when the reference's own z is at alarm
+   * strength: a live model that keeps improving on normal data (a fresh member most of all)
+   * widens the gap too, and that is no fault.
    */
   #degradationStrength(): number {
     const s = this.settings;
@@ -317,7 +327,7 @@ export class DecisionCore {
     if (refRise < s.trendMinRise / 2) return 0;
     if (ref.z >= s.trendZ && refRise >= s.trendMinRise) return 2;
     const gap = this.#gapTrend;
-    if (gap.blocks >= s.trendMinBlocks && gap.z >= s.trendZ && gap.rise >= s.trendMinRise) return 2;
+    if (ref.z >= s.trendZ && gap.blocks >= s.trendMinBlocks && gap.z >= s.trendZ && gap.rise >= s.trendMinRise) return 2;
     return 1;
   }
 
@@ -517,11 +527,11 @@ export class DecisionCore {
     this.#changeTest?.restart();
   }
 
-  #latch(cause: Cause, evidence: Evidence): Decision {
+  #latch(cause: Cause, evidence: Evidence, lasting = true): Decision {
     if (cause === "degradation") {
       this.#degradationStanding = true;
-      this.#degradationAlarmed = true;
       this.#episodeAlarmed = true;
+      if (lasting) this.#degradationAlarmed = true;
     }
     this.#phase = "latched";
     this.#latchCause = cause;
@@ -698,6 +708,7 @@ export class DecisionCore {
       degradationStanding: this.#degradationStanding,
       degradationAlarmed: this.#degradationAlarmed,
       episodeAlarmed: this.#episodeAlarmed,
+      warningSince: this.#warningSince,
       settlingWindow: this.#settlingWindow.snapshot(),
       settlingStart: this.#settlingStart,
       risingRun: this.#risingRun,
@@ -762,7 +773,7 @@ export class DecisionCore {
     const degradationStanding = r.boolean("degradationStanding");
     const degradationAlarmed = r.boolean("degradationAlarmed");
     const episodeAlarmed = r.boolean("episodeAlarmed");
-    if (episodeAlarmed && !degradationAlarmed) r.fail("episodeAlarmed", "can be true only after a degradation alarm");
+    const warningSince = r.integer("warningSince", 0, big);
     const settlingWindow = SettlingWindow.restore(r.raw("settlingWindow"), settings.settling);
     const settlingStart = r.integer("settlingStart", -1, big);
     const risingRun = r.integer("risingRun", 0, big);
@@ -803,6 +814,7 @@ export class DecisionCore {
     core.#degradationStanding = degradationStanding;
     core.#degradationAlarmed = degradationAlarmed;
     core.#episodeAlarmed = episodeAlarmed;
+    core.#warningSince = warningSince;
     core.#settlingWindow = settlingWindow;
     core.#settlingStart = settlingStart;
     core.#risingRun = risingRun;
