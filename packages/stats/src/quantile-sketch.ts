@@ -48,6 +48,9 @@ export interface QuantileSketchState {
   /** Compactor h holds items of weight 2^h; level 0 in arrival order, the others sorted. */
   levels: { items: number[] }[];
   random: Snapshot<RandomSourceState>;
+  /** Unused coin flips: `coinCount` low bits of `coinBits`, drawn 32 at a time from the random source. */
+  coinBits: number;
+  coinCount: number;
 }
 
 const MIN_LEVEL_CAPACITY = 8;
@@ -63,7 +66,8 @@ const MAX_LEVELS = 64;
  * compactors. When the sketch holds as many items as all capacities together,
  * the lowest full compactor is sorted and every second item (starting at a
  * random offset 0 or 1 drawn from the seeded {@link RandomSource}) moves up
- * one level; an odd item out stays. Total weight stays exactly n.
+ * one level (the coin flips are the bits of uniform draws, 32 per draw); an
+ * odd item out stays. Total weight stays exactly n.
  *
  * Error bound: for any fixed x, a compaction at level h changes the estimated
  * rank of x by 0 or ±2^h with equal odds, independently of the past, and which
@@ -78,7 +82,7 @@ const MAX_LEVELS = 64;
  * @example
  * const s = new QuantileSketch({ k: 200, seed: 7 });
  * s.observeMany(Float64Array.from({ length: 1000 }, (_, i) => i / 1000));
- * [s.quantile(0.5), s.rank(0.25), s.retained]; // [0.498, 0.252, 322]
+ * [s.quantile(0.5), s.rank(0.25), s.retained]; // [0.499, 0.252, 322]
  */
 export class QuantileSketch {
   static readonly kind = "leeway.stats.quantile-sketch";
@@ -87,6 +91,8 @@ export class QuantileSketch {
   readonly #k: number;
   readonly #policy: NonFinitePolicy;
   #random: RandomSource;
+  #coinBits = 0;
+  #coinCount = 0;
   #levels: Float64Array[] = [];
   #sizes: number[] = [];
   #capacities: number[] = [];
@@ -293,6 +299,8 @@ export class QuantileSketch {
       errorVariance: this.#errorVariance,
       levels: this.#levels.map((items, h) => ({ items: toPlainArray(items, this.#sizes[h]) })),
       random: this.#random.snapshot(),
+      coinBits: this.#coinBits,
+      coinCount: this.#coinCount,
     });
   }
 
@@ -312,6 +320,9 @@ export class QuantileSketch {
     const totalCapacity = capacities.reduce((a, b) => a + b, 0);
     const levels = levelReaders.map((level) => level.numbers("items", { max: totalCapacity }));
     const random = RandomSource.restore(r.raw("random"));
+    const coinCount = r.integer("coinCount", 0, 32);
+    const coinBits = r.integer("coinBits", 0, 2 ** 32 - 1);
+    if (coinBits >= 2 ** coinCount) throw new SnapshotError(kind, "state.coinBits", `must be below 2^coinCount = ${2 ** coinCount}, got ${coinBits}`);
     const empty = count === 0;
     if (empty !== (min === null) || empty !== (max === null)) throw new SnapshotError(kind, "state.min", "and state.max must be null exactly when no sample was taken");
     let weight = 0;
@@ -331,6 +342,8 @@ export class QuantileSketch {
     if (retained >= totalCapacity) throw new SnapshotError(kind, "state.levels", `must hold fewer than ${totalCapacity} items for ${levels.length} levels, got ${retained}`);
     const s = new QuantileSketch({ k, seed: 1, nonFinite: policy });
     s.#random = random;
+    s.#coinBits = coinBits;
+    s.#coinCount = coinCount;
     s.#setLevels(levels.length);
     levels.forEach((items, h) => {
       const buffer = s.#grow(h, items.length);
@@ -370,7 +383,7 @@ export class QuantileSketch {
     const size = this.#sizes[h] as number;
     if (h === 0) sortPrefix(items, size);
     const even = size - (size & 1); // an odd item out (the largest) stays at level h
-    const offset = this.#random.next() < 0.5 ? 0 : 1;
+    const offset = this.#coin();
     const half = even >>> 1;
     if (this.#scratch.length < half) this.#scratch = new Float64Array(Math.max(half, 2 * this.#scratch.length));
     const promoted = this.#scratch;
@@ -380,6 +393,18 @@ export class QuantileSketch {
     this.#retained -= half;
     this.#errorVariance += 4 ** h; // each compaction moves any rank by 0 or ±2^h
     this.#mergeInto(h + 1, promoted, half);
+  }
+
+  /** One fair coin flip, 0 or 1: the bits of one uniform draw serve 32 compactions. */
+  #coin(): number {
+    if (this.#coinCount === 0) {
+      this.#coinBits = Math.floor(this.#random.next() * 2 ** 32); // the top 32 of its 53 random bits
+      this.#coinCount = 32;
+    }
+    const bit = this.#coinBits % 2;
+    this.#coinBits = (this.#coinBits - bit) / 2;
+    this.#coinCount--;
+    return bit;
   }
 
   /** Merges `count` sorted values into the sorted compactor h. */
