@@ -65,7 +65,8 @@ const KNOWN = ["inputs", ...CORE_OPTION_NAMES, ...FEATURE_OPTION_NAMES] as const
  * const engine = new DecisionEngine({ commissioning: 50, calibration: 50, targetArl0: 500, seed: 1 });
  * let d = engine.observeScores(1);
  * for (let i = 1; i < 100; i++) d = engine.observeScores(1 + 0.1 * Math.sin(i));
- * [d.phase, engine.observeScores(1.05).action]; // ["watching", "learn"]
+ * [d.phase, engine.observeScores(1.05).action]; // ["commissioning", "learn"]
+ * engine.phase; // "watching" (the 100th sample ended the calibration)
  */
 export class DecisionEngine {
   static readonly kind = "leeway.policy.decision-engine";

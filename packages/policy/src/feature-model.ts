@@ -84,6 +84,11 @@ export interface CandidateValidation {
  * references (the commissioning one, then one per accepted retrain), and the
  * rows kept while a change settles. It scores each sample, asks the
  * {@link DecisionCore}, and carries the decision out.
+ *
+ * @example
+ * const engine = new DecisionEngine({ inputs: 8, hidden: 4, commissioning: 20, calibration: 20, seed: 1 });
+ * for (let i = 0; i < 20; i++) engine.observe(Float64Array.from({ length: 8 }, (_, j) => 1 + 0.01 * Math.sin(i + j)));
+ * [engine.model?.lineageSize, engine.model?.pool.size]; // [1, 1]: the commissioning reference is frozen
  */
 export class FeatureModel {
   static readonly kind = "leeway.policy.feature-model";
