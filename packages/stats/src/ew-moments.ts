@@ -16,6 +16,31 @@ import {
 // Module-local copies: hot loops read them as plain bindings, whatever the module loader does with imports.
 const SAMPLE_LIMIT = MAX_SAMPLE_MAGNITUDE;
 const accept = acceptSample;
+/**
+ * The batch loop once W has reached its fixed point: r = 1/W is constant, so
+ * x̄ ← (1 − r)x̄ + r·x and S ← λS + (x − x̄_old)(x − x̄_new) need no division.
+ * Runs from xs[from] to the first sample it may not take and returns that
+ * index; `state` holds [x̄, S] in and out. A function of its own, so that the
+ * engine optimises this loop by itself.
+ */
+function steadyRun(xs: Float64Array, from: number, state: Float64Array, lambda: number, r: number): number {
+  const c = 1 - r;
+  let mean = state[0] as number;
+  let s = state[1] as number;
+  let i = from;
+  for (; i < xs.length; i++) {
+    const x = xs[i] as number;
+    if (!(Math.abs(x) <= SAMPLE_LIMIT)) break; // NaN, ±Infinity or too large to square
+    const m = c * mean + r * x; // x̄ ← (1 − r)x̄ + r·x
+    const p = (x - mean) * (x - m); // (x − x̄_old)(x − x̄_new)
+    s = lambda * s + (p > 0 ? p : 0); // S ← λS + p
+    mean = m;
+  }
+  state[0] = mean;
+  state[1] = s;
+  return i;
+}
+
 /** Options of {@link EwMoments}: give exactly one of `halfLife` and `alpha`. */
 export interface EwMomentsOptions {
   /** Samples after which a sample's weight has halved (> 0); α = 1 − 2^(−1/halfLife). */
@@ -78,6 +103,7 @@ export class EwMoments {
   #skipped = 0;
   #weight = 0;
   #r = 0; // 1/W, kept so that a converged W costs no division
+  readonly #steady = new Float64Array(2); // mean and S handed to and from steadyRun
   #mean = 0;
   #s = 0;
 
@@ -189,16 +215,12 @@ export class EwMoments {
       i++;
     }
     if (i < len && lambda * weight + 1 === weight) {
-      const r = 1 / weight;
-      const c = 1 - r;
-      for (; i < len; i++) {
-        const x = xs[i] as number;
-        if (!(Math.abs(x) <= SAMPLE_LIMIT)) break;
-        const m = c * mean + r * x; // x̄ ← (1 − r)x̄ + r·x
-        const p = (x - mean) * (x - m); // (x − x̄_old)(x − x̄_new)
-        s = lambda * s + (p > 0 ? p : 0); // S ← λS + p
-        mean = m;
-      }
+      const steady = this.#steady;
+      steady[0] = mean;
+      steady[1] = s;
+      i = steadyRun(xs, i, steady, lambda, 1 / weight);
+      mean = steady[0] as number;
+      s = steady[1] as number;
     }
     this.#count += i;
     this.#weight = weight;
