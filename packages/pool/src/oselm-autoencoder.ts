@@ -374,11 +374,14 @@ export class OselmAutoencoder {
     }
     const hRows = new Float64Array(k * L);
     const eRows = new Float64Array(k * n);
+    // the forward passes run on the model's own buffers (views into the chunk
+    // arrays made the loops markedly slower), then the rows are copied out
     for (let r = 0; r < k; r++) {
-      const z = zRows.subarray(r * n, (r + 1) * n);
-      const h = hRows.subarray(r * L, (r + 1) * L);
-      hiddenForward(this.#layer, this.#activation, z, h);
-      outputResidual(this.#beta, h, z, L, n, eRows.subarray(r * n, (r + 1) * n));
+      this.#z.set(zRows.subarray(r * n, (r + 1) * n));
+      hiddenForward(this.#layer, this.#activation, this.#z, this.#h);
+      outputResidual(this.#beta, this.#h, this.#z, L, n, this.#e);
+      hRows.set(this.#h, r * L);
+      eRows.set(this.#e, r * n);
     }
     this.#refuseOn(woodburyChunk(this.#p, this.#beta, hRows, eRows, k, L, n, this.#forgetting));
     this.#count += k;
