@@ -75,7 +75,7 @@ export interface DecisionCoreOptions {
   trendMinBlocks?: number;
   /** What a confirmed drift that no known mode explains leads to. Default "auto". */
   retrain?: RetrainMode;
-  /** Retrains allowed per horizon. Default 3. */
+  /** Retrain attempts (a candidate that fails validation counts too) allowed per horizon. Default 3. */
   retrainBudget?: number;
   /** The horizon of that budget, in samples. Default 86400 (a day at 1 Hz). */
   retrainHorizon?: number;
