@@ -129,15 +129,17 @@ it("pool: OS-ELM autoencoder 256-32-256 and a pool of 4", () => {
 
   const [dotNs, scoreNs, learnNs, refScoreNs, refLearnNs, poolNs] = interleaved([dotRun, scoreRun(model64), learnRun(model64), refScoreRun, refLearnRun, poolRun]) as [number[], number[], number[], number[], number[], number[]];
   // (b): achieved multiply-adds per ns over the dot product's, per round
-  const rate = (ma: number, ns: number[]): string => {
+  // also the ratio of the fastest rounds, the closest this shared machine gets to an idle one
+  const rate = (ma: number, ns: number[], dots = dotNs): string => {
     const achieved = median(ns.map((x) => ma / x));
-    return `${achieved.toFixed(3)} multiply-adds/ns = ${ratioOf(dotNs, ns.map((x) => x / ma)).toFixed(2)} × the dot-product rate`;
+    const fastest = Math.min(...dots) / (Math.min(...ns) / ma);
+    return `${achieved.toFixed(3)} multiply-adds/ns = ${ratioOf(dots, ns.map((x) => x / ma)).toFixed(2)} × the dot-product rate (fastest rounds: ${fastest.toFixed(2)} ×)`;
   };
   report.add("dot product of two Float64Arrays (per multiply-add)", median(dotNs), baseline, `${(1 / median(dotNs)).toFixed(3)} multiply-adds/ns (median of ${dotNs.length} rounds)`);
   report.add("score 256-32-256 float64", median(scoreNs), baseline,
-    `${(1e9 / median(scoreNs)).toFixed(0)} samples/s; (a) ${ratioOf(refScoreNs, scoreNs).toFixed(1)}× faster than ml-matrix; (b) ${rate(SCORE_MA, scoreNs)}`);
+    `${(1e9 / median(scoreNs)).toFixed(0)} samples/s; (a) ${ratioOf(refScoreNs, scoreNs).toFixed(1)}× faster than ml-matrix (fastest rounds: ${(Math.min(...refScoreNs) / Math.min(...scoreNs)).toFixed(1)}×); (b) ${rate(SCORE_MA, scoreNs)}`);
   report.add("learn 256-32-256 float64", median(learnNs), baseline,
-    `${(1e9 / median(learnNs)).toFixed(0)} samples/s; (a) ${ratioOf(refLearnNs, learnNs).toFixed(1)}× faster than ml-matrix; (b) ${rate(LEARN_MA, learnNs)}`);
+    `${(1e9 / median(learnNs)).toFixed(0)} samples/s; (a) ${ratioOf(refLearnNs, learnNs).toFixed(1)}× faster than ml-matrix (fastest rounds: ${(Math.min(...refLearnNs) / Math.min(...learnNs)).toFixed(1)}×); (b) ${rate(LEARN_MA, learnNs)}`);
   report.add("score, same algorithm in ml-matrix operations", median(refScoreNs), baseline, `${(1e9 / median(refScoreNs)).toFixed(0)} samples/s`);
   report.add("learn, same algorithm in ml-matrix operations", median(refLearnNs), baseline, `${(1e9 / median(refLearnNs)).toFixed(0)} samples/s`);
   report.add("pool of 4: score all + learn nearest", median(poolNs), baseline, `${(1e9 / median(poolNs)).toFixed(0)} samples/s; (b) ${rate(4 * SCORE_MA + UPDATE_MA, poolNs)}`);
@@ -158,8 +160,7 @@ it("pool: OS-ELM autoencoder 256-32-256 and a pool of 4", () => {
   // float32 state last: from here on the shared loops also see Float32Array
   const model32 = fitted("float32");
   const [dot32, score32, learn32] = interleaved([dotRun, scoreRun(model32), learnRun(model32)], 5) as [number[], number[], number[]];
-  const rate32 = (ma: number, ns: number[]): string => `${median(ns.map((x) => ma / x)).toFixed(3)} multiply-adds/ns = ${ratioOf(dot32, ns.map((x) => x / ma)).toFixed(2)} × the dot-product rate`;
-  report.add("score 256-32-256 float32", median(score32), baseline, `${(1e9 / median(score32)).toFixed(0)} samples/s; (b) ${rate32(SCORE_MA, score32)}`);
-  report.add("learn 256-32-256 float32", median(learn32), baseline, `${(1e9 / median(learn32)).toFixed(0)} samples/s; (b) ${rate32(LEARN_MA, learn32)}`);
+  report.add("score 256-32-256 float32", median(score32), baseline, `${(1e9 / median(score32)).toFixed(0)} samples/s; (b) ${rate(SCORE_MA, score32, dot32)}`);
+  report.add("learn 256-32-256 float32", median(learn32), baseline, `${(1e9 / median(learn32)).toFixed(0)} samples/s; (b) ${rate(LEARN_MA, learn32, dot32)}`);
   report.write();
 });
