@@ -160,6 +160,23 @@ describe("DecisionEngine in feature mode (small)", () => {
   });
 });
 
+describe("DecisionEngine batch paths", () => {
+  it("observeMany and observeScoresMany reach the same decisions and state as one call per sample", () => {
+    const xs = spectra(300, 5, (t) => ({ shift: t >= 200 ? 0.6 : 0, bump: 0 }));
+    const a = new DecisionEngine(SMALL);
+    const b = new DecisionEngine(SMALL);
+    const one = xs.map((x) => a.observe(x));
+    expect(b.observeMany(xs)).toEqual(one);
+    expect(JSON.stringify(b.snapshot())).toBe(JSON.stringify(a.snapshot()));
+    const live = Float64Array.from({ length: 700 }, (_, i) => 0.02 * (1 + 0.1 * Math.sin(i * 1.7)));
+    const refs = Array.from(live, (v) => [v * 1.05]);
+    const c = new DecisionEngine(QUICK);
+    const d = new DecisionEngine(QUICK);
+    const single = Array.from(live, (v, i) => c.observeScores(v, refs[i]));
+    expect(d.observeScoresMany(live, refs)).toEqual(single);
+  });
+});
+
 describe("DecisionEngine snapshots in score-only mode", () => {
   it("refuses corrupted snapshots", () => {
     const engine = new DecisionEngine(QUICK);
