@@ -6,23 +6,27 @@ import { demoEngineOptions } from "../../packages/cli/src/commands/demo.js";
 import { FIGURE_STYLE } from "../../packages/cli/src/report/html.js";
 import { eventStrip, groupSeries, linePlot } from "../../packages/cli/src/report/plots.js";
 import { TimelineCollector } from "../../packages/cli/src/report/timeline.js";
+import { ModeRouter } from "../../packages/cli/src/mode-router.js";
 
 // The worked examples of docs/notebook.md and docs/embedding.md, run as written
 // (imports from "leeway" point at the package's sources here).
 describe("docs examples", () => {
   it("docs/notebook.md: replay the scenario and plot its scores", () => {
-    const scale = 12; // samples per simulated hour: 2016 samples for the week
-    const { spectra, events } = collect(harbourLane({ scale, seed: "notebook" }));
-    const engine = new DecisionEngine(demoEngineOptions(scale, 256, "notebook"));
-    const drawn = new TimelineCollector({ columns: 800 });
-    const { metrics } = replay({ observe: (x: Float64Array) => { const d = engine.observe(x); drawn.add(d); return d; } }, spectra, { events });
+    const scale = 36; // samples per simulated hour: 6048 samples for the week
+    const { spectra, truth, events } = collect(harbourLane({ scale, seed: "notebook" }));
+    const router = new ModeRouter((mode) => new DecisionEngine(demoEngineOptions(scale, 256, `notebook/${mode}`)), { acknowledgeAfter: 4, confirmAfter: 4 });
+    const drawn = new TimelineCollector({ columns: 800 }); // min/max per column, constant memory
+    const shown = events.filter((e) => e.type !== "mode-change"); // the speed changes route the samples
+    const samples = spectra.map((x, i) => ({ x, mode: truth[i]!.mode }));
+    const { metrics } = replay({ observe: (s: { x: Float64Array; mode: string }) => { const d = router.observe(s.x, s.mode); drawn.add(d); return d; } }, samples, { events: shown });
     const t = drawn.result();
-    const { scores } = groupSeries(t.series);
-    const shown = events.filter((e) => e.type !== "mode-change");
-    const html = `<style>${FIGURE_STYLE}</style>` + linePlot(t, { id: "ps2", title: "PS-2 scores", traces: scores, allowLog: true, markers: true, phaseLegend: true, events: shown }) + eventStrip(t, shown, "ps2-events");
-    expect(metrics.samples).toBe(2016);
-    expect(t.count).toBe(2016);
+    const { scores, tests } = groupSeries(t.series);
+    const html = `<style>${FIGURE_STYLE}</style>` + linePlot(t, { id: "ps2", title: "PS-2 scores", traces: scores, allowLog: true, markers: true, phaseLegend: true, events: shown }) + linePlot(t, { id: "ps2-test", title: tests[0]?.name ?? "change test", traces: tests[0]?.traces ?? [], events: shown }) + eventStrip(t, shown, "ps2-events");
+    expect(metrics.samples).toBe(6048);
+    expect(metrics.events).toBe(3);
+    expect(t.count).toBe(6048);
     expect(html).toContain('data-key="liveScore"');
+    expect(html).toContain('data-key="change.statistic"');
     expect(html).toContain("standby compressor installed");
     const live = t.series.find((s) => s.key === "liveScore");
     expect(live?.max.length).toBe(t.buckets);

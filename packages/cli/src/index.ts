@@ -23,6 +23,7 @@ export { renderReport, FIGURE_STYLE } from "./report/html.js";
 export { linePlot, causeStrip, eventStrip, groupSeries, envelopePath, PLOT_WIDTH } from "./report/plots.js";
 export type { LinePlotOptions, Trace, PlotGroups } from "./report/plots.js";
 export { ScriptedOperator } from "./operator.js";
+export { ModeRouter } from "./mode-router.js";
 export type { OperatorAction } from "./operator.js";
 export type { ReportContent } from "./report/html.js";
 export type { ReportEvent } from "./report/plots.js";

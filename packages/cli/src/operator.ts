@@ -31,18 +31,18 @@ export class ScriptedOperator {
     this.#confirmAfter = options.confirmAfter;
   }
 
-  /** Looks at the decision just taken and acts when a wait has run out. */
-  after(decision: Decision): void {
+  /** Looks at the decision just taken and acts when a wait has run out; `at` is the index recorded with an action (default the decision's). */
+  after(decision: Decision, at: number = decision.index): void {
     this.#latchedFor = decision.phase === "latched" ? this.#latchedFor + 1 : 0;
     this.#waitingFor = this.#engine.awaitingConfirmation ? this.#waitingFor + 1 : 0;
     if (this.#acknowledgeAfter !== null && this.#latchedFor >= this.#acknowledgeAfter) {
       this.#engine.acknowledge();
-      this.actions.push({ index: decision.index, action: "acknowledge" });
+      this.actions.push({ index: at, action: "acknowledge" });
       this.#latchedFor = 0;
     }
     if (this.#confirmAfter !== null && this.#waitingFor >= this.#confirmAfter) {
       this.#engine.confirmRetrain();
-      this.actions.push({ index: decision.index, action: "confirm-retrain" });
+      this.actions.push({ index: at, action: "confirm-retrain" });
       this.#waitingFor = 0;
     }
   }

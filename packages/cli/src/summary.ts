@@ -14,7 +14,7 @@ function routine(action: string, cause: string): boolean {
  */
 export function timelineText(t: ReportTimeline, limit = 24, label: (index: number, time: string | number | null) => string = (i) => `#${i}`): string {
   const notable = t.transitions.filter((d) => !routine(d.action, d.cause));
-  const lines = notable.slice(0, limit).map((d) => `  ${label(d.index, d.time).padEnd(18)} ${d.action.padEnd(18)} ${d.cause.padEnd(14)} ${d.phase.padEnd(13)} live ${formatNumber(d.liveScore)}`);
+  const lines = notable.slice(0, limit).map((d) => `  ${label(d.index, d.time).padEnd(18)} ${d.mode === null ? "" : d.mode.padEnd(6)}${d.action.padEnd(18)} ${d.cause.padEnd(14)} ${d.phase.padEnd(13)} live ${formatNumber(d.liveScore)}`);
   if (notable.length > limit) lines.push(`  … ${notable.length - limit} more decision changes (see the report)`);
   if (t.transitionsOmitted > 0) lines.push(`  … and ${t.transitionsOmitted} changes beyond the ${t.transitions.length} kept`);
   if (lines.length === 0) lines.push("  (no alarm, retrain, mode switch or hold)");

@@ -16,8 +16,9 @@ describe("leeway demo", () => {
     const lines = readFileSync(join(dir, "decisions.ndjson"), "utf8").trimEnd().split("\n");
     expect(lines.length).toBe(1008);
     expect(lines.map((l, i) => parseDecisionLine(l, "d", i + 1).decision.index)).toEqual(lines.map((_, i) => i));
-    const labels = JSON.parse(readFileSync(join(dir, "labels.json"), "utf8")) as { events: { type: string; start: number }[] };
-    expect(labels.events.map((e) => e.type)).toEqual(expect.arrayContaining(["environment-shift", "degradation", "fault"]));
+    const labels = JSON.parse(readFileSync(join(dir, "labels.json"), "utf8")) as { events: { type: string; start: number }[]; anomaly: number[] };
+    expect(labels.events.map((e) => e.type)).toEqual(["environment-shift", "degradation", "fault"]);
+    expect(labels.anomaly.length).toBe(1008);
     const html = readFileSync(join(dir, "report.html"), "utf8");
     expect(html).toContain("Harbour Lane pump station, skid PS-2");
     expect(html).toContain('id="plot-events"');
@@ -32,16 +33,22 @@ describe("leeway demo", () => {
     expect(readFileSync(join(a, "report.html"), "utf8")).toBe(readFileSync(join(b, "report.html"), "utf8"));
   });
 
-  it("engine spans follow the scale (a day of commissioning, hours of trend), with floors for small scales", () => {
-    const o = demoEngineOptions(60, 256, "s");
-    expect(o.commissioning).toBe(24 * 60);
-    expect(o.retrainHorizon).toBe(24 * 60);
-    expect((o.trendBlock as number) * (o.trendWindow as number)).toBe(36 * 60);
-    expect(demoEngineOptions(1, 256, "s").commissioning).toBe(200);
+  it("engine spans follow the scale: the policy guide's settings at scale 360, floors below", () => {
+    const o = demoEngineOptions(360, 256, "s");
+    expect(o).toMatchObject({ commissioning: 120, calibration: 120, settling: 90, settlingLimit: 360, trendBlock: 6, coolDown: 180, baselineHalfLife: 180, targetArl0: 2000, retrainHorizon: 8640, hidden: 16, members: 3 });
+    expect(demoEngineOptions(720, 256, "s").commissioning).toBe(240);
+    expect(demoEngineOptions(6, 256, "s").commissioning).toBe(40);
+  });
+
+  it("each speed setting has its own engine, named in every decision", async () => {
+    const dir = scratchDir("demo-modes");
+    expect((await runCli(["demo", "--scale", "12", "--out", dir])).code).toBe(0);
+    const modes = new Set(readFileSync(join(dir, "decisions.ndjson"), "utf8").trimEnd().split("\n").map((l) => (JSON.parse(l) as { evidence: { mode: string } }).evidence.mode));
+    expect([...modes].sort()).toEqual(["high", "low", "mid"]);
   });
 
   it("simulated clock: sample i at s samples per hour", () => {
-    expect(simulatedClock(0, 60)).toBe("day 0 00:00");
-    expect(simulatedClock(34 * 60 + 5, 60)).toBe("day 1 10:05");
+    expect(simulatedClock(0, 60)).toBe("day 1 00:00");
+    expect(simulatedClock(34 * 60 + 5, 60)).toBe("day 2 10:05"); // the compressor: day 2, 10:00 (hour 34)
   });
 });

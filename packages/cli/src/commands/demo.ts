@@ -8,7 +8,7 @@ import { numberFlag, stringFlag, type CommandSpec, type ParsedArguments } from "
 import { decisionLine } from "../decision-log.js";
 import { UsageError } from "../exit-codes.js";
 import { writeWholeFile, type CliStreams } from "../io.js";
-import { ScriptedOperator } from "../operator.js";
+import { ModeRouter } from "../mode-router.js";
 import { ProgressBar } from "../progress.js";
 import { renderReport } from "../report/html.js";
 import { TimelineCollector } from "../report/timeline.js";
@@ -16,8 +16,8 @@ import { countsText, metricsText, timelineText } from "../summary.js";
 import { leewayVersion } from "../version.js";
 import { reportMetrics } from "./report.js";
 
-/** Samples per simulated hour the demo runs at by default (one frame a minute). */
-export const DEMO_SCALE = 60;
+/** Samples per simulated hour the demo runs at by default (one frame every ten seconds). */
+export const DEMO_SCALE = 360;
 
 /** Arguments, flags and help of `leeway demo`. */
 export const demoSpec: CommandSpec = {
@@ -31,42 +31,41 @@ export const demoSpec: CommandSpec = {
   ],
   details: [
     "The scenario (invented): pump station Harbour Lane, skid PS-2, a centrifugal pump on a variable-frequency drive at 990, 1485 and 2970 rpm, an accelerometer on the drive-end bearing housing (5 kHz, 1024-sample frames). Seven simulated days: day 2 a standby compressor raises the noise floor (concept drift), from day 4 an outer-race bearing defect grows (degradation), day 6 a rag clogs the impeller for an hour (anomaly).",
-    "Each frame becomes a 256-band log spectrum (@leeway/signal); the decision engine (@leeway/policy) commissions an OS-ELM autoencoder pool on the first day and decides on every sample; the decisions are measured against the scenario's ground truth (@leeway/eval). Time spans of the engine (trend windows, cool-down, retrain horizon) are scaled to the chosen rate.",
+    "Each frame becomes a 256-band log spectrum (@leeway/signal). The host knows the speed setpoint from the drive, so each spectrum goes to the decision engine of its speed (@leeway/policy, one OS-ELM autoencoder pool each, commissioned on the first visit to that speed); a scripted operator acknowledges each alarm four samples after it latched. The decisions are measured against the scenario's ground truth (@leeway/eval). The engines' time spans are scaled to the chosen rate.",
   ],
   examples: ["npx leeway demo", "leeway demo --scale 30 --out /tmp/ps2"],
 };
 
 /**
- * Engine options for the demo at `scale` samples per simulated hour: spans
- * that are times (commissioning a day, trend windows of hours, a cool-down
- * of half an hour, a daily retrain budget) are converted to samples; counts
- * that are sample sizes for statistics keep a floor.
+ * Engine options for the demo at `scale` samples per simulated hour: the
+ * policy guide's Harbour Lane settings at one sample every ten seconds
+ * (scale 360), with every span in samples scaled by scale/360 and floors that
+ * keep the statistics meaningful at small scales.
  */
 export function demoEngineOptions(scale: number, inputs: number, seed: string): DecisionEngineOptions {
-  const hours = (h: number, floor: number): number => Math.max(floor, Math.round(h * scale));
-  const settling = hours(3, 60);
-  const trendBlock = Math.max(1, Math.round(scale / 6)); // ten minutes a block
+  const f = scale / 360;
+  const span = (samples: number, floor: number): number => Math.max(floor, Math.round(samples * f));
   return {
     inputs,
     seed,
-    commissioning: hours(24, 200),
-    calibration: hours(6, 100),
-    settling,
-    settlingLimit: Math.max(settling, hours(12, 200)),
-    trendBlock,
-    trendWindow: Math.max(40, Math.round((36 * scale) / trendBlock)),
-    coolDown: hours(1, 10),
-    baselineHalfLife: hours(0.5, 60),
-    retrainHorizon: hours(24, 100),
-    targetArl0: Math.min(1e7, Math.max(1000, hours(168 * 4, 1000))),
-    calibrationReplicates: 30,
+    commissioning: span(120, 40),
+    calibration: span(120, 40),
+    settling: span(90, 30),
+    settlingLimit: span(360, 120),
+    trendBlock: Math.max(1, Math.round(6 * f)),
+    coolDown: span(180, 10),
+    baselineHalfLife: span(180, 20),
+    targetArl0: span(2000, 500),
+    retrainHorizon: span(8640, 200),
+    hidden: 16,
+    members: 3,
   };
 }
 
-/** "day 3 14:05" for sample i at `scale` samples per hour. */
+/** "day 2 10:05" for sample i at `scale` samples per hour (days counted from 1, as the scenario tells them). */
 export function simulatedClock(i: number, scale: number): string {
   const minutes = Math.floor((i / scale) * 60);
-  const day = Math.floor(minutes / 1440);
+  const day = Math.floor(minutes / 1440) + 1;
   const hh = Math.floor((minutes % 1440) / 60);
   const mm = minutes % 60;
   return `day ${day} ${String(hh).padStart(2, "0")}:${String(mm).padStart(2, "0")}`;
@@ -87,9 +86,8 @@ export async function runDemo(parsed: ParsedArguments, io: CliStreams): Promise<
   const power = new Float64Array(analyzer.bins);
   const belowNyquist = power.subarray(0, s.frameSize / 2);
   const bands = new Float64Array(s.bins);
-  const engine = new DecisionEngine(demoEngineOptions(scale, s.bins, seed));
-  // Nobody is on duty in a simulation: an operator acknowledges an alarm an hour after it latched.
-  const operator = new ScriptedOperator(engine, { acknowledgeAfter: Math.max(1, Math.round(scale)), confirmAfter: Math.max(1, Math.round(scale)) });
+  // One engine per speed setting, as a host that reads the setpoint from the drive would run them.
+  const router = new ModeRouter((mode) => new DecisionEngine(demoEngineOptions(scale, s.bins, `${seed}/${mode}`)), { acknowledgeAfter: 4, confirmAfter: 4 });
   const length = simulator.length;
   io.stderr.write(`demo: Harbour Lane PS-2, ${length} samples (${scale} per simulated hour, 7 days), output in ${outDir}\n`);
 
@@ -102,22 +100,21 @@ export async function runDemo(parsed: ParsedArguments, io: CliStreams): Promise<
 
   // sim → signal: frames of acceleration to a 256-band log spectrum (the
   // simulator's own spectrum scaling: log1p of band amplitude / reference).
-  const frames: Iterable<Float64Array> = {
+  const frames: Iterable<{ x: Float64Array; mode: string }> = {
     *[Symbol.iterator]() {
       for (let raw = simulator.frame(); raw !== null; raw = simulator.frame()) {
         analyzer.power(raw.frame, power);
         reduceBins(belowNyquist, s.bins, bands, "sum");
         const x = new Float64Array(s.bins);
         for (let b = 0; b < x.length; b++) x[b] = Math.log1p(Math.sqrt(bands[b] as number) / s.reference);
-        yield x;
+        yield { x, mode: raw.truth.mode };
       }
     },
   };
-  // pool → policy: the engine scores with its autoencoder pool and decides.
-  const pipeline: Pipeline<Float64Array> = {
-    observe(x: Float64Array): Decision {
-      const d = engine.observe(x);
-      operator.after(d);
+  // pool → policy: the engine of the sample's speed scores it with its autoencoder pool and decides.
+  const pipeline: Pipeline<{ x: Float64Array; mode: string }> = {
+    observe(sample: { x: Float64Array; mode: string }): Decision {
+      const d = router.observe(sample.x, sample.mode);
       collector.add(d);
       pending.push(decisionLine(d, null));
       if (pending.length >= 512) {
@@ -128,27 +125,28 @@ export async function runDemo(parsed: ParsedArguments, io: CliStreams): Promise<
       return d;
     },
   };
-  const events: TruthEvent[] = simulator.events;
-  // → eval: the decisions measured against the scenario's ground truth.
-  const { metrics } = replay(pipeline, frames, { events, anomaly: anomalyMask(events, length) }, { keepDecisions: false });
+  // → eval: the decisions measured against the scenario's ground truth. The speed changes are
+  // known to the host (they route the samples), so the events to find are the other three.
+  const events: TruthEvent[] = simulator.events.filter((e) => e.type !== "mode-change");
+  const anomaly = anomalyMask(events, length);
+  const { metrics } = replay(pipeline, frames, { events, anomaly }, { keepDecisions: false });
   if (pending.length > 0) writeSync(fd, pending.join("\n") + "\n");
   closeSync(fd);
   renameSync(`${decisionsPath}.partial`, decisionsPath);
   progress.done();
 
   const drawn = collector.result();
-  const reportEvents = events.filter((e) => e.type !== "mode-change").map((e) => ({ cause: e.cause, start: e.start, end: e.end, id: e.id, type: e.type, label: e.label }));
+  const reportEvents = events.map((e) => ({ cause: e.cause, start: e.start, end: e.end, id: e.id, type: e.type, label: e.label }));
   const labelsPath = resolve(outDir, "labels.json");
-  await writeWholeFile(labelsPath, JSON.stringify({ events: events.map((e) => ({ cause: e.cause, start: e.start, end: e.end, id: e.id, type: e.type, label: e.label })) }, null, 1) + "\n");
+  await writeWholeFile(labelsPath, `{"events": ${JSON.stringify(reportEvents, null, 1)},\n"anomaly": [${anomaly.map((a) => (a ? 1 : 0)).join(",")}]}\n`);
   const reportPath = resolve(outDir, "report.html");
   const html = renderReport({
     title: "Harbour Lane pump station, skid PS-2",
-    subtitle: `Demo: seven simulated days at ${scale} samples per hour — compressor installed on day 2 (concept drift), outer-race bearing defect from day 4 (degradation), impeller clog on day 6 (anomaly). Speed changes between 990, 1485 and 2970 rpm are not drawn as events.`,
+    subtitle: `Demo: seven simulated days at ${scale} samples per hour — compressor installed on day 2 (concept drift), outer-race bearing defect from day 4 (degradation), impeller clog on day 6 (anomaly). One engine per speed setting (990, 1485, 2970 rpm); the plots show all three in stream order.`,
     timeline: drawn,
     events: reportEvents,
-    // The speed changes are labelled events too; the per-event table lists the other three.
-    metrics: { ...reportMetrics(metrics), perEvent: metrics.perEvent.filter((e) => e.type !== "mode-change") },
-    facts: [["scenario", "harbourLane (invented)"], ["operator", `scripted, ${operator.actions.length} actions`], ["scale", `${scale} samples per simulated hour`], ["seed", seed], ["features", `${s.bins}-band log spectrum`]],
+    metrics: reportMetrics(metrics),
+    facts: [["scenario", "harbourLane (invented)"], ["engines", `one per speed (${router.modes.join(", ")})`], ["operator", `scripted, ${router.operatorActions().length} actions`], ["scale", `${scale} samples per simulated hour`], ["seed", seed], ["features", `${s.bins}-band log spectrum`]],
     version: leewayVersion(),
   });
   await writeWholeFile(reportPath, html);
@@ -161,8 +159,8 @@ export async function runDemo(parsed: ParsedArguments, io: CliStreams): Promise<
       ...reportEvents.map((e) => `  ${simulatedClock(e.start, scale).padEnd(18)} ${e.cause.padEnd(14)} ${e.label}`),
       "",
       "decisions (changes of action or cause, routine learning left out):",
-      timelineText(drawn, 24, (i) => simulatedClock(i, scale)),
-      ...(operator.actions.length === 0 ? [] : ["", `operator (scripted: acts one simulated hour after an alarm latches or a retrain awaits confirmation): ${operator.actions.length} actions`, ...operator.actions.slice(0, 8).map((a) => `  ${simulatedClock(a.index, scale).padEnd(18)} ${a.action}`), ...(operator.actions.length > 8 ? [`  … ${operator.actions.length - 8} more`] : [])]),
+      timelineText(drawn, 30, (i) => simulatedClock(i, scale)),
+      ...operatorLines(router.operatorActions(), scale),
       "",
       "metrics:",
       metricsText(metrics),
@@ -174,4 +172,12 @@ export async function runDemo(parsed: ParsedArguments, io: CliStreams): Promise<
     ].join("\n"),
   );
   return 0;
+}
+
+function operatorLines(actions: { index: number; mode: string; action: string }[], scale: number): string[] {
+  if (actions.length === 0) return [];
+  const lines = ["", `operator (scripted: acknowledges an alarm four samples after it latched): ${actions.length} actions`];
+  for (const a of actions.slice(0, 6)) lines.push(`  ${simulatedClock(a.index, scale).padEnd(18)} ${a.action.padEnd(18)} ${a.mode} engine`);
+  if (actions.length > 6) lines.push(`  … ${actions.length - 6} more`);
+  return lines;
 }

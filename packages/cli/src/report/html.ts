@@ -117,15 +117,16 @@ export function renderReport(content: ReportContent): string {
 }
 
 function transitionsTable(t: ReportTimeline): string {
+  const hasMode = t.transitions.some((x) => x.mode !== null);
   const rows = t.transitions
     .map(
       (d) =>
-        `<tr><td class="num">${d.index}</td>${t.transitions.some((x) => x.time !== null) ? `<td>${escapeXml(d.time === null ? "" : String(d.time))}</td>` : ""}<td>${d.action}</td><td class="cause"><span style="background:${CAUSE_COLOURS[d.cause]}"></span>${d.cause}</td><td>${d.phase}</td><td class="num">${escapeXml(formatNumber(d.liveScore))}</td><td>${escapeXml(d.detail)}</td></tr>`,
+        `<tr><td class="num">${d.index}</td>${t.transitions.some((x) => x.time !== null) ? `<td>${escapeXml(d.time === null ? "" : String(d.time))}</td>` : ""}<td>${d.action}</td><td class="cause"><span style="background:${CAUSE_COLOURS[d.cause]}"></span>${d.cause}</td><td>${d.phase}</td>${hasMode ? `<td>${escapeXml(d.mode ?? "")}</td>` : ""}<td class="num">${escapeXml(formatNumber(d.liveScore))}</td><td>${escapeXml(d.detail)}</td></tr>`,
     )
     .join("");
   const hasTime = t.transitions.some((x) => x.time !== null);
   const more = t.transitionsOmitted > 0 ? `<p class="sub">${t.transitionsOmitted} later changes are not listed.</p>` : "";
-  return `<table class="data"><caption>Samples where the action, cause or phase changed</caption><thead><tr><th>index</th>${hasTime ? "<th>time</th>" : ""}<th>action</th><th>cause</th><th>phase</th><th>live score</th><th>evidence</th></tr></thead><tbody>${rows}</tbody></table>${more}`;
+  return `<table class="data"><caption>Samples where the action, cause or phase changed</caption><thead><tr><th>index</th>${hasTime ? "<th>time</th>" : ""}<th>action</th><th>cause</th><th>phase</th>${hasMode ? "<th>mode</th>" : ""}<th>live score</th><th>evidence</th></tr></thead><tbody>${rows}</tbody></table>${more}`;
 }
 
 function slug(text: string): string {

@@ -17,6 +17,8 @@ export interface DecisionTransition {
   cause: Cause;
   phase: Phase;
   liveScore: number;
+  /** `evidence.mode` when the decision carries one (the demo's engines per speed add it), else null. */
+  mode: string | null;
   /** Short text of the decision's evidence (string fields and names of the tests that took part). */
   detail: string;
 }
@@ -112,6 +114,7 @@ export class TimelineCollector {
           cause: decision.cause,
           phase: decision.phase,
           liveScore: decision.evidence.liveScore,
+          mode: typeof decision.evidence.mode === "string" ? decision.evidence.mode : null,
           detail: evidenceDetail(decision.evidence as unknown as Record<string, unknown>),
         });
       } else this.#transitionsOmitted++;
@@ -251,7 +254,7 @@ export interface ReportTimeline {
 export function evidenceDetail(evidence: Record<string, unknown>): string {
   const parts: string[] = [];
   for (const [key, value] of Object.entries(evidence)) {
-    if (key === "liveScore" || key === "referenceScores") continue;
+    if (key === "liveScore" || key === "referenceScores" || key === "mode") continue;
     if (typeof value === "string" || typeof value === "boolean") parts.push(`${key}: ${String(value)}`);
     else if (typeof value === "object" && value !== null && !Array.isArray(value)) {
       const inner = Object.entries(value as Record<string, unknown>)
