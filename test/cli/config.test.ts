@@ -7,7 +7,7 @@ import { InputError } from "../../packages/cli/src/exit-codes.js";
 describe("pipeline config", () => {
   it("defaults: auto mode and time column, no engine options (the engine's defaults apply)", () => {
     const c = defaultConfig();
-    expect(c.input).toEqual({ mode: "auto", time: undefined, columns: undefined });
+    expect(c.input).toEqual({ mode: "auto", time: undefined, columns: undefined, modeColumn: null });
     expect(c.engine).toEqual({});
     expect(c.report).toEqual({ title: "leeway replay", columns: 1200 });
   });

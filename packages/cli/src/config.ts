@@ -62,6 +62,7 @@ export const CONFIG_FIELDS: Readonly<Record<string, ConfigField>> = {
       mode: { kind: "string", default: "auto", choices: ["auto", "scores", "features"], doc: "auto: one numeric column, or columns score/live and ref…, is scores mode; otherwise every numeric column is a feature." },
       time: { kind: "string", default: "auto", doc: 'The column carried through as time: "auto" (a column named time, timestamp, datetime, date or t), "none", or a column name.' },
       columns: { kind: "strings", default: null, doc: "Only these columns (features mode; in scores mode the one score column). Default: every numeric column." },
+      modeColumn: { kind: "string", default: null, doc: "A column naming each record's operating mode (a speed setting, a valve position): one engine per distinct value, each record decided by the engine of its mode. Default: none (one engine)." },
     },
   },
   engine: { kind: "section", doc: "Options of the decision engine (@leeway/policy); absent keys take the engine's defaults.", fields: ENGINE_FIELDS },
@@ -85,7 +86,7 @@ export const CONFIG_FIELDS: Readonly<Record<string, ConfigField>> = {
 
 /** A validated pipeline config. */
 export interface PipelineConfig {
-  input: { mode: "auto" | StreamMode; time: string | null | undefined; columns: readonly string[] | undefined };
+  input: { mode: "auto" | StreamMode; time: string | null | undefined; columns: readonly string[] | undefined; modeColumn: string | null };
   /** Engine options given in the file (absent keys are left to the engine's defaults). */
   engine: DecisionEngineOptions;
   operator: { acknowledgeAfter: number | null; confirmAfter: number | null };
@@ -124,6 +125,7 @@ function fromValidated(v: ConfigObject, source: { file: string; text: string } |
       mode: input.mode as "auto" | StreamMode,
       time: time === "auto" ? undefined : time === "none" ? null : time,
       columns: (input.columns as readonly string[] | null) ?? undefined,
+      modeColumn: input.modeColumn as string | null,
     },
     engine: given as DecisionEngineOptions,
     operator: { acknowledgeAfter: operator.acknowledgeAfter as number | null, confirmAfter: operator.confirmAfter as number | null },

@@ -30,15 +30,29 @@ export class ModeRouter {
     this.#operator = operator;
   }
 
-  /** Decides on a feature vector of the given mode. */
+  /** Decides on a feature vector of the given mode (feature-mode engines). */
   observe(x: Float64Array, mode: string): Decision {
+    const entry = this.#entry(mode);
+    return this.#renumber(entry, entry.engine.observe(x), mode);
+  }
+
+  /** Decides on the scores of a sample of the given mode (score-only engines; see `DecisionEngine.observeScores`). */
+  observeScores(live: number, references: readonly number[] | undefined, mode: string): Decision {
+    const entry = this.#entry(mode);
+    return this.#renumber(entry, references === undefined ? entry.engine.observeScores(live) : entry.engine.observeScores(live, references), mode);
+  }
+
+  #entry(mode: string): { engine: DecisionEngine; operator: ScriptedOperator | null } {
     let entry = this.#engines.get(mode);
     if (entry === undefined) {
       const engine = this.#make(mode);
       entry = { engine, operator: this.#operator === null ? null : new ScriptedOperator(engine, this.#operator) };
       this.#engines.set(mode, entry);
     }
-    const d = entry.engine.observe(x);
+    return entry;
+  }
+
+  #renumber(entry: { engine: DecisionEngine; operator: ScriptedOperator | null }, d: Decision, mode: string): Decision {
     const index = this.#index++;
     entry.operator?.after(d, index);
     return { index, action: d.action, cause: d.cause, phase: d.phase, evidence: { ...d.evidence, mode, modeIndex: d.index } };

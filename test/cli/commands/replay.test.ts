@@ -135,4 +135,23 @@ describe("leeway replay", () => {
     expect(pipe.stderr).not.toContain("\r");
     expect(tty.stdout).toBe(pipe.stdout);
   });
+
+  it("with input.modeColumn each record goes to the engine of its mode: the same decisions as one engine per mode alone", async () => {
+    const dir = scratchDir("replay-modes");
+    const config = withConfig(dir, { engine: SHORT_ENGINE, input: { modeColumn: "speed" } });
+    const rows = scoreRows(1200, 21);
+    const speed = (i: number): string => (Math.floor(i / 100) % 2 === 0 ? "low" : "high");
+    const csv = "speed,score\n" + rows.map((r, i) => `${speed(i)},${r.live}`).join("\n") + "\n";
+    const r = await runCli(["replay", "-", "--config", config], { stdin: csv });
+    expect(r.code, r.stderr).toBe(0);
+    expect(r.stderr).toContain("one engine per value of speed");
+    const lines = r.stdout.trimEnd().split("\n").map((l) => JSON.parse(l) as { index: number; action: string; cause: string; evidence: { mode: string; liveScore: number } });
+    const engines = new Map<string, DecisionEngine>();
+    rows.forEach((row, i) => {
+      const mode = speed(i);
+      if (!engines.has(mode)) engines.set(mode, new DecisionEngine(SHORT_ENGINE));
+      const d = engines.get(mode)!.observeScores(row.live);
+      expect([lines[i]!.index, lines[i]!.action, lines[i]!.cause, lines[i]!.evidence.mode]).toEqual([i, d.action, d.cause, mode]);
+    });
+  });
 });

@@ -58,6 +58,15 @@ describe("readSamples: layout", () => {
     expect(layout).toMatchObject({ mode: "scores", liveColumn: "live", referenceColumns: ["ref"] });
     expect([...(rows[0] as SampleRow).values]).toEqual([0.1, 0.2]);
   });
+  it("a mode column is carried per record as text and is never a feature", async () => {
+    const { layout, rows } = await read("t,rpm,b0,b1\n0,990,1,2\n1,1485,3,4\n", { modeColumn: "rpm" });
+    expect(layout).toMatchObject({ mode: "features", modeColumn: "rpm", featureColumns: ["b0", "b1"] });
+    expect(rows.map((r) => r.mode)).toEqual(["990", "1485"]);
+    const nd = await read('{"speed":"low","score":0.1}\n{"speed":"mid","score":0.2}\n', { modeColumn: "speed" });
+    expect(nd.rows.map((r) => r.mode)).toEqual(["low", "mid"]);
+    expect(await inputError("speed,score\nlow,0.1\n,0.2\n", { modeColumn: "speed" })).toContain('in:3:1: field 1 ("speed"): expected the name of an operating mode, got an empty field');
+    expect(await inputError("a,b\n1,2\n", { modeColumn: "speed" })).toContain('the mode column "speed" is not among the columns');
+  });
   it("the config can force the mode, pick columns and name or drop the time column", async () => {
     expect((await read("a,b\n1,2\n", { mode: "features", columns: ["b"] })).layout.featureColumns).toEqual(["b"]);
     expect((await read("t,a,b\n1,2,3\n", { timeColumn: null })).layout.featureColumns).toEqual(["t", "a", "b"]);

@@ -9,6 +9,7 @@ import { CliError, InputError } from "../exit-codes.js";
 import { openInput, PartialFile, readTextFile, TextSink, writeWholeFile, type CliStreams } from "../io.js";
 import { readLines } from "../input/lines.js";
 import { readSamples, type SampleRow, type StreamLayout } from "../input/samples.js";
+import { ModeRouter } from "../mode-router.js";
 import { ScriptedOperator } from "../operator.js";
 import { ProgressBar } from "../progress.js";
 import { renderReport } from "../report/html.js";
@@ -28,7 +29,7 @@ export const replaySpec: CommandSpec = {
     { name: "out", kind: "string", value: "DIR", description: "write decisions.ndjson and report.html into DIR instead of decisions to stdout" },
   ],
   details: [
-    "Columns: a single numeric column, or columns named score (or live) and ref… (at most two references: commissioning, newest), mean score-only mode (your model scores, leeway decides); otherwise every numeric column is a feature and leeway's own autoencoder pool scores them. A column named time, timestamp, datetime, date or t is carried through into the decisions. Blank lines and lines starting with # are skipped.",
+    "Columns: a single numeric column, or columns named score (or live) and ref… (at most two references: commissioning, newest), mean score-only mode (your model scores, leeway decides); otherwise every numeric column is a feature and leeway's own autoencoder pool scores them. A column named time, timestamp, datetime, date or t is carried through into the decisions; with input.modeColumn in the config, each value of that column (an operating mode) gets an engine of its own. Blank lines and lines starting with # are skipped.",
     "The input is streamed in constant memory. A malformed record stops the replay with exit code 3 and a message naming the line, the column and what was expected; decisions written until then are incomplete (with --out they stay in decisions.ndjson.partial and no report is written). With --labels the decisions are also kept compactly (19 bytes each) for the metrics.",
   ],
   examples: ["leeway replay ps2-scores.csv > decisions.ndjson", "leeway replay spectra.ndjson --config pipeline.json --labels events.json --out run/", "cat scores.csv | leeway replay - | head"],
@@ -39,11 +40,34 @@ function decide(engine: DecisionEngine, layout: StreamLayout, row: SampleRow): D
   if (layout.mode === "features") return engine.observe(row.values);
   const v = row.values;
   if (v.length === 1) return engine.observeScores(v[0] as number);
-  return engine.observeScores(v[0] as number, v.length === 2 ? [v[1] as number] : [v[1] as number, v[2] as number]);
+  return engine.observeScores(v[0] as number, references(v));
+}
+
+function references(v: Float64Array): number[] | undefined {
+  return v.length === 1 ? undefined : v.length === 2 ? [v[1] as number] : [v[1] as number, v[2] as number];
+}
+
+/** One engine (with its scripted operator, if configured), or one per value of the mode column. */
+function makeDecider(config: PipelineConfig, layout: StreamLayout): (row: SampleRow) => Decision {
+  const inputs = layout.mode === "features" ? layout.featureColumns.length : null;
+  const wantsOperator = config.operator.acknowledgeAfter !== null || config.operator.confirmAfter !== null;
+  if (layout.modeColumn === null) {
+    const engine = buildEngine(config, inputs);
+    const operator = wantsOperator ? new ScriptedOperator(engine, config.operator) : null;
+    return (row) => {
+      const d = decide(engine, layout, row);
+      operator?.after(d);
+      return d;
+    };
+  }
+  buildEngine(config, inputs); // the options are checked before the first record, not at its mode's first sample
+  const router = new ModeRouter(() => buildEngine(config, inputs), wantsOperator ? config.operator : null);
+  if (layout.mode === "features") return (row) => router.observe(row.values, row.mode as string);
+  return (row) => router.observeScores(row.values[0] as number, references(row.values), row.mode as string);
 }
 
 function describeLayout(l: StreamLayout): string {
-  const time = l.timeColumn === null ? "no time column" : `time column ${l.timeColumn}`;
+  const time = (l.timeColumn === null ? "no time column" : `time column ${l.timeColumn}`) + (l.modeColumn === null ? "" : `; one engine per value of ${l.modeColumn}`);
   const ignored = l.ignoredColumns.length === 0 ? "" : `; ignoring ${l.ignoredColumns.slice(0, 6).join(", ")}${l.ignoredColumns.length > 6 ? ", ..." : ""}`;
   if (l.mode === "scores") return `scores mode: live ${l.liveColumn as string}${l.referenceColumns.length > 0 ? `, references ${l.referenceColumns.join(", ")}` : ""}; ${time}${ignored}`;
   return `features mode: ${l.featureColumns.length} features (${l.featureColumns.slice(0, 3).join(", ")}${l.featureColumns.length > 3 ? ", ..." : ""}); ${time}${ignored}`;
@@ -61,35 +85,37 @@ export async function runReplay(parsed: ParsedArguments, io: CliStreams): Promis
   const collector = outDir === undefined ? null : new TimelineCollector({ columns: config.report.columns });
   const timeline = labels === null ? null : new Timeline();
   const progress = new ProgressBar(io.stderr, io.stderrIsTTY, input.size, "replay");
-  let engine: DecisionEngine | null = null;
-  let operator: ScriptedOperator | null = null;
+  let decider: ((row: SampleRow) => Decision) | null = null;
   let layout: StreamLayout | null = null;
   let samples = 0;
   let lastLine = 0;
   try {
     const lines = readLines(input.chunks, { name: input.name });
-    const batches = readSamples(lines, { name: input.name, mode: config.input.mode, ...(config.input.time === undefined ? {} : { timeColumn: config.input.time }), ...(config.input.columns === undefined ? {} : { columns: config.input.columns }) });
+    const batches = readSamples(lines, {
+      name: input.name,
+      mode: config.input.mode,
+      ...(config.input.time === undefined ? {} : { timeColumn: config.input.time }),
+      ...(config.input.columns === undefined ? {} : { columns: config.input.columns }),
+      ...(config.input.modeColumn === null ? {} : { modeColumn: config.input.modeColumn }),
+    });
     for await (const batch of batches) {
-      if (engine === null) {
+      if (decider === null) {
         layout = batch.layout;
         if (layout.mode === "scores" && layout.referenceColumns.length > 2) {
           throw new InputError(`${input.name}: at most two reference columns (commissioning, newest) are read; got ${layout.referenceColumns.join(", ")}`);
         }
         io.stderr.write(`replay: ${describeLayout(layout)}\n`);
-        engine = buildEngine(config, layout.mode === "features" ? layout.featureColumns.length : null);
-        if (config.operator.acknowledgeAfter !== null || config.operator.confirmAfter !== null) operator = new ScriptedOperator(engine, config.operator);
+        decider = makeDecider(config, layout);
       }
-      const l = layout as StreamLayout;
       for (const row of batch.rows) {
         lastLine = row.line;
         let decision: Decision;
         try {
-          decision = decide(engine, l, row);
+          decision = decider(row);
         } catch (error) {
           if (error instanceof LeewayError) throw new InputError(`${input.name}:${row.line}: the engine refused this record: ${error.message} [${error.code}]`);
           throw error;
         }
-        operator?.after(decision);
         const pending = sink.write(decisionLine(decision, row.time) + "\n");
         if (pending !== undefined) await pending;
         collector?.add(decision, row.time);

@@ -17,6 +17,8 @@ export interface StreamLayout {
   mode: StreamMode;
   /** The column carried through as time, or null. */
   timeColumn: string | null;
+  /** The column naming each record's operating mode (config `input.modeColumn`), or null. */
+  modeColumn: string | null;
   /** Scores mode: the live score's column. */
   liveColumn: string | null;
   /** Scores mode: the reference scores' columns. */
@@ -35,6 +37,8 @@ export interface SampleRow {
   line: number;
   /** The time column's value, or null. */
   time: string | number | null;
+  /** The mode column's value as text, or null. */
+  mode: string | null;
   /** Scores mode: [live, ...references]; features mode: the feature vector. */
   values: Float64Array;
 }
@@ -56,6 +60,8 @@ export interface ReadSamplesOptions {
   timeColumn?: string | null;
   /** Only these columns (features mode, or the live column in scores mode); default every numeric column. */
   columns?: readonly string[];
+  /** A column naming each record's operating mode (not a feature); default none. */
+  modeColumn?: string;
 }
 
 const TIME_NAMES = ["time", "timestamp", "datetime", "date", "t"];
@@ -134,7 +140,9 @@ function chooseLayout(
     if (!names.includes(options.timeColumn)) throw new InputError(`${where}: the time column ${JSON.stringify(options.timeColumn)} is not among the columns (${names.join(", ")})`);
     timeColumn = options.timeColumn;
   }
-  const rest = names.filter((n) => n !== timeColumn);
+  const modeColumn = options.modeColumn ?? null;
+  if (modeColumn !== null && !names.includes(modeColumn)) throw new InputError(`${where}: the mode column ${JSON.stringify(modeColumn)} is not among the columns (${names.join(", ")})`);
+  const rest = names.filter((n) => n !== timeColumn && n !== modeColumn);
   if (options.columns !== undefined) {
     for (const c of options.columns) if (!rest.includes(c)) throw new InputError(`${where}: the column ${JSON.stringify(c)} named in the config is not among the columns (${names.join(", ")})`);
   }
@@ -143,7 +151,7 @@ function chooseLayout(
   if (mode !== "features" && live !== null && options.columns === undefined) {
     const referenceColumns = rest.filter((n) => n !== live && /^ref/i.test(n));
     for (const c of [live, ...referenceColumns]) if (!isNumeric(c)) throw new InputError(`${where}: the first record's ${JSON.stringify(c)} is not a number; expected numeric scores`);
-    return layout(format, "scores", timeColumn, live, referenceColumns, [], rest.filter((n) => n !== live && !referenceColumns.includes(n)), headerless);
+    return layout(format, "scores", timeColumn, modeColumn, live, referenceColumns, [], rest.filter((n) => n !== live && !referenceColumns.includes(n)), headerless);
   }
   const chosen = options.columns ?? rest;
   const numeric = chosen.filter(isNumeric);
@@ -155,22 +163,23 @@ function chooseLayout(
   if (numeric.length === 0) throw new InputError(`${where}: no numeric column found in the first record; expected scores or features`);
   if (mode === "scores" || (mode === "auto" && numeric.length === 1)) {
     if (numeric.length > 1) throw new InputError(`${where}: scores mode needs one column or columns named score/live and ref…; got ${numeric.length} numeric columns (${numeric.slice(0, 5).join(", ")}${numeric.length > 5 ? ", ..." : ""})`);
-    return layout(format, "scores", timeColumn, numeric[0] as string, [], [], ignored, headerless);
+    return layout(format, "scores", timeColumn, modeColumn, numeric[0] as string, [], [], ignored, headerless);
   }
-  return layout(format, "features", timeColumn, null, [], numeric, ignored, headerless);
+  return layout(format, "features", timeColumn, modeColumn, null, [], numeric, ignored, headerless);
 }
 
 function layout(
   format: "csv" | "ndjson",
   mode: StreamMode,
   timeColumn: string | null,
+  modeColumn: string | null,
   liveColumn: string | null,
   referenceColumns: string[],
   featureColumns: string[],
   ignoredColumns: string[],
   headerless: boolean,
 ): StreamLayout {
-  return { format, mode, timeColumn, liveColumn, referenceColumns, featureColumns, ignoredColumns, headerless };
+  return { format, mode, timeColumn, modeColumn, liveColumn, referenceColumns, featureColumns, ignoredColumns, headerless };
 }
 
 function usedColumns(l: StreamLayout): string[] {
@@ -196,6 +205,7 @@ function csvParser(names: string[], headerless: boolean, firstText: string, firs
   const chosen = chooseLayout("csv", names, isNumeric, options, headerless);
   const indices = Int32Array.from(usedColumns(chosen), (c) => names.indexOf(c));
   const timeIndex = chosen.timeColumn === null ? -1 : names.indexOf(chosen.timeColumn);
+  const modeIndex = chosen.modeColumn === null ? -1 : names.indexOf(chosen.modeColumn);
   const width = names.length;
   return {
     layout: chosen,
@@ -219,7 +229,12 @@ function csvParser(names: string[], headerless: boolean, firstText: string, firs
         const t = parseNumberCell(cell);
         time = Number.isNaN(t) ? cell : t;
       }
-      return { line, time, values };
+      let mode: string | null = null;
+      if (modeIndex >= 0) {
+        mode = (fields[modeIndex] as string).trim();
+        if (mode.length === 0) throw recordError(name, line, csvFieldColumn(text, modeIndex), `field ${modeIndex + 1} (${JSON.stringify(names[modeIndex])}): expected the name of an operating mode, got an empty field`);
+      }
+      return { line, time, mode, values };
     },
   };
 }
@@ -259,6 +274,7 @@ function ndjsonParser(firstText: string, firstLine: number, options: ReadSamples
     return m !== null && vectors.has(m[1] as string) ? { key: m[1] as string, index: Number(m[2]), column } : { key: column, index: -1, column };
   });
   const timeColumn = chosen.timeColumn;
+  const modeColumn = chosen.modeColumn;
   return {
     layout: chosen,
     parse(text: string, line: number): SampleRow {
@@ -284,7 +300,13 @@ function ndjsonParser(firstText: string, firstLine: number, options: ReadSamples
         if (typeof t !== "string" && typeof t !== "number") throw recordError(name, line, keyColumn(text, timeColumn), `"${timeColumn}": expected a time (a number or a string), got ${t === undefined ? "no such key" : JSON.stringify(t)}`);
         time = t;
       }
-      return { line, time, values };
+      let mode: string | null = null;
+      if (modeColumn !== null) {
+        const m = record[modeColumn];
+        if ((typeof m !== "string" || m.length === 0) && typeof m !== "number") throw recordError(name, line, keyColumn(text, modeColumn), `"${modeColumn}": expected the name of an operating mode, got ${m === undefined ? "no such key" : JSON.stringify(m)}`);
+        mode = String(m);
+      }
+      return { line, time, mode, values };
     },
   };
 }
