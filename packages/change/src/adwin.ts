@@ -70,6 +70,8 @@ export interface AdwinState {
 
 const NAME = "Adwin";
 const KNOWN = ["delta", "buckets", "checkPeriod", "minSubWindow", "bound", "threshold", "warningFraction", "nonFinite"] as const;
+/** 1 − 10⁻⁶: the safety margin of the check's quick test (far above the few ulps of rounding on either side). */
+const PRUNE_MARGIN = 1 - 1e-6;
 /** Levels of the exponential histogram: bucket sizes 1, 2, 4, … 2^(MAX_LEVELS − 1). */
 const MAX_LEVELS = 52;
 
@@ -373,7 +375,9 @@ export class Adwin implements ChangeTest {
     const c3 = hoeffding ? 0 : (2 / 3) * logTerm;
     const threshold = this.#threshold;
     const cap = this.#cap;
+    const aw = a * w;
     let best = 0;
+    let bestSquared = 0; // best²·a·W·(1 − 10⁻⁶)
     let n0 = 0;
     let s0 = 0;
     let size = 2 ** (this.#levels - 1);
@@ -388,13 +392,23 @@ export class Adwin implements ChangeTest {
           return 0;
         }
         if (n0 < minSub) continue;
-        // one division per split: 1/m = W/(n₀n₁) and μ̂₁ − μ̂₀ = (n₀·Σ_W − W·Σ₀)/(n₀n₁)
-        const inv = 1 / (n0 * n1);
+        // μ̂₁ − μ̂₀ = D/P with D = n₀·Σ_W − W·Σ₀ and P = n₀n₁, and 1/m = W/P. Since ε_cut ≥ √(a·W/P),
+        // a split with D² ≤ best²·a·W·P·(1 − 10⁻⁶) has |μ̂₁ − μ̂₀| < best·ε_cut (the margin covers the
+        // rounding of both sides) and can neither raise the statistic nor pass the threshold (which
+        // exceeds best): it is passed over without a division or square root.
+        const p = n0 * n1;
+        const dd = n0 * total - w * s0;
+        const bound = bestSquared * p;
+        if (dd * dd <= bound && bound < Infinity) continue; // (an overflowed bound proves nothing)
+        const inv = 1 / p;
         const invM = w * inv;
         const eps = Math.sqrt(a * invM) + c3 * invM;
-        const diff = (n0 * total - w * s0) * inv;
+        const diff = dd * inv;
         const size0 = Math.abs(diff);
-        if (size0 > best * eps) best = size0 / eps;
+        if (size0 > best * eps) {
+          best = size0 / eps;
+          bestSquared = best * best * aw * PRUNE_MARGIN;
+        }
         if (size0 >= threshold * eps) {
           this.#statistic = best;
           return diff > 0 ? 1 : -1;
