@@ -4,10 +4,11 @@ import { CORE_DEFAULTS, DecisionEngine, type Decision } from "@leeway/policy";
 import { MachineSimulator, driftThenDegradation, stationaryNull } from "@leeway/sim";
 import { ACKNOWLEDGE_AFTER, FEATURE_OPTIONS, stream, SUITE_LENGTH } from "./policy.support.js";
 
-/** Drops the evidence only feature mode can have (the candidate's validation). */
+/** Drops the evidence only feature mode can have (the candidate's validation, the pool slot it took). */
 function comparable(d: Decision): unknown {
-  const { candidate, ...evidence } = d.evidence;
+  const { candidate, member, ...evidence } = d.evidence;
   void candidate;
+  void member;
   return { ...d, evidence };
 }
 

@@ -160,6 +160,110 @@ describe("DecisionEngine in feature mode (small)", () => {
   });
 });
 
+describe("DecisionEngine with a full pool", () => {
+  /** An operator who acknowledges every alarm 5 samples later and confirms every retrain asked for. */
+  function operate(engine: DecisionEngine, xs: Float64Array[], from = 0, until = xs.length): Decision[] {
+    const ds: Decision[] = [];
+    let ackAt = -1;
+    for (let i = from; i < until; i++) {
+      const d = engine.observe(xs[i] as Float64Array);
+      ds.push(d);
+      if (d.action === "alarm") ackAt = i + 5;
+      if (i === ackAt) engine.acknowledge();
+      if (d.action === "await-confirmation") engine.confirmRetrain();
+    }
+    return ds;
+  }
+
+  it("members: 1 retrains through a drift by replacing its only member, and the return is a switch-mode to the commissioning reference", () => {
+    const xs = spectra(1400, 1, (t) => ({ shift: t >= 400 && t < 800 ? 0.6 : 0, bump: 0 }));
+    const engine = new DecisionEngine({ ...SMALL, members: 1 });
+    const ds = operate(engine, xs);
+    const retrains = ds.filter((d) => d.action === "retrain");
+    const switches = ds.filter((d) => d.action === "switch-mode");
+    expect(retrains).toHaveLength(1);
+    expect(retrains[0]?.index).toBeGreaterThan(400);
+    expect(retrains[0]?.evidence.member).toEqual({ member: 0, servesReference: 1, replacedReference: 0 });
+    expect(switches).toHaveLength(1);
+    const sw = switches[0] as Decision;
+    expect(sw.index).toBeGreaterThan(800);
+    expect([sw.cause, sw.evidence.switchedTo]).toEqual(["known-mode", 0]);
+    // no member served the commissioning reference any more: a learning copy of it took the only place
+    expect(sw.evidence.member).toEqual({ member: 0, servesReference: 0, replacedReference: 1 });
+    expect(ds.some((d) => typeof d.evidence.outcome === "string" && d.evidence.outcome.includes("full"))).toBe(false);
+    expect(engine.references).toBe(2);
+    expect(engine.model?.pool.size).toBe(1);
+    expect(engine.model?.servedReferences).toEqual([0]);
+    // back on the first mode it learns again without alarms, and the live member scores like the commissioning reference
+    expect(ds.filter((d) => d.action === "alarm" && d.index > sw.index)).toEqual([]);
+    const tail = ds.slice(-100);
+    expect(tail.every((d) => d.action === "learn" && d.evidence.activeReference === 0)).toBe(true);
+    const last = ds[ds.length - 1] as Decision;
+    const [commissioningScore] = last.evidence.referenceScores as [number];
+    expect(last.evidence.liveScore).toBeLessThan(2 * commissioningScore);
+  });
+
+  it("members: 2 over three levels replaces the least recently used member each time the pool is full", () => {
+    const level = (t: number): number => (t < 400 ? 0 : t < 800 ? 0.6 : t < 1200 ? 1.2 : 0);
+    const xs = spectra(1700, 6, (t) => ({ shift: level(t), bump: 0 }));
+    const engine = new DecisionEngine({ ...SMALL, members: 2 });
+    const ds = operate(engine, xs);
+    const retrains = ds.filter((d) => d.action === "retrain");
+    expect(retrains.map((d) => d.evidence.member)).toEqual([
+      { member: 1, servesReference: 1, replacedReference: null }, // room for a second member
+      { member: 0, servesReference: 2, replacedReference: 0 }, // full: the first level's member was unused longest
+    ]);
+    const sw = ds.find((d) => d.action === "switch-mode") as Decision;
+    // while the return settles, the first level's samples are nearest to the middle level's member (0.6 away,
+    // against 1.2): the top level's member is then the one unused longest, and a copy of reference 0 replaces it
+    expect([sw.evidence.switchedTo, sw.evidence.member]).toEqual([0, { member: 0, servesReference: 0, replacedReference: 2 }]);
+    expect(engine.model?.servedReferences).toEqual([0, 1]);
+    expect(ds.slice(-50).every((d) => d.action === "learn")).toBe(true);
+  });
+
+  it("restored between the replacement and the return, a members: 1 engine continues bit for bit", () => {
+    const xs = spectra(1400, 2, (t) => ({ shift: t >= 400 && t < 800 ? 0.6 : 0, bump: 0 }));
+    const a = new DecisionEngine({ ...SMALL, members: 1 });
+    const first = operate(a, xs, 0, 700);
+    expect(first.filter((d) => d.action === "retrain")).toHaveLength(1);
+    const b = DecisionEngine.restore(throughJson(a.snapshot()));
+    expect(b.model?.servedReferences).toEqual([1]);
+    expect(operate(b, xs, 700)).toEqual(operate(a, xs, 700));
+    expect(JSON.stringify(b.snapshot())).toBe(JSON.stringify(a.snapshot()));
+  });
+});
+
+describe("DecisionEngine never throws from observe for its own state", () => {
+  it("a constant score stream calibrates with the white-noise threshold (reported) and still settles on a later shift", () => {
+    const engine = new DecisionEngine({ commissioning: 50, calibration: 50, targetArl0: 500, seed: 1 });
+    const ds: Decision[] = [];
+    for (let i = 0; i < 300; i++) ds.push(engine.observeScores(1));
+    const end = ds.find((d) => (d.evidence.calibration as { progress?: number } | undefined)?.progress === 1) as Decision;
+    expect((end.evidence.calibration as { changeThresholdFallback?: unknown }).changeThresholdFallback).toEqual(expect.stringContaining("calibrateThreshold"));
+    expect(ds[ds.length - 1]?.action).toBe("learn");
+    const later: Decision[] = [];
+    for (let i = 0; i < 40; i++) later.push(engine.observeScores(1.001));
+    expect(later.some((d) => d.phase === "settling" || d.phase === "latched")).toBe(true);
+  });
+
+  it("a refused model update holds the sample and reports why instead of throwing", () => {
+    const engine = new DecisionEngine({ ...SMALL, members: 1 });
+    const xs = spectra(20, 7, () => ({ shift: 0, bump: 0 }));
+    for (const x of xs) expect(engine.observe(x).action).toBe("learn"); // commissioning: every sample is learnt
+    // A finite sample of absurd magnitude (1e200 per bin) makes the Sherman–Morrison gain overflow: the autoencoder refuses the update.
+    const absurd = new Float64Array(8).fill(1e200);
+    expectLeewayError(() => engine.model?.pool.memberModel(0).learn(absurd), "E_STATE", "refused");
+    const d = engine.observe(absurd);
+    expect([d.action, d.phase]).toEqual(["hold", "commissioning"]);
+    expect(d.evidence.learning).toEqual({ refused: true, reason: expect.stringContaining("update refused") });
+    expect(d.evidence.liveScore).toBe(Number.MAX_VALUE); // an overflowing loss is reported as the largest finite score
+    // the engine goes on: the rest of commissioning and the calibration run, and the snapshot stays restorable
+    for (const x of spectra(200, 8, () => ({ shift: 0, bump: 0 }))) engine.observe(x);
+    expect(engine.phase).toBe("watching");
+    expect(() => DecisionEngine.restore(throughJson(engine.snapshot()))).not.toThrow();
+  });
+});
+
 describe("DecisionEngine batch paths", () => {
   it("observeMany and observeScoresMany reach the same decisions and state as one call per sample", () => {
     const xs = spectra(300, 5, (t) => ({ shift: t >= 200 ? 0.6 : 0, bump: 0 }));

@@ -174,6 +174,87 @@ describe("AutoencoderPool: members", () => {
     expectLeewayError(() => pool.addMember([new Float64Array(BINS)]), "E_STATE", "full");
   });
 
+  it("doc example: replaceMember swaps the only member of a full pool for one fitted on new rows", () => {
+    const pool = new AutoencoderPool({ inputs: 2, hidden: 3, maxMembers: 1, seed: 1 });
+    pool.addMember([Float64Array.of(1, 0), Float64Array.of(0.9, 0.1)], "low");
+    expect(pool.replaceMember(0, [Float64Array.of(0, 1), Float64Array.of(0.1, 0.9)], "high")).toBe(0);
+    expect([pool.size, pool.members[0]?.label]).toEqual([1, "high"]);
+  });
+
+  it("replaceMember fits a fresh member on the rows (equal to a new autoencoder from the next member seed), restarts its usage counts and leaves the others alone", () => {
+    const pool = new AutoencoderPool({ ...poolOptions, hidden: 8, maxMembers: 2 });
+    const random = new RandomSource(12);
+    const rowsA = Array.from({ length: 30 }, () => sample("A", random));
+    const rowsB = Array.from({ length: 30 }, () => sample("B", random));
+    const rowsD = Array.from({ length: 30 }, () => sample("D", random));
+    pool.addMember(rowsA, "990 rpm");
+    pool.addMember(rowsB, "1485 rpm");
+    for (let i = 0; i < 20; i++) pool.learn(sample("A", random));
+    const before = pool.members;
+    const xB = sample("B", random);
+    const lossB = pool.score(xB).losses[1] as number;
+    pool.replaceMember(0, rowsD, "2970 rpm");
+    // members 0 and 1 were started from seeds .../member/0 and /1; the replacement is the third member ever started
+    const expected = new OselmAutoencoder({ inputs: BINS, hidden: 8, seed: `${poolOptions.seed}/member/2` });
+    expected.fit(rowsD);
+    const xD = sample("D", random);
+    expect(pool.score(xD).losses[0]).toBe(expected.score(xD));
+    expect(pool.score(xD).member).toBe(0);
+    expect(pool.score(xB).losses[1]).toBe(lossB);
+    const after = pool.members;
+    expect(after[0]).toMatchObject({ label: "2970 rpm", learnt: 30, nearest: 2 });
+    expect(after[1]).toEqual({ ...before[1], nearest: (before[1] as { nearest: number }).nearest + 2, lastUsed: after[1]?.lastUsed });
+    expect(pool.size).toBe(2);
+  });
+
+  it("replaceMember with a frozen model puts a learning copy of it in place, and leastRecentlyUsed names the member unused longest", () => {
+    const pool = new AutoencoderPool({ ...poolOptions, hidden: 8, maxMembers: 2 });
+    const random = new RandomSource(13);
+    pool.addMember(Array.from({ length: 30 }, () => sample("A", random)), "990 rpm");
+    pool.addMember(Array.from({ length: 30 }, () => sample("B", random)), "1485 rpm");
+    const frozenA = pool.freeze(0);
+    expect(pool.leastRecentlyUsed()).toBe(0); // both untouched since they were added: the one nearest less often, then the lower index
+    for (let i = 0; i < 5; i++) pool.learn(sample("A", random));
+    expect(pool.leastRecentlyUsed()).toBe(1);
+    pool.replaceMember(0, Array.from({ length: 30 }, () => sample("C", random)));
+    for (let i = 0; i < 5; i++) pool.learn(sample("C", random));
+    expect(pool.leastRecentlyUsed()).toBe(1);
+    pool.replaceMember(1, frozenA, "990 rpm");
+    const x = sample("A", random);
+    expect(pool.score(x).losses[1]).toBe(frozenA.score(x));
+    pool.learn(x, 1);
+    expect(pool.score(x).losses[1]).not.toBe(frozenA.score(x)); // the copy learns; the frozen model does not
+    expect(pool.members[1]).toMatchObject({ label: "990 rpm", learnt: 31 }); // frozen after its 30 rows, plus the one just learnt
+    // the pool after replacements restores bit for bit
+    const copy = AutoencoderPool.restore(throughJson(pool.snapshot()));
+    const y = sample("C", random);
+    expect(Array.from(copy.score(y).losses)).toEqual(Array.from(pool.score(y).losses));
+    expect(copy.members).toEqual(pool.members);
+    expect(new AutoencoderPool({ ...poolOptions, maxMembers: 1 }).leastRecentlyUsed()).toBe(-1);
+  });
+
+  it("replaceMember refuses a bad member index, a bad label, and a frozen model with other member options", () => {
+    const pool = new AutoencoderPool({ ...poolOptions, hidden: 8, maxMembers: 1 });
+    const random = new RandomSource(14);
+    const rows = Array.from({ length: 10 }, () => sample("A", random));
+    expectLeewayError(() => pool.replaceMember(0, rows), "E_OPTION", "member", "empty");
+    pool.addMember(rows);
+    expectLeewayError(() => pool.replaceMember(1, rows), "E_OPTION", "member", "1");
+    expectLeewayError(() => pool.replaceMember(0, rows, 5 as unknown as string), "E_OPTION", "label");
+    expectLeewayError(() => pool.replaceMember(0, []), "E_OPTION", "rows");
+    const other = new AutoencoderPool({ ...poolOptions, hidden: 8, maxMembers: 1, ridge: 0.1 });
+    other.addMember(rows);
+    expectLeewayError(() => pool.replaceMember(0, other.freeze(0)), "E_OPTION", "source", "ridge");
+    const smaller = new AutoencoderPool({ ...poolOptions, hidden: 4, maxMembers: 1 });
+    smaller.addMember(rows);
+    expectLeewayError(() => pool.replaceMember(0, smaller.freeze(0)), "E_OPTION", "source", "hidden");
+    // a refused replacement leaves the member as it was
+    const x = sample("A", random);
+    const kept = pool.score(x).loss;
+    expect(pool.score(x).loss).toBe(kept);
+    expect(pool.members[0]?.learnt).toBe(10);
+  });
+
   it("stateBytes of a 256-32 float32 pool of 4 members is 147456 bytes", () => {
     const pool = new AutoencoderPool({ ...poolOptions, dtype: "float32" });
     const random = new RandomSource(9);

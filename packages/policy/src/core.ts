@@ -4,7 +4,7 @@ import type { Action, Cause, Decision, Evidence, Phase } from "./decision.js";
 import { CAUSES, PHASES } from "./decision.js";
 import { CORE_OPTION_NAMES, resolveCoreSettings, type CoreSettings } from "./options.js";
 import { levelOf, normalised, quantileOf, type ScoreLevel } from "./calibration.js";
-import { calibratedThreshold, makeChangeTest, restoreTest } from "./change-factory.js";
+import { calibratedThreshold, gaussianThreshold, makeChangeTest, restoreTest } from "./change-factory.js";
 import { BlockTrend } from "./block-trend.js";
 import { SettlingWindow, type SettlingCheck } from "./settling-window.js";
 
@@ -351,13 +351,19 @@ export class DecisionCore {
     this.#calibrationLive[this.#calibrationFilled] = uLive;
     this.#calibrationActive[this.#calibrationFilled] = uActive;
     this.#calibrationFilled += 1;
-    evidence.calibration = { progress: this.#calibrationFilled / n };
+    const calibration: Record<string, unknown> = { progress: this.#calibrationFilled / n };
+    evidence.calibration = calibration;
     const decision = this.#decision(action, cause, evidence);
-    if (this.#calibrationFilled === n) this.#finishCalibration();
+    if (this.#calibrationFilled === n) {
+      const fallback = this.#finishCalibration();
+      if (fallback !== null) calibration.changeThresholdFallback = fallback;
+    }
     return decision;
   }
 
-  #finishCalibration(): void {
+  /** Ends a calibration span; returns why the change threshold fell back to the white-noise value, or null. */
+  #finishCalibration(): string | null {
+    let fallback: string | null = null;
     const s = this.settings;
     const n = s.calibration;
     const level = levelOf(this.#calibrationActive, n);
@@ -370,7 +376,15 @@ export class DecisionCore {
     if (this.#calibrationPurpose === "commissioning" || this.#changeThreshold === null) {
       const z = new Float64Array(n);
       for (let i = 0; i < n; i++) z[i] = normalised(this.#calibrationActive[i] as number, level, s.scoreClip);
-      this.#changeThreshold = calibratedThreshold(s.changeTest, z, s.targetArl0, s.calibrationReplicates, `${String(s.seed)}/change/${this.#index}`);
+      try {
+        this.#changeThreshold = calibratedThreshold(s.changeTest, z, s.targetArl0, s.calibrationReplicates, `${String(s.seed)}/change/${this.#index}`);
+      } catch (error) {
+        // Scores without variation (a constant stream) give the bootstrap nothing to calibrate on: the
+        // threshold then falls back to that of independent N(0, 1) scores at the target ARL0.
+        if (!(error instanceof StateError)) throw error;
+        this.#changeThreshold = gaussianThreshold(s.targetArl0);
+        fallback = error.message;
+      }
     }
     this.#changeTest = makeChangeTest(s.changeTest, this.#changeThreshold);
     this.#baseline = 0;
@@ -385,6 +399,7 @@ export class DecisionCore {
     // A warning measured against the previous reference does not carry over (an alarm's refusal does).
     this.#degradationStanding = false;
     this.#episodeAlarmed = false;
+    return fallback;
   }
 
   #settlingStep(zActive: number, zCommissioning: number, zNewest: number, evidence: Evidence): Decision {
@@ -475,11 +490,11 @@ export class DecisionCore {
     const limit = this.settings.knownModeLevel;
     let best = -1;
     let bestLevel = Infinity;
-    if (this.#activeId !== 0 && Math.abs(check.commissioningLevel) < limit) {
+    if (this.#activeId !== 0 && this.#levels[0] !== undefined && Math.abs(check.commissioningLevel) < limit) {
       best = 0;
       bestLevel = Math.abs(check.commissioningLevel);
     }
-    if (this.#activeId !== this.#newestId && Math.abs(check.newestLevel) < Math.min(limit, bestLevel)) best = this.#newestId;
+    if (this.#activeId !== this.#newestId && this.#levels[this.#newestId] !== undefined && Math.abs(check.newestLevel) < Math.min(limit, bestLevel)) best = this.#newestId;
     return best;
   }
 
@@ -568,18 +583,6 @@ export class DecisionCore {
     this.#settlingWindow.clear();
     this.#settlingStart = -1;
     this.#beginRecalibration();
-  }
-
-  /**
-   * The retrain cannot be carried out at all (feature mode: the live pool has
-   * no room for another member): raise a concept-drift alarm with the reason
-   * in the evidence, so that an operator decides (more members, or a new
-   * commissioning).
-   */
-  retrainRefused(evidence: Evidence, reason: string): Decision {
-    if (this.#phase !== "retraining") this.#stateError("retrainRefused", 'after a "retrain" decision');
-    evidence.outcome = `retrain refused: ${reason}`;
-    return this.#latch("concept-drift", evidence);
   }
 
   /** The candidate failed validation (or the host could not replace its model): settle again. */

@@ -6,6 +6,7 @@ import {
   envelope,
   toPlainArray,
   checkedSize,
+  StateError,
   type Snapshot,
   type SnapshotReader,
 } from "@leeway/core";
@@ -85,6 +86,15 @@ export interface CandidateValidation {
  * rows kept while a change settles. It scores each sample, asks the
  * {@link DecisionCore}, and carries the decision out.
  *
+ * Each pool member remembers the lineage reference it serves (the one frozen
+ * from it, or the one it was thawed from). A retrain adds the candidate's
+ * member while the pool has room; a full pool replaces its least recently
+ * used member (the one nearest least recently; with one member, that member):
+ * the replaced mode survives as its frozen reference, so a later return is
+ * still recognised as a known mode. A switch to a reference that no member
+ * serves puts a learning copy of that reference in the place of the least
+ * recently used member.
+ *
  * @example
  * const engine = new DecisionEngine({ inputs: 8, hidden: 4, commissioning: 20, calibration: 20, seed: 1 });
  * for (let i = 0; i < 20; i++) engine.observe(Float64Array.from({ length: 8 }, (_, j) => 1 + 0.01 * Math.sin(i + j)));
@@ -92,10 +102,11 @@ export interface CandidateValidation {
  */
 export class FeatureModel {
   static readonly kind = "leeway.policy.feature-model";
-  static readonly version = 1;
+  static readonly version = 2;
   readonly settings: FeatureSettings;
   #pool: AutoencoderPool;
   #lineage: FrozenModel[] = [];
+  #served: number[] = []; // per pool member: the lineage id of the reference it serves, or −1
   readonly #kept: Float64Array; // settling × inputs, ring positions as in the core's settling window
   #candidates = 0;
 
@@ -116,6 +127,10 @@ export class FeatureModel {
   get pool(): AutoencoderPool {
     return this.#pool;
   }
+  /** Per pool member, the lineage id of the reference it serves (frozen from it, or thawed from it), or −1. */
+  get servedReferences(): readonly number[] {
+    return [...this.#served];
+  }
   /** A frozen reference of the lineage (0: commissioning). */
   reference(id: number): FrozenModel | undefined {
     return this.#lineage[id];
@@ -124,25 +139,65 @@ export class FeatureModel {
   /** Scores `x`, asks the core, and carries out its decision. */
   decide(core: DecisionCore, x: Float64Array): Decision {
     const scored = this.#pool.size > 0 ? this.#pool.score(x) : null;
-    const live = scored === null ? 0 : scored.loss;
+    const live = scored === null ? 0 : finiteLoss(scored.loss);
     const member = scored === null ? -1 : scored.member;
     const lineage = this.#lineage;
     let commissioning = live;
     let newest = live;
     let active = live;
     if (lineage.length > 0) {
-      commissioning = (lineage[0] as FrozenModel).score(x);
+      commissioning = finiteLoss((lineage[0] as FrozenModel).score(x));
       const newestId = core.newestId;
-      newest = newestId === 0 ? commissioning : (lineage[newestId] as FrozenModel).score(x);
+      newest = newestId === 0 ? commissioning : finiteLoss((lineage[newestId] as FrozenModel).score(x));
       const activeId = core.activeId;
-      active = activeId === 0 ? commissioning : activeId === newestId ? newest : (lineage[activeId] as FrozenModel).score(x);
+      active = activeId === 0 ? commissioning : activeId === newestId ? newest : finiteLoss((lineage[activeId] as FrozenModel).score(x));
     }
     const decision = core.step(live, commissioning, newest, active);
-    if (decision.action === "learn") this.#pool.learn(x, member >= 0 ? member : undefined);
-    if (core.freezeNow) this.#lineage = [this.#pool.freeze(member >= 0 ? member : 0)];
+    if (decision.action === "learn") this.#learn(x, member, decision);
+    if (core.freezeNow) {
+      const frozen = member >= 0 ? member : 0;
+      this.#lineage = [this.#pool.freeze(frozen)];
+      this.#served = this.#served.map((_, i) => (i === frozen ? 0 : -1));
+    }
     if (core.keptAt >= 0) this.#kept.set(x, core.keptAt * this.settings.inputs);
     if (decision.action === "retrain") this.#retrain(core, decision);
+    if (decision.action === "switch-mode") this.#serve(core.switchedTo, decision.evidence);
     return decision;
+  }
+
+  /**
+   * Learns x by the nearest member (or, in an empty pool, adds it to the run
+   * that starts the first member). An update the autoencoder refuses as
+   * numerically unsafe leaves the model as it was; the sample is then held
+   * and the refusal is reported in the evidence (`learning`).
+   */
+  #learn(x: Float64Array, member: number, decision: Decision): void {
+    try {
+      this.#pool.learn(x, member >= 0 ? member : undefined);
+    } catch (error) {
+      if (!(error instanceof StateError)) throw error;
+      decision.action = "hold";
+      decision.evidence.learning = { refused: true, reason: error.message };
+    }
+    while (this.#served.length < this.#pool.size) this.#served.push(-1);
+  }
+
+  /**
+   * Makes sure a pool member serves lineage reference `id` (after a switch to
+   * it): when none does, a learning copy of the reference replaces the least
+   * recently used member. Reported in the evidence as `member`.
+   */
+  #serve(id: number, evidence: Evidence): void {
+    if (id < 0 || this.#served.includes(id)) return;
+    const reference = this.#lineage[id];
+    if (reference === undefined) return;
+    const label = reference.label ?? (id === 0 ? "commissioning" : `reference-${id}`);
+    const full = this.#pool.size >= this.#pool.maxMembers;
+    const slot = full ? this.#pool.replaceMember(this.#pool.leastRecentlyUsed(), reference, label) : this.#pool.addMember(reference, label);
+    while (this.#served.length < this.#pool.size) this.#served.push(-1);
+    const replaced = full ? (this.#served[slot] as number) : null;
+    this.#served[slot] = id;
+    evidence.member = { member: slot, servesReference: id, replacedReference: replaced };
   }
 
   /** The kept settled rows (oldest first) and their normalised active scores. */
@@ -177,29 +232,41 @@ export class FeatureModel {
     const training: Float64Array[] = [];
     const heldOut: Float64Array[] = [];
     rows.forEach((row, i) => ((i + 1) % every === 0 ? heldOut : training).push(row));
-    const validation = this.#validate(core, training, heldOut);
-    evidence.candidate = validation;
-    if (!validation.passed) {
+    let validation: CandidateValidation | null = null;
+    let member = -1;
+    let replaced: number | null = null;
+    try {
+      validation = this.#validate(core, training, heldOut);
+      if (validation.passed) {
+        const label = `retrain-${core.retrains + 1}`;
+        // A full pool gives up its least recently used member; that mode lives on as its frozen reference.
+        const full = this.#pool.size >= this.#pool.maxMembers;
+        member = full ? this.#pool.replaceMember(this.#pool.leastRecentlyUsed(), rows, label) : this.#pool.addMember(rows, label);
+        if (full) replaced = this.#served[member] as number;
+      }
+    } catch (error) {
+      // The least-squares fit can be refused as numerically unsafe: the candidate failed.
+      if (!(error instanceof StateError)) throw error;
+      evidence.outcome = `candidate refused: ${error.message}`;
+      member = -1;
+    }
+    if (validation !== null) evidence.candidate = validation;
+    if (member < 0) {
       core.retrainFailed();
       decision.action = "hold";
       decision.phase = core.phase;
       return;
     }
-    if (this.#pool.size >= this.#pool.maxMembers) {
-      const refused = core.retrainRefused(evidence, `the live pool is full (${this.#pool.maxMembers} members)`);
-      decision.action = refused.action;
-      decision.cause = refused.cause;
-      decision.phase = refused.phase;
-      return;
-    }
-    const label = `retrain-${core.retrains + 1}`;
-    const member = this.#pool.addMember(rows, label);
     this.#lineage.push(this.#pool.freeze(member));
+    while (this.#served.length < this.#pool.size) this.#served.push(-1);
+    this.#served[member] = this.#lineage.length - 1;
+    evidence.member = { member, servesReference: this.#lineage.length - 1, replacedReference: replaced };
     core.modelReplaced();
   }
 
   #validate(core: DecisionCore, training: Float64Array[], heldOut: Float64Array[]): CandidateValidation {
     const s = this.settings;
+    if (training.length === 0) return { trainingSamples: 0, heldOutSamples: heldOut.length, trainingLoss: Number.NaN, heldOutLoss: Number.NaN, referenceLoss: Number.NaN, passed: false };
     const candidate = new OselmAutoencoder({ inputs: s.inputs, hidden: s.hidden, ridge: s.ridge, seed: `${s.seed}/candidate/${this.#candidates}` });
     this.#candidates += 1;
     candidate.fit(training);
@@ -240,6 +307,7 @@ export class FeatureModel {
       options: { hidden: s.hidden, members: s.members, ridge: s.ridge, forgetting: s.forgetting, validationShare: s.validationShare, validationTolerance: s.validationTolerance },
       pool: this.#pool.snapshot(),
       lineage: this.#lineage.map((m) => m.snapshot()),
+      served: [...this.#served],
       kept: toPlainArray(this.#kept),
       candidates: this.#candidates,
     });
@@ -265,19 +333,31 @@ export class FeatureModel {
     if (pool.inputs !== inputs || pool.hidden !== settings.hidden || pool.maxMembers !== settings.members) {
       r.fail("pool", `must have ${inputs} inputs, ${settings.hidden} hidden units and room for ${settings.members} members`);
     }
-    // After commissioning the pool holds the commissioning member and one member per accepted retrain.
-    if (core.phase !== "commissioning" && (pool.size < 1 || pool.size < lineageRaw.length)) r.fail("pool", `must hold at least ${Math.max(1, lineageRaw.length)} members, got ${pool.size}`);
+    // After commissioning the pool holds at least the commissioning member (a full pool replaces members, so the lineage may outgrow it).
+    if (core.phase !== "commissioning" && pool.size < 1) r.fail("pool", `must hold at least 1 member, got ${pool.size}`);
     const lineage = lineageRaw.map((s) => FrozenModel.restore(s));
     for (const m of lineage) if (m.inputs !== inputs) r.fail("lineage", `references must have ${inputs} inputs, got ${m.inputs}`);
+    const served = r.integers("served", { max: settings.members }, -1, Math.max(-1, lineage.length - 1));
+    if (served.length !== pool.size) r.fail("served", `must have one entry per pool member (${pool.size}), got length ${served.length}`);
+    for (let i = 0; i < served.length; i++) {
+      const id = served[i] as number;
+      if (id >= 0 && served.indexOf(id) !== i) r.fail("served", `names reference ${id} for two members`);
+    }
     const kept = r.numbers("kept", settings.settling * settings.inputs);
     const candidates = r.integer("candidates", 0, Number.MAX_SAFE_INTEGER);
     const model = new FeatureModel(settings);
     model.#pool = pool;
     model.#lineage = lineage;
+    model.#served = served;
     model.#kept.set(kept);
     model.#candidates = candidates;
     return model;
   }
+}
+
+/** A loss that overflowed (a finite input of absurd magnitude) counts as the largest finite score. */
+function finiteLoss(loss: number): number {
+  return loss < Number.MAX_VALUE ? loss : Number.MAX_VALUE;
 }
 
 function meanScore(rows: readonly Float64Array[], score: (x: Float64Array) => number): number {

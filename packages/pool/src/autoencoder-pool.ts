@@ -268,13 +268,66 @@ export class AutoencoderPool {
   }
 
   /**
-   * Starts a new member fitted on `rows` (ridge least squares) with an optional
-   * label and returns its index; E_STATE when the pool is full.
+   * Starts a new member with an optional label and returns its index: fitted
+   * on `rows` (ridge least squares), or a learning copy of a
+   * {@link FrozenModel} with the pool's member options (see
+   * {@link replaceMember}). E_STATE when the pool is full.
    */
-  addMember(rows: readonly ArrayLike<number>[], label: string | null = null): number {
+  addMember(source: readonly ArrayLike<number>[] | FrozenModel, label: string | null = null): number {
     if (label !== null && typeof label !== "string") throw new OptionError(COMPONENT, "label", label, "a string or null");
     if (this.#members.length >= this.#maxMembers) throw new StateError(COMPONENT, `addMember: the pool is full (${this.#maxMembers} members)`);
-    return this.#addFitted(rows, label);
+    if (!(source instanceof FrozenModel)) return this.#addFitted(source, label);
+    this.#members.push({ model: this.#thawed(source), label, nearest: 0, lastUsed: this.#calls });
+    this.#losses = new Float64Array(this.#members.length);
+    return this.#members.length - 1;
+  }
+
+  /**
+   * Replaces member `member` in place and returns its index. Given rows, the
+   * new member is a fresh autoencoder fitted on them by ridge least squares,
+   * with a hidden layer drawn from the next member seed (as {@link addMember});
+   * given a {@link FrozenModel} (for example an older reference of the same
+   * pool), a learning copy of it takes the place. Either way the member's
+   * usage counts start again (`nearest` 0, `lastUsed` now) and its label is
+   * `label`; the other members, their indices and the pending run are not
+   * touched. This is how a full pool takes in a new operating mode: replace
+   * the member that has gone unused longest ({@link leastRecentlyUsed}),
+   * after freezing it if it must stay recognisable. A frozen model must have
+   * the pool's member options (sizes, activation, ridge, forgetting, trace
+   * bound, dtype, scaling mode); E_OPTION otherwise.
+   * @example
+   * const pool = new AutoencoderPool({ inputs: 2, hidden: 3, maxMembers: 1, seed: 1 });
+   * pool.addMember([Float64Array.of(1, 0), Float64Array.of(0.9, 0.1)], "low");
+   * pool.replaceMember(0, [Float64Array.of(0, 1), Float64Array.of(0.1, 0.9)], "high");
+   * [pool.size, pool.members[0]?.label]; // [1, "high"]
+   */
+  replaceMember(member: number, source: readonly ArrayLike<number>[] | FrozenModel, label: string | null = null): number {
+    this.#member(member);
+    if (label !== null && typeof label !== "string") throw new OptionError(COMPONENT, "label", label, "a string or null");
+    let model: OselmAutoencoder;
+    if (source instanceof FrozenModel) model = this.#thawed(source);
+    else {
+      model = new OselmAutoencoder({ ...this.#memberOptions, seed: `${this.#seed}/member/${this.#spawned}` });
+      model.fit(source);
+      this.#spawned++;
+    }
+    this.#members[member] = { model, label, nearest: 0, lastUsed: this.#calls };
+    return member;
+  }
+
+  /**
+   * The member that has gone longest without being the nearest or learning
+   * (smallest `lastUsed`; on ties the one nearest least often, then the
+   * lowest index), or −1 for an empty pool.
+   */
+  leastRecentlyUsed(): number {
+    let best = -1;
+    for (let i = 0; i < this.#members.length; i++) {
+      const m = this.#members[i] as Member;
+      const b = best < 0 ? null : (this.#members[best] as Member);
+      if (b === null || m.lastUsed < b.lastUsed || (m.lastUsed === b.lastUsed && m.nearest < b.nearest)) best = i;
+    }
+    return best;
   }
 
   /** Sets (or clears, with null) a member's label. */
@@ -373,18 +426,8 @@ export class AutoencoderPool {
     const pending = pendingRows.map((row, i) => readRow(kind, `state.pending[${i}]`, row, inputs));
     const members: Member[] = memberReaders.map((m, i) => {
       const model = OselmAutoencoder.restore(m.raw("model"));
-      const expected = pool.#memberOptions;
       const st = (m.raw("model") as Snapshot<OselmAutoencoderState>).state;
-      const mismatch =
-        model.inputs !== inputs ||
-        model.hidden !== hidden ||
-        model.dtype !== dtype ||
-        st.activation !== activation ||
-        st.ridge !== ridge ||
-        model.forgetting !== forgetting ||
-        (expected.traceBound !== undefined && st.traceBound !== expected.traceBound) ||
-        st.scaling !== scaling;
-      if (mismatch) throw new SnapshotError(kind, `state.members[${i}].model`, "does not match the pool's member options");
+      if (pool.#optionMismatch(st) !== null) throw new SnapshotError(kind, `state.members[${i}].model`, "does not match the pool's member options");
       return { model, label: m.stringOrNull("label"), nearest: m.integer("nearest", 0, Number.MAX_SAFE_INTEGER), lastUsed: m.integer("lastUsed", -1, calls) };
     });
     pool.#members.push(...members);
@@ -403,6 +446,27 @@ export class AutoencoderPool {
     this.#members.push({ model, label, nearest: 0, lastUsed: this.#calls });
     this.#losses = new Float64Array(this.#members.length);
     return this.#members.length - 1;
+  }
+
+  /** A learning copy of a frozen model; E_OPTION unless it has the pool's member options. */
+  #thawed(frozen: FrozenModel): OselmAutoencoder {
+    const model = frozen.thaw();
+    const why = this.#optionMismatch(model.snapshot().state);
+    if (why !== null) throw new OptionError(COMPONENT, "source", `a FrozenModel with ${why}`, "a frozen model with the pool's member options");
+    return model;
+  }
+
+  /** What in a member's state differs from the pool's member options, or null when nothing does. */
+  #optionMismatch(st: OselmAutoencoderState): string | null {
+    const o = this.#memberOptions;
+    if (st.inputs !== this.#n || st.hidden !== this.#L) return `${st.inputs} inputs and ${st.hidden} hidden units`;
+    if (st.activation !== (o.activation ?? "sigmoid")) return `activation ${st.activation}`;
+    if (st.ridge !== (o.ridge ?? 0.01)) return `ridge ${st.ridge}`;
+    if (st.forgetting !== (o.forgetting ?? 1)) return `forgetting ${st.forgetting}`;
+    if (o.traceBound !== undefined && st.traceBound !== o.traceBound) return `trace bound ${st.traceBound}`;
+    if (st.dtype !== (o.dtype ?? "float64")) return `dtype ${st.dtype}`;
+    if (st.scaling !== this.#scaling) return `scaling ${st.scaling}`;
+    return null;
   }
 
   /** Scores x by every member into #losses; returns the nearest's index and counts it. */
