@@ -106,10 +106,14 @@ export class Adwin implements ChangeTest {
   readonly #threshold: number;
   readonly #warningFraction: number;
   readonly #nonFinite: NonFinitePolicy;
-  readonly #cap: number; // M + 1 slots per level
-  readonly #totals: Float64Array; // bucket sums, level-major, oldest first within a level
+  // Each level is a ring buffer of #cap slots (a power of two ≥ M + 1), its oldest bucket at #heads[l]:
+  // merging and dropping move a head instead of shifting the buckets.
+  readonly #cap: number;
+  readonly #mask: number; // #cap − 1
+  readonly #totals: Float64Array; // bucket sums, level-major
   readonly #m2s: Float64Array; // bucket sums of squared deviations
   readonly #levelCounts: Int32Array;
+  readonly #heads: Int32Array; // ring position of each level's oldest bucket
   #levels = 0; // levels in use
   #width = 0; // W, samples in the window
   #total = 0; // Σ of the window (its mean is #total/W, exact on integers)
@@ -131,10 +135,12 @@ export class Adwin implements ChangeTest {
     this.#threshold = o.threshold === undefined ? 1 : positiveNumber(NAME, "threshold", o.threshold);
     this.#warningFraction = warningFractionOption(NAME, o.warningFraction);
     this.#nonFinite = nonFiniteOption(NAME, o.nonFinite);
-    this.#cap = this.#m + 1;
+    this.#cap = 1 << Math.ceil(Math.log2(this.#m + 1)); // an int32, so that index arithmetic stays integer
+    this.#mask = this.#cap - 1;
     this.#totals = new Float64Array(MAX_LEVELS * this.#cap);
     this.#m2s = new Float64Array(MAX_LEVELS * this.#cap);
     this.#levelCounts = new Int32Array(MAX_LEVELS);
+    this.#heads = new Int32Array(MAX_LEVELS);
   }
 
   /** The scale of ε_cut (1 for the published test). */
@@ -195,6 +201,7 @@ export class Adwin implements ChangeTest {
 
   restart(): void {
     this.#levelCounts.fill(0);
+    this.#heads.fill(0);
     this.#levels = 0;
     this.#width = 0;
     this.#total = 0;
@@ -210,8 +217,9 @@ export class Adwin implements ChangeTest {
       const c = this.#levelCounts[l] as number;
       levelCounts.push(c);
       for (let b = 0; b < c; b++) {
-        bucketTotals.push(this.#totals[l * this.#cap + b] as number);
-        bucketM2.push(this.#m2s[l * this.#cap + b] as number);
+        const at = this.#slot(l, b);
+        bucketTotals.push(this.#totals[at] as number);
+        bucketM2.push(this.#m2s[at] as number);
       }
     }
     return envelope(Adwin.kind, Adwin.version, {
@@ -301,58 +309,64 @@ export class Adwin implements ChangeTest {
     return cut;
   }
 
+  /** Index in #totals and #m2s of bucket b (0: the oldest) of level l. */
+  #slot(l: number, b: number): number {
+    return l * this.#cap + (((this.#heads[l] as number) + b) & this.#mask);
+  }
+
   /** A new bucket of size 1, then the histogram's merges. */
   #insert(x: number): void {
     this.#total += x;
     this.#width += 1;
     const cap = this.#cap;
+    const mask = this.#mask;
+    const m = this.#m;
     const counts = this.#levelCounts;
+    const heads = this.#heads;
     const totals = this.#totals;
     const m2s = this.#m2s;
-    let c0 = counts[0] as number;
-    totals[c0] = x;
-    m2s[c0] = 0;
-    counts[0] = ++c0;
+    const c0 = counts[0] as number;
+    const at = ((heads[0] as number) + c0) & mask;
+    totals[at] = x;
+    m2s[at] = 0;
+    counts[0] = c0 + 1;
     if (this.#levels === 0) this.#levels = 1;
-    for (let l = 0, n = 1; (counts[l] as number) > this.#m; l++, n *= 2) {
+    if (c0 < m) return;
+    // n = 2^l and its reciprocal (exact): d = (t₀ − t₁)·(1/n) equals (t₀ − t₁)/n bit for bit
+    for (let l = 0, n = 1, inverse = 1; (counts[l] as number) > m; l++, n *= 2, inverse *= 0.5) {
       // merge the two oldest buckets of level l (each of n = 2^l samples) into one of level l + 1
-      const base = l * cap;
-      const t0 = totals[base] as number;
-      const t1 = totals[base + 1] as number;
-      const d = (t0 - t1) / n;
-      const mergedTotal = t0 + t1;
-      const mergedM2 = (m2s[base] as number) + (m2s[base + 1] as number) + (d * d * n) / 2;
-      const c = counts[l] as number;
-      for (let b = 2; b < c; b++) {
-        totals[base + b - 2] = totals[base + b] as number;
-        m2s[base + b - 2] = m2s[base + b] as number;
-      }
-      counts[l] = c - 2;
       if (l + 1 >= MAX_LEVELS) throw new RangeError("Adwin: window too long for the histogram");
-      const next = (l + 1) * cap;
+      const base = l * cap;
+      const h = heads[l] as number;
+      const i0 = base + h;
+      const i1 = base + ((h + 1) & mask);
+      const t0 = totals[i0] as number;
+      const t1 = totals[i1] as number;
+      const d = (t0 - t1) * inverse;
+      const mergedTotal = t0 + t1;
+      const mergedM2 = (m2s[i0] as number) + (m2s[i1] as number) + d * d * n * 0.5; // M₂,₀ + M₂,₁ + n·d²/2
+      heads[l] = (h + 2) & mask;
+      counts[l] = (counts[l] as number) - 2;
       const cn = counts[l + 1] as number;
-      totals[next + cn] = mergedTotal;
-      m2s[next + cn] = mergedM2;
+      const next = (l + 1) * cap + (((heads[l + 1] as number) + cn) & mask);
+      totals[next] = mergedTotal;
+      m2s[next] = mergedM2;
       counts[l + 1] = cn + 1;
       if (l + 2 > this.#levels) this.#levels = l + 2;
     }
   }
 
-  /** Drops the oldest bucket (index 0 of the highest level) and updates the window's moments. */
+  /** Drops the oldest bucket (the head of the highest level) and updates the window's moments. */
   #dropOldest(): void {
     const top = this.#levels - 1;
-    const base = top * this.#cap;
     const nb = 2 ** top;
-    const tb = this.#totals[base] as number;
+    const h = this.#heads[top] as number;
+    const tb = this.#totals[top * this.#cap + h] as number;
     const rest = this.#width - nb;
     this.#total = rest === 0 ? 0 : this.#total - tb;
     this.#width = rest;
-    const c = this.#levelCounts[top] as number;
-    for (let b = 1; b < c; b++) {
-      this.#totals[base + b - 1] = this.#totals[base + b] as number;
-      this.#m2s[base + b - 1] = this.#m2s[base + b] as number;
-    }
-    this.#levelCounts[top] = c - 1;
+    this.#heads[top] = (h + 1) & this.#mask;
+    this.#levelCounts[top] = (this.#levelCounts[top] as number) - 1;
     while (this.#levels > 0 && this.#levelCounts[this.#levels - 1] === 0) this.#levels -= 1;
   }
 
@@ -375,6 +389,7 @@ export class Adwin implements ChangeTest {
     const c3 = hoeffding ? 0 : (2 / 3) * logTerm;
     const threshold = this.#threshold;
     const cap = this.#cap;
+    const mask = this.#mask;
     const aw = a * w;
     let best = 0;
     let bestSquared = 0; // best²·a·W·(1 − 10⁻⁶)
@@ -383,9 +398,11 @@ export class Adwin implements ChangeTest {
     let size = 2 ** (this.#levels - 1);
     for (let l = this.#levels - 1; l >= 0; l--, size /= 2) {
       const c = this.#levelCounts[l] as number;
+      const base = l * cap;
+      const h = this.#heads[l] as number;
       for (let b = 0; b < c; b++) {
         n0 += size;
-        s0 += this.#totals[l * cap + b] as number;
+        s0 += this.#totals[base + ((h + b) & mask)] as number;
         const n1 = w - n0;
         if (n1 < minSub) {
           this.#statistic = best;
@@ -428,14 +445,18 @@ export class Adwin implements ChangeTest {
     if (w === 0) return 0;
     const mean = this.#total / w;
     const cap = this.#cap;
+    const mask = this.#mask;
     let m2 = 0;
     let size = 1;
     for (let l = 0; l < this.#levels; l++, size *= 2) {
       const inv = 1 / size; // a power of two: exact
       const c = this.#levelCounts[l] as number;
+      const base = l * cap;
+      const h = this.#heads[l] as number;
       for (let b = 0; b < c; b++) {
-        const d = (this.#totals[l * cap + b] as number) * inv - mean;
-        m2 += (this.#m2s[l * cap + b] as number) + size * d * d;
+        const at = base + ((h + b) & mask);
+        const d = (this.#totals[at] as number) * inv - mean;
+        m2 += (this.#m2s[at] as number) + size * d * d;
       }
     }
     return m2;
