@@ -23,6 +23,7 @@ describe("score-only mode and feature mode", () => {
       void members;
       const scores = new DecisionEngine(coreOptions);
       let ackAt = -1;
+      let confirmAt = -1;
       let retrains = 0;
       spectra.forEach((x, i) => {
         const a = features.observe(x);
@@ -36,6 +37,11 @@ describe("score-only mode and feature mode", () => {
         if (i === ackAt) {
           features.acknowledge();
           scores.acknowledge();
+        }
+        if (a.action === "await-confirmation") confirmAt = i + ACKNOWLEDGE_AFTER;
+        if (i === confirmAt) {
+          features.confirmRetrain();
+          scores.confirmRetrain();
         }
       });
       expect(retrains).toBe(1);

@@ -23,7 +23,13 @@ export const SUITE_LENGTH = 12_000;
  */
 export const FEATURE_OPTIONS = { inputs: 256, hidden: 8, members: 3, seed: 1 } as const;
 
-/** The operator in these tests: acknowledges every alarm 30 samples (half a minute) after it is raised. */
+/**
+ * The operator in these tests: acknowledges every alarm 30 samples (half a
+ * minute) after it is raised, and answers every question the engine asks
+ * ("await-confirmation") 30 samples later by confirming the retrain: none of
+ * the suite's scenarios has a fault that outlasts the settling window, so
+ * every level that persists is a new normal.
+ */
 export const ACKNOWLEDGE_AFTER = 30;
 
 /** What a policy did over a stream. */
@@ -39,12 +45,14 @@ export interface PolicyRun {
 export interface Policy {
   observe(x: Float64Array): { action: string };
   acknowledge(): void;
+  confirmRetrain?(): void;
 }
 
 /** Runs a policy over spectra with the test operator. */
 export function runPolicy(policy: Policy, spectra: readonly Float64Array[]): PolicyRun {
   const run: PolicyRun = { alarms: [], retrains: [], switches: [], learnt: [], decisions: [] };
   let ackAt = -1;
+  let confirmAt = -1;
   spectra.forEach((x, i) => {
     const d = policy.observe(x);
     if ("index" in d) run.decisions.push(d as Decision);
@@ -56,6 +64,8 @@ export function runPolicy(policy: Policy, spectra: readonly Float64Array[]): Pol
     if (d.action === "switch-mode") run.switches.push(i);
     if (d.action === "learn") run.learnt.push(i);
     if (i === ackAt) policy.acknowledge();
+    if (d.action === "await-confirmation") confirmAt = i + ACKNOWLEDGE_AFTER;
+    if (i === confirmAt) policy.confirmRetrain?.();
   });
   return run;
 }

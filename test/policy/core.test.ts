@@ -43,9 +43,11 @@ describe("DecisionCore phases", () => {
 });
 
 describe("concept drift", () => {
-  it("a level shift settles, is retrained exactly once, and nothing alarms afterwards", () => {
+  it("a level shift below the anomaly threshold settles, is retrained exactly once on its own, and nothing alarms afterwards", () => {
     const engine = engineWith();
-    const run = runHost(engine, new ScoreHost(3), drift(3000), 9000, { acknowledgeAfter: 20 });
+    const run = runHost(engine, new ScoreHost(3), drift(3000, 0.1), 9000, { acknowledgeAfter: 20 });
+    expect(run.alarms).toEqual([]);
+    expect(count(run.decisions, (d) => d.action === "await-confirmation")).toBe(0);
     expect(run.retrains).toHaveLength(1);
     const at = run.retrains[0] as number;
     const retrain = run.decisions[at] as Decision;
@@ -57,7 +59,7 @@ describe("concept drift", () => {
     const detected = run.decisions.findIndex((d, t) => t >= 3000 && (d.phase === "settling" || d.phase === "latched"));
     expect(detected - 3000).toBeLessThan(10);
     expect(run.learnt.filter((t) => t >= detected && t <= at)).toHaveLength(0);
-    expect((retrain.evidence.settling as { samples: number }).samples).toBe(QUICK.settling);
+    expect((retrain.evidence.settling as { samples: number }).samples).toBeGreaterThanOrEqual(QUICK.settling);
     expect(run.alarms.filter((a) => a.index > at)).toHaveLength(0);
     // after the host's new model is calibrated, the engine learns again against reference 1
     const last = run.decisions[run.decisions.length - 1] as Decision;
@@ -65,10 +67,13 @@ describe("concept drift", () => {
     expect(engine.retrains).toBe(1);
   });
 
-  it("property: for any seed a shift gets exactly one retrain or switch and no alarm after it", () => {
+  it("property: for any seed a shift gets exactly one retrain or switch and no alarm after it (the operator confirms when asked), unless degradation evidence already stood", () => {
     fc.assert(
       fc.property(fc.integer({ min: 1, max: 1_000_000 }), fc.constantFrom(0.1, 0.2, 0.4), (seed, offset) => {
-        const run = runHost(engineWith({ seed }), new ScoreHost(seed), drift(2500, offset), 6000, { acknowledgeAfter: 20 });
+        const run = runHost(engineWith({ seed }), new ScoreHost(seed), drift(2500, offset), 6000, { acknowledgeAfter: 20, confirmAfter: 10 });
+        // A degradation warning is a one-sided trend test at p 0.01 run on every block: on a few seeds it stands
+        // by chance on the stationary part, and a shift on top of it is then reported as degradation (seed 248945).
+        fc.pre(run.decisions.slice(0, 2500).every((d) => d.cause !== "degradation"));
         expect(run.retrains.length + run.switches.length).toBe(1);
         const at = (run.retrains[0] ?? run.switches[0]) as number;
         expect(run.alarms.filter((a) => a.index > at)).toHaveLength(0);
@@ -79,7 +84,7 @@ describe("concept drift", () => {
 
   it("a return to the commissioning mode is a switch-mode to reference 0, not a retrain", () => {
     const world = (t: number): World => ({ mode: t >= 2500 && t < 5000 ? 0.2 : 0, degradation: 0, fault: 0 });
-    const run = runHost(engineWith(), new ScoreHost(5), world, 8000, { acknowledgeAfter: 20 });
+    const run = runHost(engineWith(), new ScoreHost(5), world, 8000, { acknowledgeAfter: 20, confirmAfter: 10 });
     expect(run.retrains).toHaveLength(1);
     expect(run.switches).toHaveLength(1);
     const sw = run.decisions[run.switches[0] as number] as Decision;
@@ -107,9 +112,9 @@ describe("concept drift", () => {
     expect(run.learnt.filter((t) => t > asked && t <= asked + 51)).toHaveLength(0);
   });
 
-  it("rejectRetrain() accepts the new level without a retrain (the reference is calibrated again)", () => {
+  it("rejectRetrain() after a drift accepts the new level without a retrain (the reference is calibrated again)", () => {
     const engine = engineWith({ retrain: "confirm" });
-    const run = runHost(engine, new ScoreHost(3), drift(3000), 7000, {
+    const run = runHost(engine, new ScoreHost(3), drift(3000, 0.1), 7000, {
       acknowledgeAfter: 20,
       onDecision: (d) => {
         if (d.action === "await-confirmation") engine.rejectRetrain();
@@ -128,7 +133,7 @@ describe("concept drift", () => {
 
   it("the retrain budget refuses a retrain past it with a concept-drift alarm naming the budget", () => {
     const world = (t: number): World => ({ mode: t >= 2000 ? (t >= 4500 ? 0.4 : 0.2) : 0, degradation: 0, fault: 0 });
-    const run = runHost(engineWith({ retrainBudget: 1 }), new ScoreHost(4), world, 7000, { acknowledgeAfter: 20 });
+    const run = runHost(engineWith({ retrainBudget: 1 }), new ScoreHost(4), world, 7000, { acknowledgeAfter: 20, confirmAfter: 10 });
     expect(run.retrains).toHaveLength(1);
     const refusal = run.alarms.find((a) => a.evidence.budget !== undefined);
     expect(refusal?.cause).toBe("concept-drift");
@@ -137,7 +142,7 @@ describe("concept drift", () => {
 
   it("the cool-down delays a second retrain until it has passed", () => {
     const world = (t: number): World => ({ mode: t >= 2000 ? (t >= 2700 ? 0.4 : 0.2) : 0, degradation: 0, fault: 0 });
-    const run = runHost(engineWith({ coolDown: 1500 }), new ScoreHost(4), world, 6000, { acknowledgeAfter: 20 });
+    const run = runHost(engineWith({ coolDown: 1500 }), new ScoreHost(4), world, 6000, { acknowledgeAfter: 20, confirmAfter: 10 });
     expect(run.retrains).toHaveLength(2);
     expect((run.retrains[1] as number) - (run.retrains[0] as number)).toBeGreaterThanOrEqual(1500);
   });
@@ -165,7 +170,7 @@ describe("slow degradation", () => {
 
   it("drift, then degradation: one retrain for the drift, then degradation against the new reference", () => {
     const world = (t: number): World => ({ mode: t >= 2000 ? 0.2 : 0, degradation: t > 5000 ? (t - 5000) / 8000 : 0, fault: 0 });
-    const run = runHost(engineWith(), new ScoreHost(6), world, 9000, { acknowledgeAfter: 20 });
+    const run = runHost(engineWith(), new ScoreHost(6), world, 9000, { acknowledgeAfter: 20, confirmAfter: 10 });
     expect(run.retrains).toHaveLength(1);
     const degradation = run.alarms.find((a) => a.cause === "degradation");
     expect(degradation?.index).toBeGreaterThan(5000);
@@ -200,6 +205,92 @@ describe("anomalies", () => {
     expect(run.decisions.slice(run.alarms[0]!.index).every((d) => d.phase === "latched" && d.action !== "learn")).toBe(true);
     engine.acknowledge();
     expect(engine.phase).toBe("settling");
+  });
+});
+
+describe("an anomaly acknowledged while it persists (a clog that lasts)", () => {
+  const clog = (start: number, length: number) => (t: number): World => ({ mode: 0, degradation: 0, fault: t >= start && t < start + length ? 1.2 : 0 });
+  const asked = (run: { decisions: Decision[] }): Decision[] => run.decisions.filter((d) => d.action === "await-confirmation");
+
+  it('asks for confirmation even under retrain "auto", with the reason in the evidence, and retrains only after confirmRetrain()', () => {
+    const engine = engineWith();
+    let confirmedAt = -1;
+    const run = runHost(engine, new ScoreHost(3), clog(3000, 2000), 6000, {
+      acknowledgeAfter: 20,
+      onDecision: (d, t) => {
+        if (d.action === "await-confirmation" && confirmedAt < 0) {
+          engine.confirmRetrain();
+          confirmedAt = t;
+        }
+      },
+    });
+    expect(run.alarms[0]?.cause).toBe("anomaly");
+    const question = asked(run);
+    expect(question).toHaveLength(1);
+    const q = question[0] as Decision;
+    expect([q.cause, q.phase]).toEqual(["anomaly", "settling"]);
+    expect(q.evidence.outcome).toBe("confirmation needed: the level of an acknowledged anomaly persisted through settling");
+    const persistent = q.evidence.persistentAnomaly as { alarmAt: number; settledLevel: number; exitLevel: number };
+    expect(persistent.alarmAt).toBe(run.alarms[0]?.index);
+    expect(persistent.settledLevel).toBeGreaterThanOrEqual(persistent.exitLevel);
+    expect(persistent.exitLevel).toBeGreaterThan(0);
+    // the operator says the new level is the new normal: the retrain follows on the next sample
+    expect(run.retrains).toEqual([confirmedAt + 1]);
+    expect(run.decisions[confirmedAt + 1]?.evidence.confirmed).toBe(true);
+    expect(run.learnt.filter((t) => t >= 3000 && t <= confirmedAt + 1)).toEqual([]);
+  });
+
+  it("rejectRetrain() keeps holding it; when the scores return to normal the engine watches again, having learnt none of it and retrained nothing", () => {
+    const engine = engineWith();
+    const run = runHost(engine, new ScoreHost(3), clog(3000, 2000), 7000, {
+      acknowledgeAfter: 20,
+      onDecision: (d) => {
+        if (d.action === "await-confirmation") {
+          engine.rejectRetrain();
+          expectLeewayError(() => engine.confirmRetrain(), "E_STATE", "confirmRetrain"); // nothing pending any more
+        }
+      },
+    });
+    expect(run.retrains).toEqual([]);
+    expect(run.learnt.filter((t) => t >= 3000 && t < 5000)).toEqual([]);
+    const held = run.decisions.filter((d) => d.index > (asked(run)[0] as Decision).index && d.index < 5000);
+    expect(held.every((d) => d.action === "hold" || d.action === "alarm" || d.action === "await-confirmation")).toBe(true);
+    expect(held.some((d) => d.evidence.outcome === "held: the operator rejected this level as the new normal")).toBe(true);
+    // asked again at most once per settlingLimit after the rejection
+    const questions = asked(run).map((d) => d.index);
+    for (let i = 1; i < questions.length; i++) expect((questions[i] as number) - (questions[i - 1] as number)).toBeGreaterThan(QUICK.settlingLimit);
+    const back = run.decisions.find((d) => d.index >= 5000 && d.evidence.outcome === "returned to normal") as Decision;
+    expect(back.action).toBe("learn");
+    expect(run.decisions[6999]?.action).toBe("learn");
+    expect(run.decisions[6999]?.evidence.activeReference).toBe(0);
+    expect(engine.retrains).toBe(0);
+  });
+
+  it('persistentAnomaly "as-drift" restores the old behaviour: the persisting level is retrained on without asking', () => {
+    const run = runHost(engineWith({ persistentAnomaly: "as-drift" }), new ScoreHost(3), clog(3000, 2000), 6000, { acknowledgeAfter: 20 });
+    expect(asked(run)).toEqual([]);
+    expect(run.retrains).toHaveLength(1);
+    expect(run.retrains[0]).toBeGreaterThan(3000);
+    expect(run.retrains[0]).toBeLessThan(5000);
+  });
+
+  it("property: for any seed, a clog acknowledged while it lasts is never learnt or retrained on while the operator rejects it", () => {
+    fc.assert(
+      fc.property(fc.integer({ min: 1, max: 1_000_000 }), fc.integer({ min: 400, max: 1500 }), (seed, length) => {
+        const engine = engineWith({ seed });
+        const run = runHost(engine, new ScoreHost(seed), clog(2500, length), 2500 + length + 200, {
+          acknowledgeAfter: 20,
+          onDecision: (d) => {
+            if (d.action === "await-confirmation") engine.rejectRetrain();
+          },
+        });
+        expect(run.alarms[0]?.cause).toBe("anomaly");
+        expect(run.alarms[0]?.index).toBeLessThan(2500 + 15);
+        expect(run.retrains).toEqual([]);
+        expect(run.learnt.filter((t) => t >= 2500 && t < 2500 + length)).toEqual([]);
+      }),
+      { numRuns: 6 },
+    );
   });
 });
 

@@ -115,7 +115,9 @@ describe("DecisionEngine in feature mode (small)", () => {
       ds.push(d);
       if (d.action === "alarm") ackAt = i + 5;
       if (i === ackAt) engine.acknowledge();
+      if (d.action === "await-confirmation") engine.confirmRetrain(); // the shift raised an anomaly alarm that persisted
     });
+    expect(ds.filter((d) => d.action === "await-confirmation").map((d) => d.cause)).toEqual(["anomaly"]);
     expect(ds.filter((d) => d.action === "retrain")).toHaveLength(1);
     expect(engine.references).toBe(2);
     expect(engine.model?.pool.size).toBe(2);

@@ -68,18 +68,21 @@ export interface HostRun {
  * Runs a score-only engine with a {@link ScoreHost} over `length` samples of
  * the world `worldAt(t)`; the host retrains when told and learns (absorbing a
  * share `absorbRate` per learnt sample of the present degradation) what the
- * engine says to learn. `acknowledgeAfter` acknowledges every alarm that many samples later.
+ * engine says to learn. `acknowledgeAfter` acknowledges every alarm that many
+ * samples later; `confirmAfter` confirms every retrain the engine asks for
+ * (`"await-confirmation"`) that many samples later.
  */
 export function runHost(
   engine: DecisionEngine,
   host: ScoreHost,
   worldAt: (t: number) => World,
   length: number,
-  options: { absorbRate?: number; acknowledgeAfter?: number; onDecision?: (d: Decision, t: number) => void } = {},
+  options: { absorbRate?: number; acknowledgeAfter?: number; confirmAfter?: number; onDecision?: (d: Decision, t: number) => void } = {},
 ): HostRun {
   const run: HostRun = { decisions: [], retrains: [], switches: [], alarms: [], learnt: [] };
   const absorbRate = options.absorbRate ?? 0.001;
   let ackAt = -1;
+  let confirmAt = -1;
   for (let t = 0; t < length; t++) {
     const world = worldAt(t);
     const { live, references } = host.score(world);
@@ -104,6 +107,8 @@ export function runHost(
       if (options.acknowledgeAfter !== undefined) ackAt = t + options.acknowledgeAfter;
     }
     if (t === ackAt) engine.acknowledge();
+    if (d.action === "await-confirmation" && options.confirmAfter !== undefined) confirmAt = t + options.confirmAfter;
+    if (t === confirmAt && engine.awaitingConfirmation) engine.confirmRetrain();
     options.onDecision?.(d, t);
   }
   return run;

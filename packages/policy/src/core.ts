@@ -52,6 +52,9 @@ export interface DecisionCoreState {
   risingRun: number;
   pending: boolean;
   confirmed: boolean;
+  anomalySettling: boolean;
+  anomalyAlarmAt: number;
+  askAfter: number;
   retrainLog: number[];
   coolDownUntil: number;
   retrains: number;
@@ -79,6 +82,11 @@ export interface DecisionCoreState {
  *    `confirmShift` σ was a false alarm; a reference that scores the window as
  *    normal is a known mode (switch-mode); otherwise retrain (auto, confirm or
  *    never), within a budget per horizon and a cool-down.
+ * 4. After an acknowledged anomaly alarm the engine settles too; a settled
+ *    level still at or above the anomaly exit threshold is an anomaly that
+ *    persists, and it waits for the operator ("await-confirmation", cause
+ *    "anomaly") whatever the retrain mode, unless `persistentAnomaly` is
+ *    "as-drift". Anomalies are never learnt without an operator's word.
  *
  * The core owns no model: the engine feeds it scores and carries out
  * "learn", "retrain" and "switch-mode" (feature mode), or the host does
@@ -86,7 +94,7 @@ export interface DecisionCoreState {
  */
 export class DecisionCore {
   static readonly kind = "leeway.policy.decision-core";
-  static readonly version = 1;
+  static readonly version = 2;
   readonly settings: CoreSettings;
   readonly #component: string;
   #index = -1;
@@ -123,6 +131,9 @@ export class DecisionCore {
   #risingRun = 0; // consecutive settling checks with a rising trend
   #pending = false;
   #confirmed = false;
+  #anomalySettling = false; // settling after an acknowledged anomaly alarm: a level that persists needs the operator
+  #anomalyAlarmAt = -1; // index of the last anomaly alarm
+  #askAfter = 0; // after a rejected persistent anomaly: no new question before this index
   #retrainLog: number[] = [];
   #coolDownUntil = 0;
   #retrains = 0;
@@ -404,8 +415,11 @@ export class DecisionCore {
 
   #settlingStep(zActive: number, zCommissioning: number, zNewest: number, evidence: Evidence): Decision {
     const s = this.settings;
-    if (this.#pending && !this.#confirmed) return this.#decision("hold", "concept-drift", evidence);
-    if (this.#confirmed) return this.#beginRetrain(evidence);
+    if (this.#pending && !this.#confirmed) return this.#decision("hold", this.#anomalySettling ? "anomaly" : "concept-drift", evidence);
+    if (this.#confirmed) {
+      evidence.confirmed = true;
+      return this.#beginRetrain(evidence);
+    }
     // Anomalies while settling are judged against the post-change stream itself: far above the window's level.
     const window = this.#settlingWindow;
     if (window.count >= SETTLING_WARM_UP) {
@@ -452,7 +466,7 @@ export class DecisionCore {
     const s = this.settings;
     if (Math.abs(check.activeLevel) < s.confirmShift) {
       // The active reference still scores the stream as normal: the change was not confirmed.
-      evidence.outcome = "unconfirmed";
+      evidence.outcome = this.#anomalySettling ? "returned to normal" : "unconfirmed";
       this.#toWatching();
       return this.#decision("learn", "normal", evidence);
     }
@@ -477,12 +491,37 @@ export class DecisionCore {
       evidence.coolDown = { until: this.#coolDownUntil };
       return this.#decision("hold", "concept-drift", evidence);
     }
+    // An acknowledged anomaly whose level persisted through settling is not learnt without the operator:
+    // a clog acknowledged while it lasts must not become the new normal on its own.
+    const exitLevel = this.#anomalyExitLevel();
+    const persisting = this.#anomalySettling && s.persistentAnomaly === "confirm" && check.activeLevel >= exitLevel;
+    if (persisting) evidence.persistentAnomaly = { alarmAt: this.#anomalyAlarmAt, settledLevel: check.activeLevel, exitLevel };
     if (s.retrain === "never") return this.#latch("concept-drift", evidence);
+    if (persisting && this.#index < this.#askAfter) {
+      evidence.outcome = "held: the operator rejected this level as the new normal";
+      return this.#decision("hold", "anomaly", evidence);
+    }
+    if (persisting) {
+      this.#pending = true;
+      evidence.outcome = "confirmation needed: the level of an acknowledged anomaly persisted through settling";
+      return this.#decision("await-confirmation", "anomaly", evidence);
+    }
     if (s.retrain === "confirm") {
       this.#pending = true;
       return this.#decision("await-confirmation", "concept-drift", evidence);
     }
     return this.#beginRetrain(evidence);
+  }
+
+  /**
+   * The anomaly exit threshold as a normalised score, in σ: the level below
+   * which an anomaly episode ends, (u_exit − μ_live)/σ_live. A settled level
+   * of the active reference at or above it is an anomaly that persists.
+   */
+  #anomalyExitLevel(): number {
+    const live = this.#liveLevel;
+    if (live === null || this.#anomalyExit === null) return Infinity;
+    return Math.min(this.settings.scoreClip, (this.#anomalyExit - live.mean) / live.spread);
   }
 
   /** The reference (commissioning or newest) that scores the settled window as normal, or −1. */
@@ -507,6 +546,7 @@ export class DecisionCore {
   #beginRetrain(evidence: Evidence): Decision {
     this.#pending = false;
     this.#confirmed = false;
+    this.#anomalySettling = false;
     this.#retrainLog.push(this.#index);
     this.#phase = "retraining";
     return this.#decision("retrain", "concept-drift", evidence);
@@ -537,6 +577,7 @@ export class DecisionCore {
 
   #toWatching(): void {
     this.#phase = "watching";
+    this.#anomalySettling = false;
     this.#settlingWindow.clear();
     this.#settlingStart = -1;
     this.#changeTest?.restart();
@@ -551,6 +592,8 @@ export class DecisionCore {
     this.#phase = "latched";
     this.#latchCause = cause;
     this.#alarms += 1;
+    this.#anomalySettling = false;
+    if (cause === "anomaly") this.#anomalyAlarmAt = this.#index;
     this.#pending = false;
     this.#confirmed = false;
     this.#settlingWindow.clear();
@@ -609,13 +652,24 @@ export class DecisionCore {
   }
 
   /**
-   * Operator: refuse the pending retrain. The new level is accepted without
-   * retraining: the active reference is calibrated again on the next samples.
+   * Operator: refuse the pending retrain. After a drift the new level is
+   * accepted without retraining: the active reference is calibrated again on
+   * the next samples. After an anomaly whose level persisted, the engine keeps
+   * holding: it settles again, goes back to watching when the scores return
+   * to normal, and asks again only after `settlingLimit` samples.
    * In score-only mode it also answers a "retrain" the host could not carry out.
    */
   rejectRetrain(): void {
     const waiting = this.#pending && !this.#confirmed;
     if (!waiting && this.#phase !== "retraining") this.#stateError("rejectRetrain", "while a retrain awaits confirmation or is in progress");
+    if (waiting && this.#anomalySettling) {
+      this.#pending = false;
+      this.#askAfter = this.#index + 1 + this.settings.settlingLimit;
+      this.#settlingWindow.clear();
+      this.#settlingStart = this.#index;
+      this.#risingRun = 0;
+      return;
+    }
     this.#pending = false;
     this.#confirmed = false;
     this.#phase = "watching";
@@ -633,11 +687,14 @@ export class DecisionCore {
     this.#anomalyRun = 0;
     this.#normalRun = 0;
     if (cause === "anomaly") {
-      // Whatever follows an acknowledged anomaly settles first: a level that persists is then a change
-      // (retrain or switch), one that returns to normal is not confirmed; nothing is learnt meanwhile.
+      // Whatever follows an acknowledged anomaly settles first: a level that returns to normal is not
+      // confirmed, a known mode is switched to, and a level that persists at the anomaly's height waits for
+      // the operator's confirmation (persistentAnomaly "confirm"); nothing is learnt meanwhile.
       this.#phase = "settling";
       this.#settlingStart = this.#index;
       this.#risingRun = 0;
+      this.#anomalySettling = true;
+      this.#askAfter = 0;
     }
     if (cause === "degradation") this.#degradationStanding = true;
     if (cause === "concept-drift") {
@@ -673,6 +730,8 @@ export class DecisionCore {
     this.#episodeAlarmed = false;
     this.#pending = false;
     this.#confirmed = false;
+    this.#anomalySettling = false;
+    this.#askAfter = 0;
     this.#settlingWindow.clear();
     this.#settlingStart = -1;
     this.#referenceTrend.restart();
@@ -717,6 +776,9 @@ export class DecisionCore {
       risingRun: this.#risingRun,
       pending: this.#pending,
       confirmed: this.#confirmed,
+      anomalySettling: this.#anomalySettling,
+      anomalyAlarmAt: this.#anomalyAlarmAt,
+      askAfter: this.#askAfter,
       retrainLog: [...this.#retrainLog],
       coolDownUntil: this.#coolDownUntil,
       retrains: this.#retrains,
@@ -783,6 +845,10 @@ export class DecisionCore {
     const pending = r.boolean("pending");
     const confirmed = r.boolean("confirmed");
     if (confirmed && !pending) r.fail("confirmed", "can be true only while pending");
+    const anomalySettling = r.boolean("anomalySettling");
+    if (anomalySettling && phase !== "settling") r.fail("anomalySettling", `can be true only while settling, the phase is "${phase}"`);
+    const anomalyAlarmAt = r.integer("anomalyAlarmAt", -1, Math.max(-1, index));
+    const askAfter = r.integer("askAfter", 0, big);
     const retrainLog = r.integers("retrainLog", { max: settings.retrainBudget + 1 }, 0, big);
     const coolDownUntil = r.integer("coolDownUntil", 0, big);
     const retrains = r.integer("retrains", 0, big);
@@ -823,6 +889,9 @@ export class DecisionCore {
     core.#risingRun = risingRun;
     core.#pending = pending;
     core.#confirmed = confirmed;
+    core.#anomalySettling = anomalySettling;
+    core.#anomalyAlarmAt = anomalyAlarmAt;
+    core.#askAfter = askAfter;
     core.#retrainLog = retrainLog;
     core.#coolDownUntil = coolDownUntil;
     core.#retrains = retrains;

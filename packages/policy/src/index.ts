@@ -4,7 +4,7 @@ export { DecisionEngine } from "./engine.js";
 export type { DecisionEngineOptions, DecisionEngineState } from "./engine.js";
 export type { DecisionCore, DecisionCoreState } from "./core.js";
 export { CORE_DEFAULTS, CORE_OPTION_NAMES } from "./options.js";
-export type { DecisionCoreOptions, CoreSettings, RetrainMode, ChangeTestChoice } from "./options.js";
+export type { DecisionCoreOptions, CoreSettings, RetrainMode, ChangeTestChoice, PersistentAnomalyMode } from "./options.js";
 export { FeatureModel, FEATURE_OPTION_NAMES } from "./feature-model.js";
 export type { FeatureModelOptions, FeatureSettings, CandidateValidation } from "./feature-model.js";
 export { BlockTrend } from "./block-trend.js";

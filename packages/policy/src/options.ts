@@ -12,6 +12,14 @@ import {
 /** How the engine answers a confirmed concept drift that no known mode explains. */
 export type RetrainMode = "auto" | "confirm" | "never";
 
+/**
+ * What a settled level needs after an acknowledged anomaly alarm when it
+ * persists at the anomaly's height: "confirm" asks the operator
+ * ("await-confirmation"), "as-drift" treats it as any concept drift (the
+ * retrain mode decides; with "auto" it is retrained on without asking).
+ */
+export type PersistentAnomalyMode = "confirm" | "as-drift";
+
 /** Which change test watches the active reference's normalised score. */
 export type ChangeTestChoice = "cusum" | "page-hinkley";
 
@@ -75,6 +83,14 @@ export interface DecisionCoreOptions {
   trendMinBlocks?: number;
   /** What a confirmed drift that no known mode explains leads to. Default "auto". */
   retrain?: RetrainMode;
+  /**
+   * After an acknowledged anomaly alarm whose level persists through settling (the settled level of the
+   * active reference at or above the anomaly exit threshold): "confirm" (default) asks the operator even
+   * when `retrain` is "auto"; "as-drift" retrains on it like on any drift. "as-drift" learns a fault that
+   * is acknowledged while it lasts (an hour-long clog) as the new normal: use it only where every
+   * acknowledged alarm has been inspected and cleared. Default "confirm".
+   */
+  persistentAnomaly?: PersistentAnomalyMode;
   /** Retrain attempts (a candidate that fails validation counts too) allowed per horizon. Default 3. */
   retrainBudget?: number;
   /** The horizon of that budget, in samples. Default 86400 (a day at 1 Hz). */
@@ -116,6 +132,7 @@ export interface CoreSettings {
   trendMinRise: number;
   trendMinBlocks: number;
   retrain: RetrainMode;
+  persistentAnomaly: PersistentAnomalyMode;
   retrainBudget: number;
   retrainHorizon: number;
   coolDown: number;
@@ -152,6 +169,7 @@ export const CORE_OPTION_NAMES = [
   "trendMinRise",
   "trendMinBlocks",
   "retrain",
+  "persistentAnomaly",
   "retrainBudget",
   "retrainHorizon",
   "coolDown",
@@ -188,6 +206,7 @@ export const CORE_DEFAULTS: Readonly<CoreSettings> = Object.freeze({
   trendMinRise: 0.5,
   trendMinBlocks: 20,
   retrain: "auto",
+  persistentAnomaly: "confirm",
   retrainBudget: 3,
   retrainHorizon: 86400,
   coolDown: 1800,
@@ -231,6 +250,7 @@ export function resolveCoreSettings(component: string, options: DecisionCoreOpti
     trendMinRise: numberInRange(component, "trendMinRise", pick("trendMinRise"), { min: 0 }),
     trendMinBlocks: count("trendMinBlocks", 3),
     retrain: oneOf(component, "retrain", pick("retrain"), ["auto", "confirm", "never"] as const),
+    persistentAnomaly: oneOf(component, "persistentAnomaly", pick("persistentAnomaly"), ["confirm", "as-drift"] as const),
     retrainBudget: count("retrainBudget", 0, 1_000_000),
     retrainHorizon: count("retrainHorizon", 1),
     coolDown: count("coolDown", 0),
