@@ -7,6 +7,7 @@ export type ConfigField =
   | { kind: "string"; default: string | null; choices?: readonly string[]; doc: string }
   | { kind: "strings"; default: readonly string[] | null; doc: string }
   | { kind: "boolean"; default: boolean; doc: string }
+  | { kind: "seed"; default: number | string; doc: string }
   | { kind: "section"; fields: Readonly<Record<string, ConfigField>>; doc: string };
 
 /** A validated config value: numbers, strings, booleans, string lists and nested sections, defaults filled in. */
@@ -85,6 +86,9 @@ function checkValue(v: unknown, field: Exclude<ConfigField, { kind: "section" }>
     case "boolean":
       if (typeof v !== "boolean") return fail("true or false");
       return v;
+    case "seed":
+      if ((typeof v === "number" && Number.isFinite(v)) || (typeof v === "string" && v.length > 0)) return v;
+      return fail("a finite number or a non-empty string");
   }
 }
 
