@@ -338,6 +338,10 @@ const LOOP = { mu: 0, inv: 1, k: 2, hUp: 3, hDown: 4, up: 5, lo: 6, uz: 7, lz: 8
  * function: the same arithmetic as `observe`, the last zeros found per block (see scan-block.ts).
  * Returns the index of the first alarm or −1; leaves in `s[LOOP.j]` where it stopped.
  */
+// Module-local copies: under the test runner's module loader an imported function is a getter on a
+// module object, which the loop's engine code would call (and not inline) after every block.
+const findLastZero = lastZero;
+
 function cusumLoop(xs: Float64Array, from: number, s: Float64Array, upSums: Float64Array, lowSums: Float64Array): number {
   const mu = s[LOOP.mu] as number;
   const inv = s[LOOP.inv] as number;
@@ -375,26 +379,33 @@ function cusumLoop(xs: Float64Array, from: number, s: Float64Array, upSums: Floa
       }
     }
     const length = j - blockStart;
-    const qUp = lastZero(upSums, length);
-    const qLow = lastZero(lowSums, length);
+    const qUp = findLastZero(upSums, length);
+    const qLow = findLastZero(lowSums, length);
     if (qUp >= 0) uz = idx + qUp;
     if (qLow >= 0) lz = idx + qLow;
     idx += length;
-    if (found >= 0 || j >= n) break;
-    if (j < end) {
+    let done = found >= 0 || j >= n;
+    if (!done && j < end) {
       // a non-finite sample at xs[j]
-      if (refuse) break;
-      skipped++;
-      idx++;
-      j++;
+      if (refuse) done = true;
+      else {
+        skipped++;
+        idx++;
+        j++;
+        done = j >= n;
+      }
     }
+    // The state goes back after every block, not once after the loop: the engine compiles this
+    // function while its first call is still in the loop, and code that had not run by then would
+    // bail out of the compiled code at the end of every later call.
+    s[LOOP.up] = up;
+    s[LOOP.lo] = lo;
+    s[LOOP.uz] = uz;
+    s[LOOP.lz] = lz;
+    s[LOOP.idx] = idx;
+    s[LOOP.skipped] = skipped;
+    s[LOOP.j] = j;
+    if (done) return found;
   }
-  s[LOOP.up] = up;
-  s[LOOP.lo] = lo;
-  s[LOOP.uz] = uz;
-  s[LOOP.lz] = lz;
-  s[LOOP.idx] = idx;
-  s[LOOP.skipped] = skipped;
-  s[LOOP.j] = j;
   return found;
 }

@@ -332,6 +332,11 @@ const LOOP = { mu: 0, inv: 1, lambda: 2, step: 3, bUp: 4, bDown: 5, refuse: 6, z
  * function: the same arithmetic as `observe`, the last sign changes found per block.
  * Returns the index of the first alarm or −1; leaves in `s[LOOP.j]` where it stopped.
  */
+// Module-local copies: under the test runner's module loader an imported function is a getter on a
+// module object, which the loop's engine code would call (and not inline) after every block.
+const findLastNonNegative = lastNonNegative;
+const findLastNonPositive = lastNonPositive;
+
 function ewmaLoop(xs: Float64Array, from: number, s: Float64Array, zs: Float64Array): number {
   const mu = s[LOOP.mu] as number;
   const inv = s[LOOP.inv] as number;
@@ -370,26 +375,33 @@ function ewmaLoop(xs: Float64Array, from: number, s: Float64Array, zs: Float64Ar
       }
     }
     const length = j - blockStart;
-    const qUp = lastNonPositive(zs, length);
-    const qLow = lastNonNegative(zs, length);
+    const qUp = findLastNonPositive(zs, length);
+    const qLow = findLastNonNegative(zs, length);
     if (qUp >= 0) uz = idx + qUp;
     if (qLow >= 0) lz = idx + qLow;
     idx += length;
-    if (found >= 0 || j >= n) break;
-    if (j < end) {
+    let done = found >= 0 || j >= n;
+    if (!done && j < end) {
       // a non-finite sample at xs[j]
-      if (refuse) break;
-      skipped++;
-      idx++;
-      j++;
+      if (refuse) done = true;
+      else {
+        skipped++;
+        idx++;
+        j++;
+        done = j >= n;
+      }
     }
+    // The state goes back after every block, not once after the loop: the engine compiles this
+    // function while its first call is still in the loop, and code that had not run by then would
+    // bail out of the compiled code at the end of every later call.
+    s[LOOP.z] = z;
+    s[LOOP.q] = q;
+    s[LOOP.uz] = uz;
+    s[LOOP.lz] = lz;
+    s[LOOP.idx] = idx;
+    s[LOOP.skipped] = skipped;
+    s[LOOP.j] = j;
+    if (done) return found;
   }
-  s[LOOP.z] = z;
-  s[LOOP.q] = q;
-  s[LOOP.uz] = uz;
-  s[LOOP.lz] = lz;
-  s[LOOP.idx] = idx;
-  s[LOOP.skipped] = skipped;
-  s[LOOP.j] = j;
   return found;
 }

@@ -290,6 +290,10 @@ const LOOP = {
  * whole function: the same arithmetic as `observe`, the last zeros found per block (see scan-block.ts).
  * Returns the index of the first alarm or −1; leaves in `s[LOOP.j]` where it stopped.
  */
+// Module-local copies: under the test runner's module loader an imported function is a getter on a
+// module object, which the loop's engine code would call (and not inline) after every block.
+const findLastZero = lastZero;
+
 function pageHinkleyLoop(xs: Float64Array, from: number, s: Float64Array, upSums: Float64Array, lowSums: Float64Array): number {
   const alpha = s[LOOP.alpha] as number;
   const delta = s[LOOP.delta] as number;
@@ -337,28 +341,35 @@ function pageHinkleyLoop(xs: Float64Array, from: number, s: Float64Array, upSums
       }
     }
     const length = j - blockStart;
-    const qUp = lastZero(upSums, length);
-    const qLow = lastZero(lowSums, length);
+    const qUp = findLastZero(upSums, length);
+    const qLow = findLastZero(lowSums, length);
     if (qUp >= 0) uz = idx + qUp;
     if (qLow >= 0) lz = idx + qLow;
     idx += length;
-    if (found >= 0 || j >= n) break;
-    if (j < end) {
+    let done = found >= 0 || j >= n;
+    if (!done && j < end) {
       // a non-finite sample at xs[j]
-      if (refuse) break;
-      skipped++;
-      idx++;
-      j++;
+      if (refuse) done = true;
+      else {
+        skipped++;
+        idx++;
+        j++;
+        done = j >= n;
+      }
     }
+    // The state goes back after every block, not once after the loop: the engine compiles this
+    // function while its first call is still in the loop, and code that had not run by then would
+    // bail out of the compiled code at the end of every later call.
+    s[LOOP.w] = w;
+    s[LOOP.runMean] = runMean;
+    s[LOOP.up] = up;
+    s[LOOP.lo] = lo;
+    s[LOOP.uz] = uz;
+    s[LOOP.lz] = lz;
+    s[LOOP.idx] = idx;
+    s[LOOP.skipped] = skipped;
+    s[LOOP.j] = j;
+    if (done) return found;
   }
-  s[LOOP.w] = w;
-  s[LOOP.runMean] = runMean;
-  s[LOOP.up] = up;
-  s[LOOP.lo] = lo;
-  s[LOOP.uz] = uz;
-  s[LOOP.lz] = lz;
-  s[LOOP.idx] = idx;
-  s[LOOP.skipped] = skipped;
-  s[LOOP.j] = j;
   return found;
 }
