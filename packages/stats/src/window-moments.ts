@@ -21,7 +21,8 @@ const accept = acceptSample;
  * recomputation, the next such count to look at: every 8th from W/4 on.
  */
 function nextCheck(since: number, earliest: number): number {
-  return Math.ceil(Math.max(earliest, since + 1) / 8) * 8;
+  const first = since + 1 > earliest ? since + 1 : earliest;
+  return ((first + 7) >> 3) << 3; // ⌈first/8⌉·8 in integer steps (first < 2³¹)
 }
 
 /** Options of {@link WindowMoments}. */
@@ -356,6 +357,34 @@ export class WindowMoments {
       head = head + 1 === width ? 0 : head + 1;
       count++;
       since++;
+      // The samples after this one, up to the next that starts a block or is due for a look at the
+      // shift, take the full-window step alone: the same arithmetic without the per-sample tests.
+      if (size === width && head !== 0) {
+        let m = check - since; // samples before the next look at the shift
+        if (width - head < m) m = width - head; // … and before the block ends
+        if (xs.length - i - 1 < m) m = xs.length - i - 1;
+        const first = i + 1;
+        const stop = first + m;
+        let t = first;
+        for (; t < stop; t++) {
+          const y = (xs[t] as number) + 0;
+          if (!(Math.abs(y) <= SAMPLE_LIMIT)) break; // left to the outer loop, which stops there
+          const dy = y - k;
+          const ey = (ring[head] as number) - k;
+          s1 += dy - ey;
+          s2 += dy * dy - ey * ey;
+          if (s2 < 0) s2 = 0;
+          if (y < preMin) preMin = y;
+          if (y > preMax) preMax = y;
+          ring[head] = y;
+          head++;
+        }
+        const taken = t - first;
+        if (head === width) head = 0;
+        count += taken;
+        since += taken;
+        i += taken;
+      }
     }
     this.#head = head;
     this.#size = size;
