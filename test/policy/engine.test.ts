@@ -1,4 +1,5 @@
 import { describe, expect, it } from "vitest";
+import type { Snapshot } from "@leeway/core";
 import { DecisionEngine, type Decision } from "@leeway/policy";
 import { expectLeewayError, throughJson } from "../support/errors.js";
 import { expectRefusesCorruptions } from "../support/snapshot-corruption.js";
@@ -280,6 +281,114 @@ describe("DecisionEngine batch paths", () => {
     const d = new DecisionEngine(QUICK);
     const single = Array.from(live, (v, i) => c.observeScores(v, refs[i]));
     expect(d.observeScoresMany(live, refs)).toEqual(single);
+  });
+});
+
+describe("DecisionEngine snapshots: cross-checks between fields", () => {
+  type Json = Record<string, unknown>;
+  const mutated = (snapshot: unknown, path: string[], value: unknown): Json => {
+    const copy = throughJson(snapshot) as Json;
+    let at: Json = copy;
+    for (const key of path.slice(0, -1)) at = at[key] as Json;
+    at[path[path.length - 1] as string] = value;
+    return copy;
+  };
+
+  it("refuses a feature-mode snapshot whose pool, lineage and served references disagree", () => {
+    const xs = spectra(700, 1, (t) => ({ shift: t >= 400 ? 0.6 : 0, bump: 0 }));
+    const engine = new DecisionEngine({ ...SMALL, members: 2 });
+    let ackAt = -1;
+    xs.forEach((x, i) => {
+      const d = engine.observe(x);
+      if (d.action === "alarm") ackAt = i + 5;
+      if (i === ackAt) engine.acknowledge();
+      if (d.action === "await-confirmation") engine.confirmRetrain();
+    });
+    expect(engine.model?.servedReferences).toEqual([0, 1]);
+    const good = engine.snapshot();
+    const served = ["state", "model", "state", "served"];
+    for (const bad of [[0], [0, 1, -1], [1, 1], [0, 2], [0, -2], [0, 0.5]]) {
+      expectLeewayError(() => DecisionEngine.restore(mutated(good, served, bad)), "E_SNAPSHOT", "served");
+    }
+    expectLeewayError(() => DecisionEngine.restore(mutated(good, ["state", "model", "version"], 1)), "E_SNAPSHOT", "version");
+    expectLeewayError(() => DecisionEngine.restore(mutated(good, ["state", "core", "version"], 1)), "E_SNAPSHOT", "version");
+    const lineage = (good.state.model as { state: { lineage: unknown[] } }).state.lineage;
+    expectLeewayError(() => DecisionEngine.restore(mutated(good, ["state", "model", "state", "lineage"], [lineage[0]])), "E_SNAPSHOT", "lineage");
+    // the untouched snapshot restores and continues
+    const restored = DecisionEngine.restore(throughJson(good));
+    expect(restored.model?.servedReferences).toEqual([0, 1]);
+  });
+
+  it("refuses a core whose phase, latch, confirmation and anomaly-settling fields contradict each other", () => {
+    const engine = new DecisionEngine({ ...QUICK, seed: 4 });
+    let snapshotWhileAsked: Snapshot | null = null;
+    runHost(engine, new ScoreHost(3), (t): World => ({ mode: 0, degradation: 0, fault: t >= 3000 ? 1.2 : 0 }), 3300, {
+      acknowledgeAfter: 20,
+      onDecision: (d) => {
+        if (d.action === "await-confirmation" && snapshotWhileAsked === null) snapshotWhileAsked = engine.snapshot();
+      },
+    });
+    expect(snapshotWhileAsked).not.toBeNull();
+    const asked = snapshotWhileAsked as unknown as Snapshot;
+    const core = ["state", "core", "state"];
+    const cases: [string, unknown, string][] = [
+      ["phase", "watching", "anomalySettling"], // held after an anomaly, but not settling
+      ["pending", false, "confirmed"],
+      ["latchCause", "anomaly", "latchCause"],
+      ["anomalyAlarmAt", 10 ** 9, "anomalyAlarmAt"],
+      ["askAfter", -1, "askAfter"],
+      ["anomalySettling", "yes", "anomalySettling"],
+    ];
+    const withConfirmed = mutated(asked, [...core, "confirmed"], true);
+    for (const [field, value, named] of cases) {
+      const base = field === "pending" ? withConfirmed : asked;
+      expectLeewayError(() => DecisionEngine.restore(mutated(base, [...core, field], value)), "E_SNAPSHOT", named);
+    }
+    expectRefusesCorruptions((s) => DecisionEngine.restore(s), asked, {
+      sizePaths: [["core", "state", "settings", "settling"], ["core", "state", "settings", "calibration"]],
+      variableLengthPaths: [["core", "state", "retrainLog"]],
+      numRuns: 80,
+    });
+  });
+
+  it("restored while it asks about a persisting anomaly, an engine continues bit for bit through the answer", () => {
+    const world = (t: number): World => ({ mode: 0, degradation: 0, fault: t >= 3000 && t < 4200 ? 1.2 : 0 });
+    const host = new ScoreHost(3);
+    const scores = Array.from({ length: 4800 }, (_, t) => host.score(world(t)));
+    /** The operator: acknowledges 20 samples after an alarm, rejects every question at once. */
+    const operator = (e: DecisionEngine) => {
+      let ackAt = -1;
+      return (d: Decision, t: number): void => {
+        if (d.action === "alarm") ackAt = t + 20;
+        if (t === ackAt) e.acknowledge();
+        if (d.action === "await-confirmation") e.rejectRetrain();
+      };
+    };
+    const a = new DecisionEngine({ ...QUICK, seed: 4 });
+    const answerA = operator(a);
+    let b: DecisionEngine | null = null;
+    let answerB: ((d: Decision, t: number) => void) | null = null;
+    let compared = 0;
+    scores.forEach((s, t) => {
+      const da = a.observeScores(s.live, s.references);
+      if (b !== null && answerB !== null) {
+        const db = b.observeScores(s.live, s.references);
+        expect(db).toEqual(da);
+        answerB(db, t);
+        compared++;
+      }
+      if (da.action === "await-confirmation" && b === null) {
+        // restored before the operator answers; the copy gets the same answer
+        b = DecisionEngine.restore(throughJson(a.snapshot()));
+        b.rejectRetrain();
+        answerB = operator(b);
+      }
+      answerA(da, t);
+    });
+    expect(compared).toBeGreaterThan(1000);
+    expect(JSON.stringify((b as unknown as DecisionEngine).snapshot())).toBe(JSON.stringify(a.snapshot()));
+    expect(a.retrains).toBe(0);
+    expect(a.phase).toBe("watching");
   });
 });
 
