@@ -224,16 +224,15 @@ export class Moments {
       let s2 = this.#bSq;
       let lo = this.#min;
       let hi = this.#max;
-      let left = MOMENTS_BLOCK - this.#bCount; // samples until this block is full
-      for (; i < xs.length; ) {
+      const left = MOMENTS_BLOCK - this.#bCount; // samples until this block is full
+      const end = len - i < left ? len : i + left;
+      for (; i < end; i++) {
         const x = xs[i] as number;
         const d = x - shift; // d = x − K
         s1 += d;
         s2 += d * d;
         if (x < lo) lo = x;
         if (x > hi) hi = x;
-        i++;
-        if (--left === 0) break;
       }
       if (!(Number.isFinite(s1) && Number.isFinite(s2) && lo >= -SAMPLE_LIMIT && hi <= SAMPLE_LIMIT)) {
         // A non-finite or too large sample in this run: redo it one by one,
