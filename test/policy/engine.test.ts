@@ -38,6 +38,7 @@ describe("DecisionEngine options", () => {
       [{ trendClearZ: 3 }, "trendClearZ"],
       [{ trendMinBlocks: 1000 }, "trendMinBlocks"],
       [{ retrain: "sometimes" }, "retrain"],
+      [{ persistentAnomaly: "auto" }, "persistentAnomaly"],
       [{ retrainBudget: -1 }, "retrainBudget"],
       [{ seed: "" }, "seed"],
       [{ nonFinite: "ignore" }, "nonFinite"],

@@ -213,15 +213,20 @@ export class DecisionEngine {
     this.#core.modelReplaced();
   }
 
-  /** Operator: go ahead with the retrain awaiting confirmation; it runs on the next sample. E_STATE when none is pending. */
+  /**
+   * Operator: go ahead with the retrain awaiting confirmation (the new level is
+   * the new normal); it runs on the next sample. E_STATE when none is pending.
+   */
   confirmRetrain(): void {
     this.#core.confirmRetrain();
   }
 
   /**
    * Operator: refuse the retrain awaiting confirmation (or, in score-only
-   * mode, report that the host could not retrain); the new level is accepted
-   * without retraining. E_STATE when none is pending.
+   * mode, report that the host could not retrain). After a drift the new level
+   * is accepted without retraining; after an acknowledged anomaly whose level
+   * persisted (a question with cause "anomaly") the engine keeps holding until
+   * the scores return to normal. E_STATE when none is pending.
    */
   rejectRetrain(): void {
     if (this.#model !== null && !this.#core.pending) this.#core.confirmRetrain(); // throws the E_STATE message

@@ -123,7 +123,7 @@ export class FeatureModel {
   get lineageSize(): number {
     return this.#lineage.length;
   }
-  /** The live pool. */
+  /** The live pool (members added to it directly serve no reference of the lineage). */
   get pool(): AutoencoderPool {
     return this.#pool;
   }
@@ -138,6 +138,7 @@ export class FeatureModel {
 
   /** Scores `x`, asks the core, and carries out its decision. */
   decide(core: DecisionCore, x: Float64Array): Decision {
+    this.#syncServed();
     const scored = this.#pool.size > 0 ? this.#pool.score(x) : null;
     const live = scored === null ? 0 : finiteLoss(scored.loss);
     const member = scored === null ? -1 : scored.member;
@@ -179,6 +180,11 @@ export class FeatureModel {
       decision.action = "hold";
       decision.evidence.learning = { refused: true, reason: error.message };
     }
+    while (this.#served.length < this.#pool.size) this.#served.push(-1);
+  }
+
+  /** Members added to the pool from outside (through {@link FeatureModel.pool}) serve no reference. */
+  #syncServed(): void {
     while (this.#served.length < this.#pool.size) this.#served.push(-1);
   }
 
@@ -307,7 +313,7 @@ export class FeatureModel {
       options: { hidden: s.hidden, members: s.members, ridge: s.ridge, forgetting: s.forgetting, validationShare: s.validationShare, validationTolerance: s.validationTolerance },
       pool: this.#pool.snapshot(),
       lineage: this.#lineage.map((m) => m.snapshot()),
-      served: [...this.#served],
+      served: (this.#syncServed(), [...this.#served]),
       kept: toPlainArray(this.#kept),
       candidates: this.#candidates,
     });
