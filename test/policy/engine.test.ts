@@ -1,3 +1,4 @@
+import fc from "fast-check";
 import { describe, expect, it } from "vitest";
 import type { Snapshot } from "@leeway/core";
 import { DecisionEngine, type Decision } from "@leeway/policy";
@@ -265,6 +266,61 @@ describe("DecisionEngine never throws from observe for its own state", () => {
     for (const x of spectra(200, 8, () => ({ shift: 0, bump: 0 }))) engine.observe(x);
     expect(engine.phase).toBe("watching");
     expect(() => DecisionEngine.restore(throughJson(engine.snapshot()))).not.toThrow();
+  });
+});
+
+describe("DecisionEngine under any stream and any operator", () => {
+  /** Piecewise streams: segments of a level, a noise amplitude (0: constant) and a length; levels include 0 and 1e300. */
+  const segments = fc.array(
+    fc.record({ level: fc.constantFrom(0, 1e-9, 0.02, 0.05, 1, 1e300), noise: fc.constantFrom(0, 0.05, 0.3), length: fc.integer({ min: 5, max: 160 }) }),
+    { minLength: 3, maxLength: 10 },
+  );
+  /** What the operator does after each decision, when the call is allowed: nothing, answer, or commission anew. */
+  const operator = fc.array(fc.constantFrom("none", "none", "none", "acknowledge", "confirm", "reject", "commission"), { minLength: 50, maxLength: 50 });
+  const act = (engine: DecisionEngine, what: string): void => {
+    if (what === "acknowledge" && engine.phase === "latched") engine.acknowledge();
+    if (what === "confirm" && engine.awaitingConfirmation) engine.confirmRetrain();
+    if (what === "reject" && engine.awaitingConfirmation) engine.rejectRetrain();
+    if (what === "commission" && engine.phase !== "commissioning") engine.startCommissioning(30);
+  };
+
+  it("property: observeScores and observe never throw for the engine's own state, whatever the scores or spectra and whatever allowed operator calls come between", () => {
+    fc.assert(
+      fc.property(
+        segments,
+        operator,
+        fc.constantFrom("auto", "confirm", "never"),
+        fc.constantFrom("confirm", "as-drift"),
+        fc.integer({ min: 1, max: 3 }),
+        fc.integer({ min: 0, max: 1000 }),
+        (parts, calls, retrain, persistentAnomaly, members, seed) => {
+          const options = { commissioning: 40, calibration: 30, settling: 20, settlingLimit: 80, trendBlock: 3, trendWindow: 20, trendMinBlocks: 5, coolDown: 20, targetArl0: 200, calibrationReplicates: 10, retrain, persistentAnomaly, seed } as const;
+          const scores = new DecisionEngine(options);
+          const features = new DecisionEngine({ ...options, inputs: 4, hidden: 3, members });
+          let t = 0;
+          let wave = seed;
+          for (const part of parts) {
+            for (let i = 0; i < part.length; i++, t++) {
+              wave = (wave * 1103515245 + 12345) % 2147483648;
+              const jitter = part.noise * (wave / 2147483648 - 0.5);
+              const score = Math.min(Number.MAX_VALUE, part.level * (1 + jitter));
+              const what = calls[t % calls.length] as string;
+              const d = scores.observeScores(score, [score * (1 + jitter / 2)]);
+              if (d.action === "retrain") scores.modelReplaced();
+              act(scores, what);
+              const x = Float64Array.from({ length: 4 }, (_, j) => Math.min(1e300, part.level * (1 + jitter * (j + 1))));
+              features.observe(x);
+              act(features, what);
+            }
+          }
+          expect(scores.index).toBe(t - 1);
+          expect(features.index).toBe(t - 1);
+          expect(() => DecisionEngine.restore(throughJson(features.snapshot()))).not.toThrow();
+          expect(() => DecisionEngine.restore(throughJson(scores.snapshot()))).not.toThrow();
+        },
+      ),
+      { numRuns: 25 },
+    );
   });
 });
 
