@@ -127,7 +127,9 @@ export interface AutoencoderPoolState {
  * by every member; the nearest (lowest loss) learns it. When the lowest loss
  * stays above `spawnLoss` for `spawnPatience` samples and there is room, those
  * samples start a new member (fitted on them by ridge least squares). When the
- * pool is full, the nearest member learns every sample.
+ * pool is full, the nearest member learns every sample; a new mode then takes
+ * a member's place through {@link AutoencoderPool.replaceMember} (for example
+ * the {@link AutoencoderPool.leastRecentlyUsed} one).
  * @example
  * const pool = new AutoencoderPool({ inputs: 2, hidden: 3, maxMembers: 2, spawnPatience: 1, seed: 1 });
  * pool.learn(Float64Array.of(1, 0)).spawned; // true: the empty pool starts member 0
