@@ -124,6 +124,7 @@ export class Adwin implements ChangeTest {
   // outcome of the latest step, read by observe()
   #cutStatistic = 0;
   #cutDirection: ChangeDirection = "up";
+  readonly #one = new Float64Array(1); // observe(x) runs the batch insertion on [x]
 
   constructor(options: AdwinOptions = {}) {
     const o = optionsObject<AdwinOptions>(NAME, options, KNOWN);
@@ -187,14 +188,21 @@ export class Adwin implements ChangeTest {
   scan(xs: Float64Array, from = 0): number {
     const n = xs.length;
     const refuse = this.#nonFinite === "refuse";
-    for (let j = scanStart(NAME, xs, from); j < n; j++) {
-      const x = xs[j] as number;
-      if (!(x - x === 0)) {
-        if (refuse) throw new NonFiniteError(NAME, `xs[${j}]`, x);
+    let j = scanStart(NAME, xs, from);
+    while (j < n) {
+      // the samples up to the next check go in as one run
+      const room = this.#checkPeriod - this.#sinceCheck;
+      const stop = n - j < room ? n : j + room;
+      const k = this.#insertRun(xs, j, stop);
+      if (this.#sinceCheck === this.#checkPeriod && this.#checkAndCut()) return k - 1;
+      if (k < stop) {
+        // a non-finite sample at xs[k]
+        if (refuse) throw new NonFiniteError(NAME, `xs[${k}]`, xs[k]);
         this.#skipped += 1;
-        continue;
+        j = k + 1;
+      } else {
+        j = k;
       }
-      if (this.#step(x)) return j;
     }
     return -1;
   }
@@ -290,10 +298,13 @@ export class Adwin implements ChangeTest {
 
   /** Takes one finite sample; returns true when the window was cut at it. */
   #step(x: number): boolean {
-    this.#count += 1;
-    this.#insert(x);
-    this.#sinceCheck += 1;
-    if (this.#sinceCheck < this.#checkPeriod) return false;
+    this.#one[0] = x;
+    this.#insertRun(this.#one, 0, 1);
+    return this.#sinceCheck === this.#checkPeriod && this.#checkAndCut();
+  }
+
+  /** The check due every `checkPeriod` samples: drops the oldest buckets while a split passes; true when it cut. */
+  #checkAndCut(): boolean {
     this.#sinceCheck = 0;
     let cut = false;
     for (;;) {
@@ -314,10 +325,12 @@ export class Adwin implements ChangeTest {
     return l * this.#cap + (((this.#heads[l] as number) + b) & this.#mask);
   }
 
-  /** A new bucket of size 1, then the histogram's merges. */
-  #insert(x: number): void {
-    this.#total += x;
-    this.#width += 1;
+  /**
+   * Takes the finite samples xs[from], xs[from + 1], … before `stop` (at most up to the next check),
+   * each as a new bucket of size 1 followed by the histogram's merges; returns where it stopped (at
+   * `stop` or at the first non-finite sample). The state stays in locals while it runs.
+   */
+  #insertRun(xs: Float64Array, from: number, stop: number): number {
     const cap = this.#cap;
     const mask = this.#mask;
     const m = this.#m;
@@ -325,35 +338,52 @@ export class Adwin implements ChangeTest {
     const heads = this.#heads;
     const totals = this.#totals;
     const m2s = this.#m2s;
-    const c0 = counts[0] as number;
-    const at = ((heads[0] as number) + c0) & mask;
-    totals[at] = x;
-    m2s[at] = 0;
-    counts[0] = c0 + 1;
-    if (this.#levels === 0) this.#levels = 1;
-    if (c0 < m) return;
-    // n = 2^l and its reciprocal (exact): d = (t₀ − t₁)·(1/n) equals (t₀ − t₁)/n bit for bit
-    for (let l = 0, n = 1, inverse = 1; (counts[l] as number) > m; l++, n *= 2, inverse *= 0.5) {
-      // merge the two oldest buckets of level l (each of n = 2^l samples) into one of level l + 1
-      if (l + 1 >= MAX_LEVELS) throw new RangeError("Adwin: window too long for the histogram");
-      const base = l * cap;
-      const h = heads[l] as number;
-      const i0 = base + h;
-      const i1 = base + ((h + 1) & mask);
-      const t0 = totals[i0] as number;
-      const t1 = totals[i1] as number;
-      const d = (t0 - t1) * inverse;
-      const mergedTotal = t0 + t1;
-      const mergedM2 = (m2s[i0] as number) + (m2s[i1] as number) + d * d * n * 0.5; // M₂,₀ + M₂,₁ + n·d²/2
-      heads[l] = (h + 2) & mask;
-      counts[l] = (counts[l] as number) - 2;
-      const cn = counts[l + 1] as number;
-      const next = (l + 1) * cap + (((heads[l + 1] as number) + cn) & mask);
-      totals[next] = mergedTotal;
-      m2s[next] = mergedM2;
-      counts[l + 1] = cn + 1;
-      if (l + 2 > this.#levels) this.#levels = l + 2;
+    let total = this.#total;
+    let width = this.#width;
+    let levels = this.#levels;
+    let j = from;
+    for (; j < stop; j++) {
+      const x = xs[j] as number;
+      if (!(x - x === 0)) break;
+      total += x;
+      width += 1;
+      const c0 = counts[0] as number;
+      const at = ((heads[0] as number) + c0) & mask;
+      totals[at] = x;
+      m2s[at] = 0;
+      counts[0] = c0 + 1;
+      if (levels === 0) levels = 1;
+      if (c0 < m) continue;
+      // n = 2^l and its reciprocal (exact): d = (t₀ − t₁)·(1/n) equals (t₀ − t₁)/n bit for bit
+      for (let l = 0, n = 1, inverse = 1; (counts[l] as number) > m; l++, n *= 2, inverse *= 0.5) {
+        // merge the two oldest buckets of level l (each of n = 2^l samples) into one of level l + 1
+        if (l + 1 >= MAX_LEVELS) throw new RangeError("Adwin: window too long for the histogram");
+        const base = l * cap;
+        const h = heads[l] as number;
+        const i0 = base + h;
+        const i1 = base + ((h + 1) & mask);
+        const t0 = totals[i0] as number;
+        const t1 = totals[i1] as number;
+        const d = (t0 - t1) * inverse;
+        const mergedTotal = t0 + t1;
+        const mergedM2 = (m2s[i0] as number) + (m2s[i1] as number) + d * d * n * 0.5; // M₂,₀ + M₂,₁ + n·d²/2
+        heads[l] = (h + 2) & mask;
+        counts[l] = (counts[l] as number) - 2;
+        const cn = counts[l + 1] as number;
+        const next = (l + 1) * cap + (((heads[l + 1] as number) + cn) & mask);
+        totals[next] = mergedTotal;
+        m2s[next] = mergedM2;
+        counts[l + 1] = cn + 1;
+        if (l + 2 > levels) levels = l + 2;
+      }
     }
+    const taken = j - from;
+    this.#total = total;
+    this.#width = width;
+    this.#levels = levels;
+    this.#count += taken;
+    this.#sinceCheck += taken;
+    return j;
   }
 
   /** Drops the oldest bucket (the head of the highest level) and updates the window's moments. */
