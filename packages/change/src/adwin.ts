@@ -74,6 +74,8 @@ const KNOWN = ["delta", "buckets", "checkPeriod", "minSubWindow", "bound", "thre
 const PRUNE_MARGIN = 1 - 1e-6;
 /** Levels of the exponential histogram: bucket sizes 1, 2, 4, … 2^(MAX_LEVELS − 1). */
 const MAX_LEVELS = 52;
+/** 2^l for each level l, looked up: an exponent that varies would call the general power function. */
+const BUCKET_SIZES = Float64Array.from({ length: MAX_LEVELS }, (_, l) => 2 ** l);
 
 /**
  * ADWIN, the adaptive-window change test of Bifet & Gavaldà (2007), with its exponential histogram
@@ -389,7 +391,7 @@ export class Adwin implements ChangeTest {
   /** Drops the oldest bucket (the head of the highest level) and updates the window's moments. */
   #dropOldest(): void {
     const top = this.#levels - 1;
-    const nb = 2 ** top;
+    const nb = BUCKET_SIZES[top] as number;
     const h = this.#heads[top] as number;
     const tb = this.#totals[top * this.#cap + h] as number;
     const rest = this.#width - nb;
@@ -425,7 +427,7 @@ export class Adwin implements ChangeTest {
     let bestSquared = 0; // best²·a·W·(1 − 10⁻⁶)
     let n0 = 0;
     let s0 = 0;
-    let size = 2 ** (this.#levels - 1);
+    let size = this.#levels > 0 ? (BUCKET_SIZES[this.#levels - 1] as number) : 0.5;
     for (let l = this.#levels - 1; l >= 0; l--, size /= 2) {
       const c = this.#levelCounts[l] as number;
       const base = l * cap;
