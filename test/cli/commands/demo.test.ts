@@ -24,6 +24,19 @@ describe("leeway demo", () => {
     expect(html).toContain('id="plot-events"');
   });
 
+  it("leeway report rebuilds the demo's plots and metrics exactly from decisions.ndjson and labels.json", async () => {
+    const dir = scratchDir("demo-rebuild");
+    expect((await runCli(["demo", "--scale", "6", "--out", dir])).code).toBe(0);
+    const rebuilt = join(dir, "rebuilt.html");
+    const r = await runCli(["report", join(dir, "decisions.ndjson"), "--labels", join(dir, "labels.json"), "--out", rebuilt]);
+    expect(r.code, r.stderr).toBe(0);
+    const section = (html: string, from: string, to: string): string => html.slice(html.indexOf(from), html.indexOf(to));
+    const a = readFileSync(join(dir, "report.html"), "utf8");
+    const b = readFileSync(rebuilt, "utf8");
+    expect(section(b, '<section aria-label="plots">', "<h2>Metrics</h2>")).toBe(section(a, '<section aria-label="plots">', "<h2>Metrics</h2>"));
+    expect(section(b, "<h2>Metrics</h2>", "</main>")).toBe(section(a, "<h2>Metrics</h2>", "</main>"));
+  });
+
   it("the same seed gives the same decisions", async () => {
     const a = scratchDir("demo-a");
     const b = scratchDir("demo-b");
