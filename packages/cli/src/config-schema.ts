@@ -23,8 +23,8 @@ export interface ConfigObject {
  * value of the right type and range; missing keys take their defaults.
  * `locate(path)` turns a key path into "line:column" of the file for messages.
  * @example
- * validateConfig({ replay: { hiden: 8 } }, schema, "pipeline.json", () => "3:5");
- * // throws InputError: pipeline.json:3:5: unknown key "replay.hiden"; did you mean "hidden"?
+ * validateConfig({ engine: { hiden: 8 } }, CONFIG_FIELDS, "pipeline.json", () => "3:5");
+ * // throws InputError: pipeline.json:3:5: unknown key "engine.hiden"; did you mean "engine.hidden"? (known keys of "engine": ...)
  */
 export function validateConfig(
   value: unknown,
