@@ -41,3 +41,37 @@ export function readBurnIn(reader: SnapshotReader): BurnIn {
   const m2 = r.numberIn("m2", 0, Number.MAX_VALUE);
   return { count, mean, m2 };
 }
+
+/**
+ * The in-control level (μ₀, σ) of a chart as a snapshot holds it: given as
+ * options, estimated by a finished burn-in, or still being estimated. Read
+ * and cross-checked in one place for every chart that standardises its input.
+ */
+export interface InControlLevel {
+  /** The options to rebuild the chart with: μ₀ and σ when they were given, or the burn-in length. */
+  options: { mean: number | undefined; sigma: number | undefined; burnIn: number | undefined };
+  /** μ₀ and σ estimated by a burn-in that has ended, or null. */
+  estimated: { mean: number; sigma: number } | null;
+  /** The burn-in still in progress, or null. */
+  burnIn: BurnIn | null;
+}
+
+/** Reads and validates the fields `burnInLength`, `burnIn`, `mean` and `sigma` of a chart's snapshot state. */
+export function readInControlLevel(r: SnapshotReader, count: number): InControlLevel {
+  const burnInLength = r.integer("burnInLength", 0, 2 ** 31 - 1);
+  const burnIn = r.objectOrNull("burnIn") === null ? null : readBurnIn(r);
+  const mean = r.numberOrNull("mean");
+  const sigma = r.numberOrNull("sigma");
+  const known = burnIn === null;
+  if (known !== (mean !== null) || known !== (sigma !== null)) r.fail("burnIn", "must be null exactly when mean and sigma are known");
+  if (!known && burnInLength === 0) r.fail("burnInLength", "must be > 0 while burning in");
+  if (burnIn !== null && burnIn.count > count) r.fail("burnIn.count", "cannot exceed count");
+  if (burnInLength === 0) {
+    return { options: { mean: mean as number, sigma: sigma as number, burnIn: undefined }, estimated: null, burnIn: null };
+  }
+  const options = { mean: undefined, sigma: undefined, burnIn: burnInLength };
+  if (!known) return { options, estimated: null, burnIn };
+  // the burn-in has ended: μ₀ and σ were estimated
+  if (!((sigma as number) > 0)) r.fail("sigma", `must be > 0, got ${String(sigma)}`);
+  return { options, estimated: { mean: mean as number, sigma: sigma as number }, burnIn: null };
+}

@@ -9,12 +9,11 @@ import {
   optionsObject,
   positiveNumber,
   OptionError,
-  SnapshotError,
   type NonFinitePolicy,
   type Snapshot,
 } from "@leeway/core";
 import type { ChangeDirection, ChangeReading, ChangeSides, ChangeTest } from "./change-test.js";
-import { burnInSigma, burnInStep, emptyBurnIn, readBurnIn, type BurnIn } from "./burn-in.js";
+import { burnInSigma, burnInStep, emptyBurnIn, readInControlLevel, type BurnIn } from "./burn-in.js";
 import { scanStart, sidesOption, warningFractionOption } from "./options.js";
 import { buildFromSnapshot, definedOnly } from "./restore-support.js";
 import { lastZero, SCAN_BLOCK } from "./scan-block.js";
@@ -262,10 +261,6 @@ export class Cusum implements ChangeTest {
     const direction = r.oneOf("direction", ["up", "down", "both"] as const);
     const warningFraction = r.number("warningFraction");
     const nonFinite = r.oneOf("nonFinite", ["refuse", "skip"] as const);
-    const burnInLength = r.integer("burnInLength", 0, 2 ** 31 - 1);
-    const burnIn = r.objectOrNull("burnIn") === null ? null : readBurnIn(r);
-    const mean = r.numberOrNull("mean");
-    const sigma = r.numberOrNull("sigma");
     const count = r.integer("count", 0, Number.MAX_SAFE_INTEGER);
     const skipped = r.integer("skipped", 0, Number.MAX_SAFE_INTEGER);
     const last = count + skipped - 1;
@@ -273,27 +268,20 @@ export class Cusum implements ChangeTest {
     const lower = r.numberIn("lower", 0, Number.MAX_VALUE);
     const upperZero = r.integer("upperZero", -1, last);
     const lowerZero = r.integer("lowerZero", -1, last);
-    const known = burnIn === null;
-    if (known !== (mean !== null) || known !== (sigma !== null)) r.fail("burnIn", "must be null exactly when mean and sigma are known");
-    if (!known && burnInLength === 0) r.fail("burnInLength", "must be > 0 while burning in");
-    if (burnIn !== null && burnIn.count > count) r.fail("burnIn.count", "cannot exceed count");
+    const level = readInControlLevel(r, count);
     const test = buildFromSnapshot(Cusum.kind, () =>
       new Cusum(definedOnly<CusumOptions>({
         k, h, headStart, direction, warningFraction, nonFinite,
-        mean: burnInLength === 0 ? (mean as number) : undefined,
-        sigma: burnInLength === 0 ? (sigma as number) : undefined,
-        burnIn: burnInLength > 0 ? burnInLength : undefined,
+        ...level.options,
       })),
     );
-    if (burnInLength > 0 && known) {
-      // the burn-in has ended: μ₀ and σ were estimated
-      if (!((sigma as number) > 0)) throw new SnapshotError(Cusum.kind, "state.sigma", `must be > 0, got ${String(sigma)}`);
+    if (level.estimated !== null) {
       test.#burnIn = null;
-      test.#mean = mean as number;
-      test.#sigma = sigma as number;
-      test.#invSigma = 1 / (sigma as number);
-    } else if (burnIn !== null) {
-      test.#burnIn = burnIn;
+      test.#mean = level.estimated.mean;
+      test.#sigma = level.estimated.sigma;
+      test.#invSigma = 1 / level.estimated.sigma;
+    } else if (level.burnIn !== null) {
+      test.#burnIn = level.burnIn;
     }
     test.#upper = upper;
     test.#lower = lower;

@@ -10,12 +10,11 @@ import {
   optionsObject,
   positiveNumber,
   OptionError,
-  SnapshotError,
   type NonFinitePolicy,
   type Snapshot,
 } from "@leeway/core";
 import type { ChangeDirection, ChangeReading, ChangeSides, ChangeTest } from "./change-test.js";
-import { burnInSigma, burnInStep, emptyBurnIn, readBurnIn, type BurnIn } from "./burn-in.js";
+import { burnInSigma, burnInStep, emptyBurnIn, readInControlLevel, type BurnIn } from "./burn-in.js";
 import { scanStart, sidesOption, warningFractionOption } from "./options.js";
 import { buildFromSnapshot, definedOnly } from "./restore-support.js";
 import { lastNonNegative, lastNonPositive, SCAN_BLOCK } from "./scan-block.js";
@@ -258,10 +257,6 @@ export class EwmaChart implements ChangeTest {
     const direction = r.oneOf("direction", ["up", "down", "both"] as const);
     const warningFraction = r.number("warningFraction");
     const nonFinite = r.oneOf("nonFinite", ["refuse", "skip"] as const);
-    const burnInLength = r.integer("burnInLength", 0, 2 ** 31 - 1);
-    const burnIn = r.objectOrNull("burnIn") === null ? null : readBurnIn(r);
-    const mean = r.numberOrNull("mean");
-    const sigma = r.numberOrNull("sigma");
     const count = r.integer("count", 0, Number.MAX_SAFE_INTEGER);
     const skipped = r.integer("skipped", 0, Number.MAX_SAFE_INTEGER);
     const last = count + skipped - 1;
@@ -269,26 +264,20 @@ export class EwmaChart implements ChangeTest {
     const decay = r.numberIn("decay", 0, 1);
     const upperZero = r.integer("upperZero", -1, last);
     const lowerZero = r.integer("lowerZero", -1, last);
-    const known = burnIn === null;
-    if (known !== (mean !== null) || known !== (sigma !== null)) r.fail("burnIn", "must be null exactly when mean and sigma are known");
-    if (!known && burnInLength === 0) r.fail("burnInLength", "must be > 0 while burning in");
-    if (burnIn !== null && burnIn.count > count) r.fail("burnIn.count", "cannot exceed count");
+    const level = readInControlLevel(r, count);
     const test = buildFromSnapshot(EwmaChart.kind, () =>
       new EwmaChart(definedOnly<EwmaChartOptions>({
         lambda, L, limits, direction, warningFraction, nonFinite,
-        mean: burnInLength === 0 ? (mean as number) : undefined,
-        sigma: burnInLength === 0 ? (sigma as number) : undefined,
-        burnIn: burnInLength > 0 ? burnInLength : undefined,
+        ...level.options,
       })),
     );
-    if (burnInLength > 0 && known) {
-      if (!((sigma as number) > 0)) throw new SnapshotError(EwmaChart.kind, "state.sigma", `must be > 0, got ${String(sigma)}`);
+    if (level.estimated !== null) {
       test.#burnIn = null;
-      test.#mean = mean as number;
-      test.#sigma = sigma as number;
-      test.#invSigma = 1 / (sigma as number);
-    } else if (burnIn !== null) {
-      test.#burnIn = burnIn;
+      test.#mean = level.estimated.mean;
+      test.#sigma = level.estimated.sigma;
+      test.#invSigma = 1 / level.estimated.sigma;
+    } else if (level.burnIn !== null) {
+      test.#burnIn = level.burnIn;
     }
     test.#z = z;
     test.#decay = decay;
