@@ -33,6 +33,7 @@ describe("DecisionEngine options", () => {
       [{ anomalyRun: 0 }, "anomalyRun"],
       [{ changeTest: "adwin" }, "changeTest"],
       [{ targetArl0: 10 }, "targetArl0"],
+      [{ calibrationReplicates: 9 }, "calibrationReplicates"], // calibrateThreshold needs at least 10: refused here, not at the end of commissioning
       [{ settling: 10 }, "settling"],
       [{ settlingLimit: 100 }, "settlingLimit"],
       [{ trendWarnZ: 4 }, "trendWarnZ"],

@@ -47,7 +47,7 @@ export interface DecisionCoreOptions {
   changeTest?: ChangeTestChoice;
   /** Target in-control average run length of the change test, in samples; the threshold is calibrated to it at the end of commissioning. Default 20000. */
   targetArl0?: number;
-  /** Bootstrap replicates of that calibration (cost grows with replicates). Default 100. */
+  /** Bootstrap replicates of that calibration, 10 to 10000 (cost grows with replicates). Default 100. */
   calibrationReplicates?: number;
   /** Half-life of the slowly following baseline the change test measures from, in samples. Default 1800 (30 min at 1 Hz). */
   baselineHalfLife?: number;
@@ -232,7 +232,7 @@ export function resolveCoreSettings(component: string, options: DecisionCoreOpti
     anomalyRun: count("anomalyRun", 1, 100_000),
     changeTest: oneOf(component, "changeTest", pick("changeTest"), ["cusum", "page-hinkley"] as const),
     targetArl0: numberInRange(component, "targetArl0", pick("targetArl0"), { min: 100, max: 1e7 }),
-    calibrationReplicates: count("calibrationReplicates", 5, 10_000),
+    calibrationReplicates: count("calibrationReplicates", 10, 10_000), // calibrateThreshold needs at least 10
     baselineHalfLife: positiveNumber(component, "baselineHalfLife", pick("baselineHalfLife")),
     scoreClip: level("scoreClip"),
     settling: count("settling", 20, 100_000),
