@@ -31,7 +31,7 @@ export const demoSpec: CommandSpec = {
   ],
   details: [
     "The scenario (invented): pump station Harbour Lane, skid PS-2, a centrifugal pump on a variable-frequency drive at 990, 1485 and 2970 rpm, an accelerometer on the drive-end bearing housing (5 kHz, 1024-sample frames). Seven simulated days: day 2 a standby compressor raises the noise floor (concept drift), from day 4 an outer-race bearing defect grows (degradation), day 6 a rag clogs the impeller for an hour (anomaly).",
-    "Each frame becomes a 256-band log spectrum (@leeway/signal). The host knows the speed setpoint from the drive, so each spectrum goes to the decision engine of its speed (@leeway/policy, one OS-ELM autoencoder pool each, commissioned on the first visit to that speed); a scripted operator acknowledges each alarm four samples after it latched. The decisions are measured against the scenario's ground truth (@leeway/eval). The engines' time spans are scaled to the chosen rate.",
+    "Each frame becomes a 256-band log spectrum (@leeway/signal). The host knows the speed setpoint from the drive, so each spectrum goes to the decision engine of its speed (@leeway/policy, one OS-ELM autoencoder pool each, commissioned on the first visit to that speed); a scripted operator acknowledges each alarm four samples after it latched and, standing in for the site log that records the compressor installation, confirms each retrain the engines ask for four samples after they ask (a real operator would confirm only changes known to be benign). The decisions are measured against the scenario's ground truth (@leeway/eval). The engines' time spans are scaled to the chosen rate.",
   ],
   examples: ["npx leeway demo", "leeway demo --scale 30 --out /tmp/ps2"],
 };
@@ -176,7 +176,7 @@ export async function runDemo(parsed: ParsedArguments, io: CliStreams): Promise<
 
 function operatorLines(actions: { index: number; mode: string; action: string }[], scale: number): string[] {
   if (actions.length === 0) return [];
-  const lines = ["", `operator (scripted: acknowledges an alarm four samples after it latched): ${actions.length} actions`];
+  const lines = ["", `operator (scripted: acknowledges each alarm and confirms each retrain question four samples after it is raised): ${actions.length} actions`];
   for (const a of actions.slice(0, 6)) lines.push(`  ${simulatedClock(a.index, scale).padEnd(18)} ${a.action.padEnd(18)} ${a.mode} engine`);
   if (actions.length > 6) lines.push(`  … ${actions.length - 6} more`);
   return lines;
