@@ -27,7 +27,7 @@ interface Mutation {
  * corruption of a valid snapshot: a wrong kind, a newer version, every
  * size field set absurdly large, and (by fast-check) a missing field, an array
  * one element too long or too short, and a number replaced by NaN, ±Infinity
- * or a string anywhere in the state.
+ * or an object anywhere in the state (not a string: some number fields, such as seeds, also take strings).
  */
 export function expectRefusesCorruptions(restore: (snapshot: unknown) => unknown, valid: Snapshot, options: CorruptionOptions = {}): void {
   const clean = JSON.parse(JSON.stringify(valid)) as Snapshot;
@@ -75,7 +75,7 @@ export function expectRefusesCorruptions(restore: (snapshot: unknown) => unknown
   }
   if (numeric.length > 0) {
     mutations.push(
-      fc.tuple(fc.constantFrom(...numeric), fc.constantFrom<unknown>(Number.NaN, Infinity, -Infinity, "1")).map(([path, bad]) => {
+      fc.tuple(fc.constantFrom(...numeric), fc.constantFrom<unknown>(Number.NaN, Infinity, -Infinity, {})).map(([path, bad]) => {
         const copy = structuredClone(clean);
         setAt(copy.state, path, bad);
         return { description: `${String(bad)} at ${path.join(".")}`, snapshot: copy };
@@ -86,8 +86,8 @@ export function expectRefusesCorruptions(restore: (snapshot: unknown) => unknown
     mutations.push(
       fc.constantFrom(...strings).map((path) => {
         const copy = structuredClone(clean);
-        setAt(copy.state, path, 7);
-        return { description: `number instead of string at ${path.join(".")}`, snapshot: copy };
+        setAt(copy.state, path, {}); // not a number: some string fields, such as seeds, also take numbers
+        return { description: `object instead of string at ${path.join(".")}`, snapshot: copy };
       }),
     );
   }
