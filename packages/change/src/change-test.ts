@@ -23,8 +23,8 @@ export interface ChangeReading {
   status: ChangeStatus;
   statistic: number;
   threshold: number;
-  direction?: ChangeDirection;
-  onset?: number;
+  direction?: ChangeDirection | undefined;
+  onset?: number | undefined;
   skipped?: number;
 }
 

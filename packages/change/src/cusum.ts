@@ -311,9 +311,11 @@ export class Cusum implements ChangeTest {
     const statistic = up >= lo ? up : lo;
     const change = this.#upper > this.#hUp || this.#lower > this.#hDown;
     const status = change ? "change" : statistic > this.#warningFraction * this.#h ? "warning" : "stable";
-    if (!(statistic > 0)) return { index: i, status, statistic, threshold: this.#h, skipped: this.#skipped };
-    const direction: ChangeDirection = up >= lo ? "up" : "down";
-    const onset = (direction === "up" ? this.#upperZero : this.#lowerZero) + 1;
+    // One object shape for every reading (direction and onset undefined while the statistic is 0), so
+    // that in-control data, where the sums hit zero at random, does not flip between two shapes.
+    const active = statistic > 0;
+    const direction: ChangeDirection | undefined = active ? (up >= lo ? "up" : "down") : undefined;
+    const onset = active ? (direction === "up" ? this.#upperZero : this.#lowerZero) + 1 : undefined;
     return { index: i, status, statistic, threshold: this.#h, direction, onset, skipped: this.#skipped };
   }
 }
