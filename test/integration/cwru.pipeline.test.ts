@@ -3,9 +3,10 @@
 // accelerometer; 0.021-inch seeded faults on the drive-end bearing; see
 // ../shared/data/README.md). Normal baseline at 0 HP recorded at 48 kHz and decimated
 // to 12 kHz here; fault records at 0–3 HP recorded at 12 kHz.
-import { existsSync, readFileSync } from "node:fs";
+import { readFileSync } from "node:fs";
 import { fileURLToPath } from "node:url";
-import { describe, expect, it } from "vitest";
+import { describe, expect } from "vitest";
+import { withDataset } from "../support/real-data.js";
 import { decimate, mannWhitney, prAuc, replay, type Pipeline } from "@leeway/eval";
 import type { Decision } from "@leeway/policy";
 import { DecisionEngine } from "@leeway/policy";
@@ -13,8 +14,7 @@ import { AutoencoderPool } from "@leeway/pool";
 import { Framer, SpectrumAnalyzer, reduceBins } from "@leeway/signal";
 
 const dataDir = fileURLToPath(new URL("../../../shared/data/cwru-bearing/", import.meta.url));
-const present = existsSync(`${dataDir}1797_Normal_DE.csv`);
-const missing = present ? "" : " — SKIPPED: dataset cwru-bearing (Case Western Reserve University Bearing Data Center) not found at ../shared/data/cwru-bearing";
+const dataIt = withDataset("cwru-bearing (Case Western Reserve University Bearing Data Center)", `${dataDir}1797_Normal_DE.csv`);
 
 const FRAME = 1024; // samples per frame at 12 kHz (85 ms)
 const HOP = 256;
@@ -69,8 +69,8 @@ function scoring(pool: AutoencoderPool): Pipeline<Float64Array> {
   };
 }
 
-describe(`CWRU bearing data: spectra scored by an autoencoder commissioned on the normal record${missing}`, () => {
-  it.skipIf(!present)("inner- and outer-race fault frames score above held-out normal frames at every load (ROC AUC ≥ 0.99); ball faults measured", () => {
+describe(`CWRU bearing data: spectra scored by an autoencoder commissioned on the normal record`, () => {
+  dataIt("inner- and outer-race fault frames score above held-out normal frames at every load (ROC AUC ≥ 0.99); ball faults measured", () => {
     // 48 kHz → 12 kHz: anti-alias low-pass (257-tap windowed sinc, cut-off 5.4 kHz), every 4th sample.
     const normal = decimate(readColumn("1797_Normal_DE.csv"), 4);
     expect(normal.length).toBe(24_000);
@@ -103,7 +103,7 @@ describe(`CWRU bearing data: spectra scored by an autoencoder commissioned on th
     );
   });
 
-  it.skipIf(!present)("the decision engine, commissioned on the normal frames, answers every fault record with an anomaly alarm and learns none of it (docs/cwru-example.md)", () => {
+  dataIt("the decision engine, commissioned on the normal frames, answers every fault record with an anomaly alarm and learns none of it (docs/cwru-example.md)", () => {
     // As in docs/cwru-example.md: frames 128 samples apart; 180 normal frames, then 180 of one fault record.
     const normal = spectra(decimate(readColumn("1797_Normal_DE.csv"), 4), 128);
     const outcomes: string[] = [];

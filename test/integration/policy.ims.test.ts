@@ -1,6 +1,7 @@
 import { existsSync, readFileSync } from "node:fs";
 import { fileURLToPath } from "node:url";
-import { describe, expect, it } from "vitest";
+import { describe, expect } from "vitest";
+import { withDataset } from "../support/real-data.js";
 import { DecisionEngine, type Decision } from "@leeway/policy";
 
 // Real data: the IMS Bearing Data Set, test 1 (Center for Intelligent Maintenance
@@ -12,8 +13,7 @@ import { DecisionEngine, type Decision } from "@leeway/policy";
 // bearings 1 and 2 survived. No onset time is published.
 
 const file = fileURLToPath(new URL("../../../shared/data/ims-bearing-test1/set1_timefeatures.csv", import.meta.url));
-const present = existsSync(file);
-if (!present) console.log(`skipping the IMS bearing check: dataset ims-bearing-test1 is missing (${file})`);
+const dataIt = withDataset("ims-bearing-test1 (IMS Bearing Data Set, NASA Ames Prognostics Data Repository)", file);
 
 /**
  * Engine settings for one snapshot every 10 minutes (the defaults assume one
@@ -71,13 +71,13 @@ function runBearing(rows: string[][], header: string[], bearing: number): Bearin
   return run;
 }
 
-describe.runIf(present)("IMS bearing run-to-failure record, test 1 (Qiu et al., 2006; NASA Ames Prognostics Data Repository)", () => {
-  const lines = present ? readFileSync(file, "utf8").trim().split("\n") : [];
+describe("IMS bearing run-to-failure record, test 1 (Qiu et al., 2006; NASA Ames Prognostics Data Repository)", () => {
+  const lines = existsSync(file) ? readFileSync(file, "utf8").trim().split("\n") : [];
   const header = (lines[0] ?? "").split(",");
   const rows = lines.slice(1).map((l) => l.split(","));
   const end = Math.floor(0.9 * rows.length);
 
-  it("raises degradation (not a drift retrain) on the failing bearings 3 and 4 before the last 10 % of the record", () => {
+  dataIt("raises degradation (not a drift retrain) on the failing bearings 3 and 4 before the last 10 % of the record", () => {
     for (const bearing of [3, 4]) {
       const run = runBearing(rows, header, bearing);
       const first = run.alarms.find((a) => a.cause === "degradation");
@@ -91,7 +91,7 @@ describe.runIf(present)("IMS bearing run-to-failure record, test 1 (Qiu et al., 
     }
   });
 
-  it("reports what it decides on the surviving bearings 1 and 2", () => {
+  dataIt("reports what it decides on the surviving bearings 1 and 2", () => {
     for (const bearing of [1, 2]) {
       const run = runBearing(rows, header, bearing);
       const summary = run.alarms.map((a) => `${a.cause}@${a.index} (${rows[a.index]?.[0]})`).join(", ");

@@ -4,15 +4,15 @@
 // bearing, a 6205-size bearing; see ../shared/data/README.md): the envelope
 // spectrum of each outer- and inner-race fault record peaks at BPFO·f_r and
 // BPFI·f_r computed from the bearing's geometry.
-import { existsSync, readFileSync } from "node:fs";
+import { readFileSync } from "node:fs";
 import { fileURLToPath } from "node:url";
-import { describe, expect, it } from "vitest";
+import { describe, expect } from "vitest";
+import { withDataset } from "../support/real-data.js";
 import { RealFft } from "@leeway/signal";
 import { bearingOrders } from "@leeway/sim";
 
 const dataDir = fileURLToPath(new URL("../../../shared/data/cwru-bearing/", import.meta.url));
-const present = existsSync(`${dataDir}1797_ORat6_21_DE12_DE.csv`);
-const missing = present ? "" : " — SKIPPED: dataset cwru-bearing (Case Western Reserve University Bearing Data Center) not found at ../shared/data/cwru-bearing";
+const dataIt = withDataset("cwru-bearing (Case Western Reserve University Bearing Data Center)", `${dataDir}1797_ORat6_21_DE12_DE.csv`);
 
 const FS = 12_000; // Hz
 const N = 16_384; // 1.37 s, Δf = 0.73 Hz
@@ -62,10 +62,10 @@ function envelopePeakHz(x: Float64Array): number {
   return bestHz;
 }
 
-describe(`CWRU bearing data: envelope lines at the kinematic defect frequencies${missing}`, () => {
+describe(`CWRU bearing data: envelope lines at the kinematic defect frequencies`, () => {
   const orders = bearingOrders({ balls: 9, ballDiameter: 7.94, pitchDiameter: 39.04, contactAngle: 0 });
   for (const rpm of [1797, 1772, 1750, 1730]) {
-    it.skipIf(!present)(`${rpm} rpm: outer-race record peaks at BPFO·f_r, inner-race record at BPFI·f_r, within 1 % (CWRU Bearing Data Center records, drive end, 12 kHz)`, () => {
+    dataIt(`${rpm} rpm: outer-race record peaks at BPFO·f_r, inner-race record at BPFI·f_r, within 1 % (CWRU Bearing Data Center records, drive end, 12 kHz)`, () => {
       const fr = rpm / 60;
       const outer = envelopePeakHz(readColumn(`${rpm}_ORat6_21_DE12_DE.csv`));
       const inner = envelopePeakHz(readColumn(`${rpm}_IR_21_DE12_DE.csv`));
