@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { DimensionError, LeewayError, NonFiniteError, OptionError, SnapshotError, StateError, describeValue } from "@leeway/core";
+import { DimensionError, LeewayError, NonFiniteError, OptionError, SampleError, SnapshotError, StateError, describeValue, typeOf } from "@leeway/core";
 
 describe("error classes", () => {
   it("carry stable codes and name the parameter, the value and what is allowed", () => {
@@ -17,6 +17,10 @@ describe("error classes", () => {
     expect(new SnapshotError("leeway.stats.moments", "state.count", "is missing").message).toBe("snapshot of leeway.stats.moments: state.count is missing");
     expect(new SnapshotError("k", "p", "x").code).toBe("E_SNAPSHOT");
     expect(new StateError("Engine", "nothing to acknowledge").code).toBe("E_STATE");
+    const sample = new SampleError("Moments", "x", "5", "a number");
+    expect(sample.code).toBe("E_SAMPLE");
+    expect(sample.message).toBe('Moments: x must be a number, got "5" (string)');
+    expect(new SampleError("Cusum", "x", 1e200, "a finite number in [-1e+150, 1e+150]").message).toBe("Cusum: x must be a finite number in [-1e+150, 1e+150], got 1e+200");
   });
 
   it("describe values readably", () => {
@@ -28,5 +32,6 @@ describe("error classes", () => {
     expect(describeValue({})).toBe("an object");
     expect(describeValue(() => 1)).toBe("a function");
     expect(describeValue("x".repeat(100)).length).toBeLessThan(70);
+    expect([typeOf(null), typeOf([]), typeOf(new Float32Array(1)), typeOf("a"), typeOf(1)]).toEqual(["null", "array", "Float32Array", "string", "number"]);
   });
 });

@@ -2,7 +2,7 @@
  * Stable error codes. Hosts may switch on `error.code`; messages may change
  * wording between versions, codes never do.
  */
-export type ErrorCode = "E_OPTION" | "E_NON_FINITE" | "E_DIMENSION" | "E_SNAPSHOT" | "E_STATE";
+export type ErrorCode = "E_OPTION" | "E_NON_FINITE" | "E_SAMPLE" | "E_DIMENSION" | "E_SNAPSHOT" | "E_STATE";
 
 /** Base class of every error leeway throws on purpose. */
 export class LeewayError extends Error {
@@ -43,6 +43,20 @@ export class NonFiniteError extends LeewayError {
 }
 
 /**
+ * A sample (or an element of one) is not a number at all (a string, null, an
+ * array, ...), or is a finite number outside the range the component states it
+ * accepts. Never coerced, never skipped: `nonFinite: "skip"` covers only NaN and ±Infinity.
+ * @example
+ * new SampleError("Moments", "x", "5", "a number").message;
+ * // 'Moments: x must be a number, got "5" (string)'
+ */
+export class SampleError extends LeewayError {
+  constructor(component: string, parameter: string, value: unknown, allowed: string) {
+    super("E_SAMPLE", `${component}: ${parameter} must be ${allowed}, got ${describeValue(value)}${typeof value === "number" ? "" : ` (${typeOf(value)})`}`);
+  }
+}
+
+/**
  * A vector or matrix has the wrong length or shape.
  * @example
  * new DimensionError("OselmAutoencoder", "x", 256, 255).message;
@@ -74,6 +88,14 @@ export class StateError extends LeewayError {
   constructor(component: string, message: string) {
     super("E_STATE", `${component}: ${message}`);
   }
+}
+
+/** The type of a value as a message names it: "null", "array", "Float32Array", "string", ... */
+export function typeOf(value: unknown): string {
+  if (value === null) return "null";
+  if (Array.isArray(value)) return "array";
+  if (ArrayBuffer.isView(value)) return value.constructor.name;
+  return typeof value;
 }
 
 /** A short, readable rendering of any value for error messages. */

@@ -1,4 +1,4 @@
-export { LeewayError, OptionError, NonFiniteError, DimensionError, SnapshotError, StateError, describeValue } from "./errors.js";
+export { LeewayError, OptionError, NonFiniteError, SampleError, DimensionError, SnapshotError, StateError, describeValue, typeOf } from "./errors.js";
 export type { ErrorCode } from "./errors.js";
 export {
   finiteNumber,
@@ -15,6 +15,10 @@ export {
   optionsObject,
   nonFiniteOption,
   requireFinite,
+  isNumber,
+  requireNumber,
+  requireNumbers,
+  sampleWithin,
 } from "./validate.js";
 export type { RangeBounds, NonFinitePolicy } from "./validate.js";
 export { envelope, openSnapshot, SnapshotReader, toPlainArray, checkedSize, MAX_SNAPSHOT_ELEMENTS } from "./snapshot.js";

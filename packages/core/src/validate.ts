@@ -1,4 +1,4 @@
-import { NonFiniteError, OptionError } from "./errors.js";
+import { DimensionError, NonFiniteError, OptionError, SampleError } from "./errors.js";
 
 /**
  * Option validation shared by every package. Each helper returns the value
@@ -137,6 +137,68 @@ export type NonFinitePolicy = "refuse" | "skip";
 export function nonFiniteOption(component: string, value: unknown): NonFinitePolicy {
   if (value === undefined) return "refuse";
   return oneOf(component, "nonFinite", value, ["refuse", "skip"] as const);
+}
+
+/**
+ * True when `x` is of type number (NaN and ±Infinity included): the test every
+ * sample passes before a component's `nonFinite` policy looks at it.
+ * @example
+ * [isNumber(5), isNumber(Number.NaN), isNumber("5"), isNumber(null)]; // [true, true, false, false]
+ */
+export function isNumber(x: unknown): x is number {
+  return typeof x === "number";
+}
+
+/**
+ * Returns `x` when it is of type number (NaN and ±Infinity pass: the
+ * component's `nonFinite` policy decides about them); otherwise throws
+ * {@link SampleError} (`E_SAMPLE`) naming the parameter and the type received.
+ * Nothing is coerced: `"5"`, `null`, `[7]` and `true` are refused.
+ * @example
+ * requireNumber("Moments", "x", 2.5); // 2.5
+ * requireNumber("Moments", "x", "5"); // throws: Moments: x must be a number, got "5" (string)
+ */
+export function requireNumber(component: string, parameter: string, x: unknown): number {
+  if (typeof x !== "number") throw new SampleError(component, parameter, x, "a number");
+  return x;
+}
+
+/**
+ * Checks a vector sample: a Float64Array or Float32Array passes at once; a
+ * plain array passes when every element is of type number (non-finite
+ * elements are left to the caller's `nonFinite` policy). Anything else, or a
+ * non-number element, throws {@link SampleError} (`E_SAMPLE`) naming the
+ * parameter (and the element's index); a wrong length, when `length` is given,
+ * throws {@link DimensionError} (`E_DIMENSION`).
+ * @example
+ * requireNumbers("OselmAutoencoder", "x", [1, 2], 2).length; // 2
+ * requireNumbers("OselmAutoencoder", "x", [1, "2"]); // throws: OselmAutoencoder: x[1] must be a number, got "2" (string)
+ */
+export function requireNumbers(component: string, parameter: string, xs: unknown, length?: number): ArrayLike<number> {
+  if (!(xs instanceof Float64Array || xs instanceof Float32Array)) {
+    if (!Array.isArray(xs)) throw new SampleError(component, parameter, xs, "a Float64Array, a Float32Array or an array of numbers");
+    for (let i = 0; i < xs.length; i++) {
+      if (typeof xs[i] !== "number") throw new SampleError(component, `${parameter}[${i}]`, xs[i], "a number");
+    }
+  }
+  if (length !== undefined && xs.length !== length) throw new DimensionError(component, parameter, length, xs.length);
+  return xs as ArrayLike<number>;
+}
+
+/**
+ * Returns `x` when it is a finite number with |x| ≤ `limit`; a non-number or a
+ * finite number beyond the limit throws {@link SampleError} (`E_SAMPLE`)
+ * stating the range, NaN/±Infinity throw {@link NonFiniteError}
+ * (`E_NON_FINITE`). For components whose state would overflow past a stated range.
+ * @example
+ * sampleWithin("Cusum", "x", 3, 1e150); // 3
+ * sampleWithin("Cusum", "x", 1e200, 1e150); // throws: Cusum: x must be a finite number in [-1e+150, 1e+150], got 1e+200
+ */
+export function sampleWithin(component: string, parameter: string, x: unknown, limit: number): number {
+  if (typeof x !== "number") throw new SampleError(component, parameter, x, "a number");
+  if (!Number.isFinite(x)) throw new NonFiniteError(component, parameter, x);
+  if (!(Math.abs(x) <= limit)) throw new SampleError(component, parameter, x, `a finite number in [${-limit}, ${limit}]`);
+  return x;
 }
 
 /** Throws {@link NonFiniteError} unless `x` is a finite number. */
