@@ -1,6 +1,6 @@
 import { it } from "vitest";
 import { RandomSource } from "@leeway/core";
-import { Adwin, calibrateThreshold, Cusum, EwmaChart, KsWindow, PageHinkley } from "@leeway/change";
+import { Adwin, calibrateThreshold, Cusum, EwmaChart, SlidingKsTest, PageHinkley } from "@leeway/change";
 import { BenchReport, consume, nsPerOp, sumLoop } from "./harness.js";
 
 // A module-local alias: the test runner turns imported names into property reads.
@@ -34,12 +34,12 @@ it("change: scan, observe and calibration", () => {
   row("Cusum.scan (two-sided)", xs, () => keep(new Cusum({ mean: 0, sigma: 1, k: 0.5, h: 1e12 }).scan(xs)), n, 9, 15);
   row("EwmaChart.scan (asymptotic limits)", xs, () => keep(new EwmaChart({ mean: 0, sigma: 1, lambda: 0.1, L: 1e6 }).scan(xs)), n, 9, 15);
   row("EwmaChart.scan (exact limits)", xs, () => keep(new EwmaChart({ mean: 0, sigma: 1, lambda: 0.1, L: 1e6, limits: "exact" }).scan(xs)), n, 9, 15);
-  row("PageHinkley.scan (two-sided, running mean)", xs, () => keep(new PageHinkley({ threshold: 1e12, delta: 0.05, direction: "both" }).scan(xs)), n, 9, 15);
+  row("PageHinkley.scan (two-sided, running mean)", xs, () => keep(new PageHinkley({ alarmLevel: 1e12, tolerance: 0.05, direction: "both" }).scan(xs)), n, 9, 15);
   const cusum = new Cusum({ mean: 0, sigma: 1, k: 0.5, h: 1e12 });
   row("Cusum.observe", xs, () => { let s = 0; for (let i = 0; i < n; i++) s += cusum.observe(xs[i] as number).statistic; keep(s); }, n, 9, 15);
   const ewma = new EwmaChart({ mean: 0, sigma: 1, lambda: 0.1, L: 1e6 });
   row("EwmaChart.observe", xs, () => { let s = 0; for (let i = 0; i < n; i++) s += ewma.observe(xs[i] as number).statistic; keep(s); }, n, 9, 15);
-  const ph = new PageHinkley({ threshold: 1e12, delta: 0.05, direction: "both" });
+  const ph = new PageHinkley({ alarmLevel: 1e12, tolerance: 0.05, direction: "both" });
   row("PageHinkley.observe", xs, () => { let s = 0; for (let i = 0; i < n; i++) s += ph.observe(xs[i] as number).statistic; keep(s); }, n, 9, 15);
 
   // each timing scans all 10^6 samples with a new window (so the window grows to 10^6 as in use);
@@ -47,7 +47,7 @@ it("change: scan, observe and calibration", () => {
   const adwin = new Adwin({ delta: 0.002 });
   adwin.scan(million);
   row("Adwin.scan (δ = 0.002, 10^6 samples, amortized)", million, () => keep(new Adwin({ delta: 0.002 }).scan(million)), million.length, 5, 1, `final width ${adwin.width}, ${adwin.bucketCount} buckets`);
-  row("KsWindow.scan (w = 256, reference 256)", xs, () => keep(new KsWindow({ window: 256, referenceSize: 256, threshold: 2 }).scan(xs)), n, 3, 50);
+  row("SlidingKsTest.scan (w = 256, reference 256)", xs, () => keep(new SlidingKsTest({ recentSize: 256, referenceSize: 256, criticalD: 2 }).scan(xs)), n, 3, 50);
 
   // calibration of a CUSUM to ARL0 = 10^4 with 200 replicates, from 2000 commissioning scores
   const scores = random.fillNormal(new Float64Array(2000));

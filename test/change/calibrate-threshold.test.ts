@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
 import { RandomSource } from "@leeway/core";
-import { Adwin, calibrateThreshold, Cusum, EwmaChart, KsWindow, PageHinkley, type ChangeTest } from "@leeway/change";
+import { Adwin, calibrateThreshold, Cusum, EwmaChart, SlidingKsTest, PageHinkley, type ChangeTest } from "@leeway/change";
 import { expectLeewayError } from "../support/errors.js";
 
 const r = new RandomSource("commissioning");
@@ -20,10 +20,10 @@ const sigma = Math.sqrt(scores.reduce((a, b) => a + (b - mean) ** 2, 0) / (score
 const makers: [string, (t: number) => ChangeTest, number][] = [
   ["Cusum", (h) => new Cusum({ mean, sigma, h, direction: "up" }), 1],
   ["Cusum with burn-in", (h) => new Cusum({ burnIn: 50, h }), 1],
-  ["PageHinkley", (t) => new PageHinkley({ threshold: t, delta: 0.1 * sigma }), sigma],
+  ["PageHinkley", (t) => new PageHinkley({ alarmLevel: t, tolerance: 0.1 * sigma }), sigma],
   ["EwmaChart", (L) => new EwmaChart({ mean, sigma, lambda: 0.2, L }), 1],
   ["Adwin", (t) => new Adwin({ delta: 0.002, threshold: t }), 1],
-  ["KsWindow", (t) => new KsWindow({ window: 32, referenceSize: 64, threshold: t, checkPeriod: 4 }), 0.3],
+  ["SlidingKsTest", (t) => new SlidingKsTest({ recentSize: 32, referenceSize: 64, criticalD: t, checkPeriod: 4 }), 0.3],
 ];
 
 describe("calibrateThreshold", () => {
@@ -64,7 +64,7 @@ describe("calibrateThreshold", () => {
   });
 
   it("says so when no threshold reaches the target (a test that alarms at once)", () => {
-    const always = (t: number): ChangeTest => new KsWindow({ reference: [1, 2, 3, 4, 5, 6, 7, 8], window: 8, threshold: Math.min(0.99, t / (1 + t)) });
+    const always = (t: number): ChangeTest => new SlidingKsTest({ referenceSample: [1, 2, 3, 4, 5, 6, 7, 8], recentSize: 8, criticalD: Math.min(0.99, t / (1 + t)) });
     expectLeewayError(() => calibrateThreshold(always, new Float64Array(100).fill(50), { targetArl0: 1000, seed: 1, replicates: 10 }), "E_STATE", "no threshold up to");
   });
 

@@ -1,14 +1,14 @@
 import { describe, expect, it } from "vitest";
-import { Adwin, Cusum, EwmaChart, KsWindow, PageHinkley, restoreChangeTest, type ChangeTest } from "@leeway/change";
+import { Adwin, Cusum, EwmaChart, SlidingKsTest, PageHinkley, restoreChangeTest, type ChangeTest } from "@leeway/change";
 import { expectLeewayError, throughJson } from "../support/errors.js";
 
 describe("restoreChangeTest", () => {
   const tests: ChangeTest[] = [
     new Cusum({ mean: 0, sigma: 1 }),
-    new PageHinkley({ threshold: 5 }),
+    new PageHinkley({ alarmLevel: 5 }),
     new EwmaChart({ mean: 0, sigma: 1 }),
     new Adwin(),
-    new KsWindow({ window: 8, referenceSize: 8 }),
+    new SlidingKsTest({ recentSize: 8, referenceSize: 8 }),
   ];
   it("dispatches on kind to the right class, which continues identically", () => {
     const xs = Float64Array.from({ length: 100 }, (_, i) => Math.sin(i / 3) + (i > 60 ? 2 : 0));

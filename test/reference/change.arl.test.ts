@@ -71,7 +71,7 @@ describe("tabular CUSUM k = 0.5 (Montgomery & Runger, Applied Statistics and Pro
   });
 
   it("PageHinkley with a known mean, δ = 0.5, λ = 4 has the one-sided CUSUM ARL0 2 × 168 = 336 within ±5 % (same table; two-sided ARL0 is half the one-sided)", () => {
-    const estimate = monteCarloArl(new PageHinkley({ threshold: 4, delta: 0.5, mean: 0, minSamples: 0 }), 0, RUNS, "ph");
+    const estimate = monteCarloArl(new PageHinkley({ alarmLevel: 4, tolerance: 0.5, knownMean: 0, armAfter: 0 }), 0, RUNS, "ph");
     expect(Math.abs(estimate / 336 - 1)).toBeLessThan(0.05);
   });
 });

@@ -19,18 +19,18 @@ import { lastZero, SCAN_BLOCK } from "./scan-block.js";
 
 /** Options of {@link PageHinkley}. */
 export interface PageHinkleyOptions {
-  /** Alarm threshold λ, in score units (> 0). */
-  threshold: number;
+  /** Alarm level λ, in score units (> 0): the statistic must pass it for a `"change"`. */
+  alarmLevel: number;
   /** Magnitude tolerance δ, in score units (default 0): deviations smaller than δ do not accumulate. */
-  delta?: number;
+  tolerance?: number;
   /** `"up"` (default: scores rising), `"down"` or `"both"`. */
   direction?: ChangeSides;
   /** Forgetting factor α in (0, 1] of the running mean (default 1: the plain mean of all samples). */
-  forgetting?: number;
-  /** A known in-control mean μ₀; when given, it replaces the running mean. */
-  mean?: number;
-  /** No alarm before this many finite samples (default 30). */
-  minSamples?: number;
+  meanForgetting?: number;
+  /** A known in-control mean μ₀, in score units; when given, it replaces the running mean. */
+  knownMean?: number;
+  /** The test is armed (can say `"change"`) from this many finite samples on (default 30). */
+  armAfter?: number;
   /** `"warning"` once the statistic passes this fraction of λ (default 0.5). */
   warningFraction?: number;
   /** `"refuse"` (default) or `"skip"` non-finite samples. */
@@ -39,12 +39,12 @@ export interface PageHinkleyOptions {
 
 /** Plain state of a {@link PageHinkley} snapshot. */
 export interface PageHinkleyState {
-  threshold: number;
-  delta: number;
+  alarmLevel: number;
+  tolerance: number;
   direction: ChangeSides;
-  forgetting: number;
+  meanForgetting: number;
   knownMean: number | null;
-  minSamples: number;
+  armAfter: number;
   warningFraction: number;
   nonFinite: NonFinitePolicy;
   weight: number;
@@ -58,7 +58,7 @@ export interface PageHinkleyState {
 }
 
 const NAME = "PageHinkley";
-const KNOWN = ["threshold", "delta", "direction", "forgetting", "mean", "minSamples", "warningFraction", "nonFinite"] as const;
+const KNOWN = ["alarmLevel", "tolerance", "direction", "meanForgetting", "knownMean", "armAfter", "warningFraction", "nonFinite"] as const;
 
 /**
  * The Page-Hinkley test (Page, 1954; Hinkley, 1971; Basseville & Nikiforov, 1993, §2.2) for a change in
@@ -71,21 +71,21 @@ const KNOWN = ["threshold", "delta", "direction", "forgetting", "mean", "minSamp
  * with x̄ₜ − xₜ − δ). With a known mean μ₀ in place of x̄ₜ this is exactly the one-sided CUSUM with k = δ.
  * `restart()` zeroes the sums and keeps the running mean.
  * @example
- * const ph = new PageHinkley({ threshold: 3, mean: 0, minSamples: 0 });
+ * const ph = new PageHinkley({ alarmLevel: 3, knownMean: 0, armAfter: 0 });
  * ph.scan(new Float64Array([0, 0, 1, 1, 1, 1])); // 5 (the sum passes 3 at the fourth 1)
  */
 export class PageHinkley implements ChangeTest {
   static readonly kind = "leeway.change.page-hinkley";
-  static readonly version = 1;
+  static readonly version = 2;
   readonly name = NAME;
   readonly #threshold: number; // λ
-  readonly #delta: number; // δ
+  readonly #tolerance: number; // δ
   readonly #direction: ChangeSides;
   readonly #lambdaUp: number; // λ for a watched upper side, +∞ otherwise
   readonly #lambdaDown: number;
-  readonly #forgetting: number; // α
+  readonly #meanForgetting: number; // α
   readonly #knownMean: number | null; // μ₀
-  readonly #minSamples: number;
+  readonly #armAfter: number;
   readonly #warningFraction: number;
   readonly #nonFinite: NonFinitePolicy;
   #weight = 0; // Wₜ, the effective number of samples in the running mean
@@ -102,14 +102,14 @@ export class PageHinkley implements ChangeTest {
 
   constructor(options: PageHinkleyOptions) {
     const o = optionsObject<PageHinkleyOptions>(NAME, options, KNOWN);
-    this.#threshold = positiveNumber(NAME, "threshold", o.threshold);
-    this.#delta = o.delta === undefined ? 0 : nonNegativeNumber(NAME, "delta", o.delta);
+    this.#threshold = positiveNumber(NAME, "alarmLevel", o.alarmLevel);
+    this.#tolerance = o.tolerance === undefined ? 0 : nonNegativeNumber(NAME, "tolerance", o.tolerance);
     this.#direction = sidesOption(NAME, o.direction, "up");
     this.#lambdaUp = this.#direction === "down" ? Infinity : this.#threshold;
     this.#lambdaDown = this.#direction === "up" ? Infinity : this.#threshold;
-    this.#forgetting = o.forgetting === undefined ? 1 : numberInRange(NAME, "forgetting", o.forgetting, { min: 0, max: 1, minExclusive: true });
-    this.#knownMean = o.mean === undefined ? null : finiteNumber(NAME, "mean", o.mean);
-    this.#minSamples = o.minSamples === undefined ? 30 : nonNegativeInteger(NAME, "minSamples", o.minSamples);
+    this.#meanForgetting = o.meanForgetting === undefined ? 1 : numberInRange(NAME, "meanForgetting", o.meanForgetting, { min: 0, max: 1, minExclusive: true });
+    this.#knownMean = o.knownMean === undefined ? null : finiteNumber(NAME, "knownMean", o.knownMean);
+    this.#armAfter = o.armAfter === undefined ? 30 : nonNegativeInteger(NAME, "armAfter", o.armAfter);
     this.#warningFraction = warningFractionOption(NAME, o.warningFraction);
     this.#nonFinite = nonFiniteOption(NAME, o.nonFinite);
   }
@@ -147,15 +147,15 @@ export class PageHinkley implements ChangeTest {
       return this.#reading(i);
     }
     this.#count += 1;
-    const w = this.#forgetting * this.#weight + 1;
+    const w = this.#meanForgetting * this.#weight + 1;
     const r = 1 / w;
     this.#weight = w;
     const runMean = this.#runningMean + (x - this.#runningMean) * r;
     this.#runningMean = runMean;
     const d = x - (this.#knownMean === null ? runMean : this.#knownMean);
-    const upRaw = this.#upper + (d - this.#delta);
+    const upRaw = this.#upper + (d - this.#tolerance);
     const up = (upRaw + Math.abs(upRaw)) * 0.5; // max(0, ·) without a branch
-    const loRaw = this.#lower + (-d - this.#delta);
+    const loRaw = this.#lower + (-d - this.#tolerance);
     const lo = (loRaw + Math.abs(loRaw)) * 0.5; // max(0, ·) without a branch
     if (up === 0) this.#upperZero = i;
     if (lo === 0) this.#lowerZero = i;
@@ -168,11 +168,11 @@ export class PageHinkley implements ChangeTest {
     let j = scanStart(NAME, xs, from);
     const n = xs.length;
     const state = (this.#loop ??= new Float64Array(LOOP.size));
-    state[LOOP.alpha] = this.#forgetting;
-    state[LOOP.delta] = this.#delta;
+    state[LOOP.alpha] = this.#meanForgetting;
+    state[LOOP.delta] = this.#tolerance;
     state[LOOP.lamUp] = this.#lambdaUp;
     state[LOOP.lamDown] = this.#lambdaDown;
-    state[LOOP.minSamples] = this.#minSamples;
+    state[LOOP.armAfter] = this.#armAfter;
     state[LOOP.known] = this.#knownMean === null ? 0 : 1;
     state[LOOP.mu0] = this.#knownMean ?? 0;
     state[LOOP.refuse] = this.#nonFinite === "refuse" ? 1 : 0;
@@ -208,12 +208,12 @@ export class PageHinkley implements ChangeTest {
 
   snapshot(): Snapshot<PageHinkleyState> {
     return envelope(PageHinkley.kind, PageHinkley.version, {
-      threshold: this.#threshold,
-      delta: this.#delta,
+      alarmLevel: this.#threshold,
+      tolerance: this.#tolerance,
       direction: this.#direction,
-      forgetting: this.#forgetting,
+      meanForgetting: this.#meanForgetting,
       knownMean: this.#knownMean,
-      minSamples: this.#minSamples,
+      armAfter: this.#armAfter,
       warningFraction: this.#warningFraction,
       nonFinite: this.#nonFinite,
       weight: this.#weight,
@@ -230,12 +230,12 @@ export class PageHinkley implements ChangeTest {
   /** Rebuilds a PageHinkley from {@link PageHinkley.snapshot}; it continues exactly where the original was. */
   static restore(snapshot: unknown): PageHinkley {
     const r = openSnapshot(snapshot, PageHinkley.kind, PageHinkley.version);
-    const threshold = r.number("threshold");
-    const delta = r.number("delta");
+    const alarmLevel = r.number("alarmLevel");
+    const tolerance = r.number("tolerance");
     const direction = r.oneOf("direction", ["up", "down", "both"] as const);
-    const forgetting = r.number("forgetting");
+    const meanForgetting = r.number("meanForgetting");
     const knownMean = r.numberOrNull("knownMean");
-    const minSamples = r.integer("minSamples", 0, 2 ** 31 - 1);
+    const armAfter = r.integer("armAfter", 0, 2 ** 31 - 1);
     const warningFraction = r.number("warningFraction");
     const nonFinite = r.oneOf("nonFinite", ["refuse", "skip"] as const);
     const count = r.integer("count", 0, Number.MAX_SAFE_INTEGER);
@@ -250,8 +250,8 @@ export class PageHinkley implements ChangeTest {
     if ((count === 0) !== (weight === 0)) r.fail("weight", "must be 0 exactly when no sample was taken");
     const test = buildFromSnapshot(PageHinkley.kind, () =>
       new PageHinkley(definedOnly<PageHinkleyOptions>({
-        threshold, delta, direction, forgetting, minSamples, warningFraction, nonFinite,
-        mean: knownMean ?? undefined,
+        alarmLevel, tolerance, direction, meanForgetting, armAfter, warningFraction, nonFinite,
+        knownMean: knownMean ?? undefined,
       })),
     );
     test.#weight = weight;
@@ -269,7 +269,7 @@ export class PageHinkley implements ChangeTest {
     const up = this.#direction !== "down" ? this.#upper : 0;
     const lo = this.#direction !== "up" ? this.#lower : 0;
     const statistic = up >= lo ? up : lo;
-    const armed = this.#count >= this.#minSamples;
+    const armed = this.#count >= this.#armAfter;
     const change = armed && (this.#upper > this.#lambdaUp || this.#lower > this.#lambdaDown);
     const status = change ? "change" : statistic > this.#warningFraction * this.#threshold ? "warning" : "stable";
     if (!(statistic > 0)) return { index: i, status, statistic, threshold: this.#threshold, skipped: this.#skipped };
@@ -281,7 +281,7 @@ export class PageHinkley implements ChangeTest {
 
 /** Slots of the state array that {@link pageHinkleyLoop} reads and writes. */
 const LOOP = {
-  alpha: 0, delta: 1, lamUp: 2, lamDown: 3, minSamples: 4, known: 5, mu0: 6, refuse: 7,
+  alpha: 0, delta: 1, lamUp: 2, lamDown: 3, armAfter: 4, known: 5, mu0: 6, refuse: 7,
   w: 8, runMean: 9, up: 10, lo: 11, uz: 12, lz: 13, idx: 14, skipped: 15, j: 16, size: 17,
 } as const;
 
@@ -299,7 +299,7 @@ function pageHinkleyLoop(xs: Float64Array, from: number, s: Float64Array, upSums
   const delta = s[LOOP.delta] as number;
   const lamUp = s[LOOP.lamUp] as number;
   const lamDown = s[LOOP.lamDown] as number;
-  const minSamples = s[LOOP.minSamples] as number;
+  const armAfter = s[LOOP.armAfter] as number;
   const known = s[LOOP.known] === 1;
   const mu0 = s[LOOP.mu0] as number;
   const refuse = s[LOOP.refuse] === 1;
@@ -334,7 +334,7 @@ function pageHinkleyLoop(xs: Float64Array, from: number, s: Float64Array, upSums
       lo = (loRaw + Math.abs(loRaw)) * 0.5; // max(0, ·) without a branch
       upSums[j - blockStart] = up;
       lowSums[j - blockStart] = lo;
-      if ((up > lamUp || lo > lamDown) && countBefore + j + 1 >= minSamples) {
+      if ((up > lamUp || lo > lamDown) && countBefore + j + 1 >= armAfter) {
         found = j;
         j++;
         break;

@@ -3,7 +3,7 @@ import type { ChangeTest } from "./change-test.js";
 import { Adwin } from "./adwin.js";
 import { Cusum } from "./cusum.js";
 import { EwmaChart } from "./ewma-chart.js";
-import { KsWindow } from "./ks-window.js";
+import { SlidingKsTest } from "./sliding-ks-test.js";
 import { PageHinkley } from "./page-hinkley.js";
 
 /**
@@ -23,9 +23,9 @@ export function restoreChangeTest(snapshot: unknown): ChangeTest {
       return EwmaChart.restore(snapshot);
     case Adwin.kind:
       return Adwin.restore(snapshot);
-    case KsWindow.kind:
-      return KsWindow.restore(snapshot);
+    case SlidingKsTest.kind:
+      return SlidingKsTest.restore(snapshot);
     default:
-      throw new SnapshotError("a change test", "kind", `must be one of ${[Cusum.kind, PageHinkley.kind, EwmaChart.kind, Adwin.kind, KsWindow.kind].join(", ")}, got ${JSON.stringify(kind) ?? "undefined"}`);
+      throw new SnapshotError("a change test", "kind", `must be one of ${[Cusum.kind, PageHinkley.kind, EwmaChart.kind, Adwin.kind, SlidingKsTest.kind].join(", ")}, got ${JSON.stringify(kind) ?? "undefined"}`);
   }
 }

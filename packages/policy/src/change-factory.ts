@@ -10,7 +10,7 @@ export const CHANGE_REFERENCE_VALUE = 0.5;
  */
 export function makeChangeTest(choice: ChangeTestChoice, threshold: number): ChangeTest {
   if (choice === "page-hinkley") {
-    return new PageHinkley({ threshold, delta: CHANGE_REFERENCE_VALUE, mean: 0, direction: "both", minSamples: 0 });
+    return new PageHinkley({ alarmLevel: threshold, tolerance: CHANGE_REFERENCE_VALUE, knownMean: 0, direction: "both", armAfter: 0 });
   }
   return new Cusum({ k: CHANGE_REFERENCE_VALUE, h: threshold, mean: 0, sigma: 1, direction: "both" });
 }

@@ -1,4 +1,4 @@
-import { Adwin, calibrateThreshold, Cusum, EwmaChart, KsWindow, PageHinkley, type ChangeTest } from "@leeway/change";
+import { Adwin, calibrateThreshold, Cusum, EwmaChart, SlidingKsTest, PageHinkley, type ChangeTest } from "@leeway/change";
 import { Moments } from "@leeway/stats";
 import { numberFlag, stringFlag, type CommandSpec, type ParsedArguments } from "../args.js";
 import { InputError, UsageError } from "../exit-codes.js";
@@ -43,7 +43,7 @@ function testFactory(test: TestName, mean: number, sigma: number, parsed: Parsed
     case "cusum":
       return { make: (h) => new Cusum({ k, h, mean, sigma, direction }), describe: `CUSUM, k = ${k} σ, ${sides}; threshold h in σ`, bracket: { initial: 4 } };
     case "page-hinkley":
-      return { make: (threshold) => new PageHinkley({ threshold, delta: k * sigma, mean, direction, minSamples: 0 }), describe: `Page-Hinkley, δ = ${formatNumber(k * sigma)} (${k} σ), ${sides}; threshold λ in score units`, bracket: { initial: 10 * sigma } };
+      return { make: (threshold) => new PageHinkley({ alarmLevel: threshold, tolerance: k * sigma, knownMean: mean, direction, armAfter: 0 }), describe: `Page-Hinkley, δ = ${formatNumber(k * sigma)} (${k} σ), ${sides}; threshold λ in score units`, bracket: { initial: 10 * sigma } };
     case "ewma": {
       const lambda = numberFlag(parsed, "lambda") ?? 0.2;
       return { make: (L) => new EwmaChart({ lambda, L, mean, sigma, direction }), describe: `EWMA chart, λ = ${lambda}, ${sides}; threshold L in σ of the EWMA statistic`, bracket: { initial: 3 } };
@@ -52,7 +52,7 @@ function testFactory(test: TestName, mean: number, sigma: number, parsed: Parsed
       return { make: (threshold) => new Adwin({ threshold }), describe: "ADWIN, δ = 0.002, variance bound; threshold = scale of ε_cut", bracket: { initial: 1 } };
     case "ks": {
       const window = numberFlag(parsed, "window") ?? 100;
-      return { make: (threshold) => new KsWindow({ window, threshold }), describe: `windowed Kolmogorov-Smirnov, window ${window}, reference the first ${window} samples; threshold = critical D`, bracket: { lower: 1 / window, upper: 1 } };
+      return { make: (threshold) => new SlidingKsTest({ recentSize: window, criticalD: threshold }), describe: `windowed Kolmogorov-Smirnov, window ${window}, reference the first ${window} samples; threshold = critical D`, bracket: { lower: 1 / window, upper: 1 } };
     }
   }
 }

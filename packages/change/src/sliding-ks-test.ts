@@ -18,18 +18,18 @@ import type { ChangeDirection, ChangeReading, ChangeTest } from "./change-test.j
 import { scanStart, warningFractionOption } from "./options.js";
 import { buildFromSnapshot, definedOnly } from "./restore-support.js";
 
-/** Options of {@link KsWindow}. */
-export interface KsWindowOptions {
+/** Options of {@link SlidingKsTest}. */
+export interface SlidingKsTestOptions {
   /** Samples w in the sliding recent window (default 100, at least 8). */
-  window?: number;
+  recentSize?: number;
   /** A fixed reference sample; when absent, the first `referenceSize` samples of the stream form it. */
-  reference?: ArrayLike<number>;
-  /** Size of the reference taken from the stream (default: `window`). */
+  referenceSample?: ArrayLike<number>;
+  /** Size of the reference taken from the stream (default: `recentSize`). */
   referenceSize?: number;
-  /** Alarm when the asymptotic p-value is below α (default 0.001). */
-  alpha?: number;
-  /** Alarm when D passes this critical value instead (> 0; D never exceeds 1); overrides `alpha` (use it to calibrate). */
-  threshold?: number;
+  /** Alarm when the asymptotic p-value is below this significance level α (default 0.001). */
+  significance?: number;
+  /** Alarm when D passes this critical value instead (> 0; D never exceeds 1); overrides `significance` (use it to calibrate). */
+  criticalD?: number;
   /** Test every this many samples once both windows are full (default 1). */
   checkPeriod?: number;
   /** `"warning"` once D passes this fraction of the critical value (default 0.5). */
@@ -38,18 +38,18 @@ export interface KsWindowOptions {
   nonFinite?: NonFinitePolicy;
 }
 
-/** The reading of a {@link KsWindow}: a {@link ChangeReading} (statistic D) with the p-value of the latest test. */
-export interface KsWindowReading extends ChangeReading {
+/** The reading of a {@link SlidingKsTest}: a {@link ChangeReading} (statistic D) with the p-value of the latest test. */
+export interface SlidingKsReading extends ChangeReading {
   /** Asymptotic two-sided p-value Q_KS(√(nw/(n + w))·D), 1 before the first test. */
   pValue: number;
 }
 
-/** Plain state of a {@link KsWindow} snapshot. */
-export interface KsWindowState {
-  window: number;
+/** Plain state of a {@link SlidingKsTest} snapshot. */
+export interface SlidingKsTestState {
+  recentSize: number;
   referenceSize: number;
-  alpha: number;
-  threshold: number;
+  significance: number;
+  criticalD: number;
   checkPeriod: number;
   warningFraction: number;
   nonFinite: NonFinitePolicy;
@@ -62,8 +62,8 @@ export interface KsWindowState {
   skipped: number;
 }
 
-const NAME = "KsWindow";
-const KNOWN = ["window", "reference", "referenceSize", "alpha", "threshold", "checkPeriod", "warningFraction", "nonFinite"] as const;
+const NAME = "SlidingKsTest";
+const KNOWN = ["recentSize", "referenceSample", "referenceSize", "significance", "criticalD", "checkPeriod", "warningFraction", "nonFinite"] as const;
 
 /**
  * A windowed two-sample Kolmogorov-Smirnov test: a reference sample (given, or the first
@@ -77,11 +77,11 @@ const KNOWN = ["window", "reference", "referenceSize", "alpha", "threshold", "ch
  * The direction is `"up"` when the recent sample is stochastically larger. The test keeps alarming while
  * D stays above D_α; `restart()` empties the recent window and keeps the reference.
  * @example
- * const ks = new KsWindow({ reference: [0, 1, 2, 3, 4, 5, 6, 7], window: 8, alpha: 0.01 });
+ * const ks = new SlidingKsTest({ referenceSample: [0, 1, 2, 3, 4, 5, 6, 7], recentSize: 8, significance: 0.01 });
  * ks.scan(new Float64Array([10, 11, 12, 13, 14, 15, 16, 17])); // 7 (D = 1 once the window is full)
  */
-export class KsWindow implements ChangeTest {
-  static readonly kind = "leeway.change.ks-window";
+export class SlidingKsTest implements ChangeTest {
+  static readonly kind = "leeway.change.sliding-ks-test";
   static readonly version = 1;
   readonly name = NAME;
   readonly #w: number;
@@ -103,21 +103,21 @@ export class KsWindow implements ChangeTest {
   #count = 0;
   #skipped = 0;
 
-  constructor(options: KsWindowOptions = {}) {
-    const o = optionsObject<KsWindowOptions>(NAME, options, KNOWN);
-    this.#w = o.window === undefined ? 100 : integerInRange(NAME, "window", o.window, 8, 2 ** 20);
+  constructor(options: SlidingKsTestOptions = {}) {
+    const o = optionsObject<SlidingKsTestOptions>(NAME, options, KNOWN);
+    this.#w = o.recentSize === undefined ? 100 : integerInRange(NAME, "recentSize", o.recentSize, 8, 2 ** 20);
     let reference: Float64Array | null = null;
-    if (o.reference !== undefined) {
-      if (o.referenceSize !== undefined) throw new OptionError(NAME, "referenceSize", o.referenceSize, "absent when reference is given");
-      reference = finiteArray(NAME, "reference", o.reference, { atLeast: 8, atMost: 2 ** 22 });
+    if (o.referenceSample !== undefined) {
+      if (o.referenceSize !== undefined) throw new OptionError(NAME, "referenceSize", o.referenceSize, "absent when referenceSample is given");
+      reference = finiteArray(NAME, "referenceSample", o.referenceSample, { atLeast: 8, atMost: 2 ** 22 });
       this.#referenceSize = reference.length;
     } else {
       this.#referenceSize = o.referenceSize === undefined ? this.#w : integerInRange(NAME, "referenceSize", o.referenceSize, 8, 2 ** 22);
     }
-    this.#alpha = o.alpha === undefined ? 0.001 : numberInRange(NAME, "alpha", o.alpha, { min: 0, max: 1, minExclusive: true, maxExclusive: true });
+    this.#alpha = o.significance === undefined ? 0.001 : numberInRange(NAME, "significance", o.significance, { min: 0, max: 1, minExclusive: true, maxExclusive: true });
     const n = this.#referenceSize;
     const scale = Math.sqrt((n * this.#w) / (n + this.#w));
-    this.#critical = o.threshold === undefined ? kolmogorovQuantile(this.#alpha) / scale : positiveNumber(NAME, "threshold", o.threshold);
+    this.#critical = o.criticalD === undefined ? kolmogorovQuantile(this.#alpha) / scale : positiveNumber(NAME, "criticalD", o.criticalD);
     this.#checkPeriod = o.checkPeriod === undefined ? 1 : positiveInteger(NAME, "checkPeriod", o.checkPeriod, 2 ** 20);
     this.#warningFraction = warningFractionOption(NAME, o.warningFraction);
     this.#nonFinite = nonFiniteOption(NAME, o.nonFinite);
@@ -152,7 +152,7 @@ export class KsWindow implements ChangeTest {
     return this.#skipped;
   }
 
-  observe(x: number): KsWindowReading {
+  observe(x: number): SlidingKsReading {
     const i = this.#count + this.#skipped;
     if (!(x - x === 0)) {
       if (this.#nonFinite === "refuse") throw new NonFiniteError(NAME, "x", x);
@@ -164,7 +164,7 @@ export class KsWindow implements ChangeTest {
     const n = this.#referenceSize;
     const status = d > this.#critical ? "change" : d > this.#warningFraction * this.#critical ? "warning" : "stable";
     const pValue = d > 0 ? kolmogorovSurvival(Math.sqrt((n * this.#w) / (n + this.#w)) * d) : 1;
-    const reading: KsWindowReading = { index: i, status, statistic: d, threshold: this.#critical, skipped: this.#skipped, pValue };
+    const reading: SlidingKsReading = { index: i, status, statistic: d, threshold: this.#critical, skipped: this.#skipped, pValue };
     if (d > 0) {
       reading.direction = this.#direction;
       reading.onset = i - this.#recentCount + 1;
@@ -195,14 +195,14 @@ export class KsWindow implements ChangeTest {
     this.#sinceCheck = 0;
   }
 
-  snapshot(): Snapshot<KsWindowState> {
+  snapshot(): Snapshot<SlidingKsTestState> {
     const recent: number[] = [];
     for (let k = 0; k < this.#recentCount; k++) recent.push(this.#ring[(this.#ringStart + k) % this.#w] as number);
-    return envelope(KsWindow.kind, KsWindow.version, {
-      window: this.#w,
+    return envelope(SlidingKsTest.kind, SlidingKsTest.version, {
+      recentSize: this.#w,
       referenceSize: this.#referenceSize,
-      alpha: this.#alpha,
-      threshold: this.#critical,
+      significance: this.#alpha,
+      criticalD: this.#critical,
       checkPeriod: this.#checkPeriod,
       warningFraction: this.#warningFraction,
       nonFinite: this.#nonFinite,
@@ -216,20 +216,20 @@ export class KsWindow implements ChangeTest {
     });
   }
 
-  /** Rebuilds a KsWindow from {@link KsWindow.snapshot}; it continues exactly where the original was. */
-  static restore(snapshot: unknown): KsWindow {
-    const r = openSnapshot(snapshot, KsWindow.kind, KsWindow.version);
-    const window = r.integer("window", 8, 2 ** 20);
+  /** Rebuilds a SlidingKsTest from {@link SlidingKsTest.snapshot}; it continues exactly where the original was. */
+  static restore(snapshot: unknown): SlidingKsTest {
+    const r = openSnapshot(snapshot, SlidingKsTest.kind, SlidingKsTest.version);
+    const recentSize = r.integer("recentSize", 8, 2 ** 20);
     const referenceSize = r.integer("referenceSize", 8, 2 ** 22);
-    const alpha = r.number("alpha");
-    const threshold = r.number("threshold");
+    const significance = r.number("significance");
+    const criticalD = r.number("criticalD");
     const checkPeriod = r.integer("checkPeriod", 1, 2 ** 20);
     const warningFraction = r.number("warningFraction");
     const nonFinite = r.oneOf("nonFinite", ["refuse", "skip"] as const);
     const count = r.integer("count", 0, Number.MAX_SAFE_INTEGER);
     const skipped = r.integer("skipped", 0, Number.MAX_SAFE_INTEGER);
     const reference = r.numbers("reference", { max: referenceSize });
-    const recent = r.numbers("recent", { max: window });
+    const recent = r.numbers("recent", { max: recentSize });
     const statistic = r.numberIn("statistic", 0, 1);
     const direction = r.oneOf("direction", ["up", "down"] as const);
     const sinceCheck = r.integer("sinceCheck", 0, checkPeriod - 1);
@@ -238,8 +238,8 @@ export class KsWindow implements ChangeTest {
     for (let k = 1; k < reference.length && reference.length === referenceSize; k++) {
       if ((reference[k] as number) < (reference[k - 1] as number)) r.fail("reference", "must be sorted once complete");
     }
-    const test = buildFromSnapshot(KsWindow.kind, () =>
-      new KsWindow(definedOnly<KsWindowOptions>({ window, referenceSize, alpha, threshold, checkPeriod, warningFraction, nonFinite })),
+    const test = buildFromSnapshot(SlidingKsTest.kind, () =>
+      new SlidingKsTest(definedOnly<SlidingKsTestOptions>({ recentSize, referenceSize, significance, criticalD, checkPeriod, warningFraction, nonFinite })),
     );
     test.#reference.set(reference);
     test.#referenceCount = reference.length;
