@@ -112,4 +112,29 @@ describe("readSamples: malformed input names line, column and what was expected"
     expect(await inputError("a,b\n1,2\n", { columns: ["c"] })).toContain('the column "c" named in the config is not among the columns (a, b)');
     expect(await inputError("a,b\n1,2\n", { mode: "scores" })).toContain("scores mode needs one column");
   });
+  it("reference columns without a score column are refused (a reference read as the live score would decide on the wrong model)", async () => {
+    const message = await inputError("time,ref_commissioning\n0,0.1\n");
+    expect(message).toContain("columns named ref… hold reference scores, but no column holds the live score; the columns are time, ref_commissioning");
+    expect(message).toContain('Name the live score\'s column "score" or "live"');
+    // Chosen explicitly, a reference column may be read as the score.
+    expect((await read("ref_a\n0.1\n", { columns: ["ref_a"], mode: "scores" })).layout.liveColumn).toBe("ref_a");
+  });
+});
+
+describe("readSamples: wide records", () => {
+  it("a CSV header of 10^6 fields and an NDJSON record of 10^6 values are refused by their size, before any per-column work", async () => {
+    const wide = Array.from({ length: 1_000_000 }, (_, i) => `b${i}`).join(",");
+    expect(await inputError(`${wide}\n`)).toBe("in:1:1: the header has 1000000 fields; at most 65536 columns are read");
+    const vector = `{"x":[${new Array(1_000_000).fill("0.5").join(",")}]}\n`;
+    expect(await inputError(vector)).toBe("in:1:1: the record has 1000000 values (keys and array elements); at most 65536 columns are read");
+  });
+  it("a record of 60 000 features reads every column in header order (lookups by name are linear in the columns)", async () => {
+    const names = Array.from({ length: 60_000 }, (_, i) => `b${i}`);
+    const { layout, rows } = await read(`t,${names.join(",")}\n7,${names.map((_, i) => i % 97).join(",")}\n`);
+    expect(layout.featureColumns.length).toBe(60_000);
+    expect(layout.featureColumns[59_999]).toBe("b59999");
+    expect((rows[0] as SampleRow).values[59_999]).toBe(59_999 % 97);
+    const nd = await read(`{"t":1,"x":[${names.map((_, i) => i % 89).join(",")}]}\n`);
+    expect((nd.rows[0] as SampleRow).values[59_998]).toBe(59_998 % 89);
+  });
 });

@@ -41,6 +41,8 @@ export interface SampleRow {
   mode: string | null;
   /** Scores mode: [live, ...references]; features mode: the feature vector. */
   values: Float64Array;
+  /** The record as read (for placing an error at a value's column). */
+  text: string;
 }
 
 /** A batch of rows with the layout they follow. */
@@ -48,7 +50,19 @@ export interface SampleBatch {
   layout: StreamLayout;
   rows: SampleRow[];
   bytesRead: number;
+  /**
+   * The place of value `j` of a row, for an error about it: `name:line:column: field k ("score") = "NaN"`
+   * (CSV) or `name:line:column: "x[3]" = null` (NDJSON).
+   */
+  place(row: SampleRow, j: number): string;
 }
+
+/**
+ * Most columns a record may have (a CSV header's fields, or an NDJSON record's
+ * keys and array elements together). Checked before any per-column work, so a
+ * huge header is refused at once.
+ */
+export const MAX_COLUMNS = 65_536;
 
 /** Options of {@link readSamples}. */
 export interface ReadSamplesOptions {
@@ -94,11 +108,11 @@ export async function* readSamples(lines: AsyncIterable<LineBatch>, options: Rea
         rows.push(parser.parse(text, line));
       } catch (error) {
         // The records before a malformed one are good: hand them over, then stop.
-        if (rows.length > 0) yield { layout: parser.layout, rows, bytesRead: batch.bytesRead };
+        if (rows.length > 0) yield { layout: parser.layout, rows, bytesRead: batch.bytesRead, place: parser.place };
         throw error;
       }
     }
-    if (parser !== null && rows.length > 0) yield { layout: parser.layout, rows, bytesRead: batch.bytesRead };
+    if (parser !== null && rows.length > 0) yield { layout: parser.layout, rows, bytesRead: batch.bytesRead, place: parser.place };
   }
   if (header === null) throw new InputError(`${name}: the input is empty; expected a CSV header row or NDJSON records`);
   if (parser === null) throw new InputError(`${name}: the input has a header (line ${header.line}) but no records`);
@@ -108,6 +122,7 @@ function readHeader(text: string, line: number, name: string): { names: string[]
   const lead = text.trimStart()[0];
   if (lead === "{" || lead === "[") return { names: [], line, format: "ndjson", headerless: true };
   const fields = splitCsvLine(text, name, line);
+  if (fields.length > MAX_COLUMNS) throw recordError(name, line, 1, `the header has ${fields.length} fields; at most ${MAX_COLUMNS} columns are read`);
   const headerless = fields.every((f) => !Number.isNaN(parseNumberCell(f)) || isNaNWord(f));
   if (headerless) return { names: fields.map((_, i) => `column${i + 1}`), line, format: "csv", headerless };
   const names = fields.map((f) => f.trim());
@@ -123,9 +138,10 @@ function readHeader(text: string, line: number, name: string): { names: string[]
 interface RowParser {
   layout: StreamLayout;
   parse(text: string, line: number): SampleRow;
+  place(row: SampleRow, j: number): string;
 }
 
-/** Chooses the layout from the column names and the first record's values. */
+/** Chooses the layout from the column names and the first record's values (linear in the number of columns). */
 function chooseLayout(
   format: "csv" | "ndjson",
   names: readonly string[],
@@ -134,33 +150,42 @@ function chooseLayout(
   headerless: boolean,
 ): StreamLayout {
   const where = options.name;
+  const all = new Set(names);
+  const listed = (): string => (names.length <= 12 ? names.join(", ") : `${names.slice(0, 10).join(", ")}, ... (${names.length} columns)`);
   let timeColumn: string | null = null;
   if (options.timeColumn === undefined) timeColumn = names.find((n) => TIME_NAMES.includes(n.toLowerCase())) ?? null;
   else if (options.timeColumn !== null) {
-    if (!names.includes(options.timeColumn)) throw new InputError(`${where}: the time column ${JSON.stringify(options.timeColumn)} is not among the columns (${names.join(", ")})`);
+    if (!all.has(options.timeColumn)) throw new InputError(`${where}: the time column ${JSON.stringify(options.timeColumn)} is not among the columns (${listed()})`);
     timeColumn = options.timeColumn;
   }
   const modeColumn = options.modeColumn ?? null;
-  if (modeColumn !== null && !names.includes(modeColumn)) throw new InputError(`${where}: the mode column ${JSON.stringify(modeColumn)} is not among the columns (${names.join(", ")})`);
+  if (modeColumn !== null && !all.has(modeColumn)) throw new InputError(`${where}: the mode column ${JSON.stringify(modeColumn)} is not among the columns (${listed()})`);
   const rest = names.filter((n) => n !== timeColumn && n !== modeColumn);
+  const restSet = new Set(rest);
   if (options.columns !== undefined) {
-    for (const c of options.columns) if (!rest.includes(c)) throw new InputError(`${where}: the column ${JSON.stringify(c)} named in the config is not among the columns (${names.join(", ")})`);
+    for (const c of options.columns) if (!restSet.has(c)) throw new InputError(`${where}: the column ${JSON.stringify(c)} named in the config is not among the columns (${listed()})`);
   }
   const mode = options.mode ?? "auto";
   const live = rest.find((n) => n.toLowerCase() === "score" || n.toLowerCase() === "live") ?? null;
   if (mode !== "features" && live !== null && options.columns === undefined) {
     const referenceColumns = rest.filter((n) => n !== live && /^ref/i.test(n));
     for (const c of [live, ...referenceColumns]) if (!isNumeric(c)) throw new InputError(`${where}: the first record's ${JSON.stringify(c)} is not a number; expected numeric scores`);
-    return layout(format, "scores", timeColumn, modeColumn, live, referenceColumns, [], rest.filter((n) => n !== live && !referenceColumns.includes(n)), headerless);
+    const used = new Set([live, ...referenceColumns]);
+    return layout(format, "scores", timeColumn, modeColumn, live, referenceColumns, [], rest.filter((n) => !used.has(n)), headerless);
+  }
+  if (mode === "auto" && options.columns === undefined && rest.some((n) => /^ref/i.test(n))) {
+    // Reference scores without a live score: reading a reference as the live score would decide on the wrong model.
+    throw new InputError(`${where}: columns named ref… hold reference scores, but no column holds the live score; the columns are ${listed()}. Name the live score's column "score" or "live", or choose the columns with input.columns (and input.mode) in the config`);
   }
   const chosen = options.columns ?? rest;
   const numeric = chosen.filter(isNumeric);
-  const ignored = rest.filter((n) => !numeric.includes(n));
+  const numericSet = new Set(numeric);
+  const ignored = rest.filter((n) => !numericSet.has(n));
   if (options.columns !== undefined && numeric.length < chosen.length) {
     const bad = chosen.find((c) => !isNumeric(c)) as string;
     throw new InputError(`${where}: the column ${JSON.stringify(bad)} named in the config is not numeric in the first record`);
   }
-  if (numeric.length === 0) throw new InputError(`${where}: no numeric column found in the first record; expected scores or features`);
+  if (numeric.length === 0) throw new InputError(`${where}: no numeric column found in the first record (columns ${listed()}); expected scores or features`);
   if (mode === "scores" || (mode === "auto" && numeric.length === 1)) {
     if (numeric.length > 1) throw new InputError(`${where}: scores mode needs one column or columns named score/live and ref…; got ${numeric.length} numeric columns (${numeric.slice(0, 5).join(", ")}${numeric.length > 5 ? ", ..." : ""})`);
     return layout(format, "scores", timeColumn, modeColumn, numeric[0] as string, [], [], ignored, headerless);
@@ -198,17 +223,25 @@ function makeParser(
 function csvParser(names: string[], headerless: boolean, firstText: string, firstLine: number, options: ReadSamplesOptions): RowParser {
   const name = options.name;
   const first = splitCsvLine(firstText, name, firstLine);
+  const position = new Map<string, number>();
+  names.forEach((n, i) => position.set(n, i));
+  const indexOf = (column: string): number => position.get(column) ?? -1;
   const isNumeric = (column: string): boolean => {
-    const cell = first[names.indexOf(column)];
+    const cell = first[indexOf(column)];
     return cell !== undefined && (!Number.isNaN(parseNumberCell(cell)) || isNaNWord(cell));
   };
   const chosen = chooseLayout("csv", names, isNumeric, options, headerless);
-  const indices = Int32Array.from(usedColumns(chosen), (c) => names.indexOf(c));
-  const timeIndex = chosen.timeColumn === null ? -1 : names.indexOf(chosen.timeColumn);
-  const modeIndex = chosen.modeColumn === null ? -1 : names.indexOf(chosen.modeColumn);
+  const indices = Int32Array.from(usedColumns(chosen), indexOf);
+  const timeIndex = chosen.timeColumn === null ? -1 : indexOf(chosen.timeColumn);
+  const modeIndex = chosen.modeColumn === null ? -1 : indexOf(chosen.modeColumn);
   const width = names.length;
   return {
     layout: chosen,
+    place(row: SampleRow, j: number): string {
+      const field = indices[j] as number;
+      const cell = splitCsvLine(row.text, name, row.line)[field] ?? "";
+      return `${name}:${row.line}:${csvFieldColumn(row.text, field)}: field ${field + 1} (${JSON.stringify(names[field])}) = ${showCell(cell)}`;
+    },
     parse(text: string, line: number): SampleRow {
       const fields = splitCsvLine(text, name, line);
       if (fields.length !== width) {
@@ -234,7 +267,7 @@ function csvParser(names: string[], headerless: boolean, firstText: string, firs
         mode = (fields[modeIndex] as string).trim();
         if (mode.length === 0) throw recordError(name, line, csvFieldColumn(text, modeIndex), `field ${modeIndex + 1} (${JSON.stringify(names[modeIndex])}): expected the name of an operating mode, got an empty field`);
       }
-      return { line, time, mode, values };
+      return { line, time, mode, values, text };
     },
   };
 }
@@ -256,27 +289,42 @@ function ndjsonParser(firstText: string, firstLine: number, options: ReadSamples
   // Scalar keys are columns; an array of numbers under key k becomes columns k[0], k[1], ...
   const names: string[] = [];
   const vectors = new Map<string, number>();
-  for (const [key, value] of Object.entries(first)) {
+  const entries = Object.entries(first);
+  let width = 0;
+  for (const [, value] of entries) width += Array.isArray(value) ? value.length : 1;
+  if (width > MAX_COLUMNS) throw recordError(name, firstLine, 1, `the record has ${width} values (keys and array elements); at most ${MAX_COLUMNS} columns are read`);
+  // Each column is read as record[key] or record[key][i].
+  const source = new Map<string, { key: string; index: number; column: string }>();
+  for (const [key, value] of entries) {
     if (Array.isArray(value)) {
       vectors.set(key, value.length);
-      for (let i = 0; i < value.length; i++) names.push(`${key}[${i}]`);
-    } else names.push(key);
+      for (let i = 0; i < value.length; i++) {
+        const column = `${key}[${i}]`;
+        names.push(column);
+        source.set(column, { key, index: i, column });
+      }
+    } else {
+      names.push(key);
+      source.set(key, { key, index: -1, column: key });
+    }
   }
   const isNumeric = (column: string): boolean => {
-    const m = /^(.*)\[(\d+)\]$/.exec(column);
-    const v = m !== null && vectors.has(m[1] as string) ? (first[m[1] as string] as unknown[])[Number(m[2])] : first[column];
+    const s = source.get(column);
+    const v = s === undefined ? undefined : s.index < 0 ? first[s.key] : (first[s.key] as unknown[])[s.index];
     return typeof v === "number";
   };
   const chosen = chooseLayout("ndjson", names, isNumeric, options, false);
-  // Each used column is read as record[key] or record[key][i].
-  const reads = usedColumns(chosen).map((column) => {
-    const m = /^(.*)\[(\d+)\]$/.exec(column);
-    return m !== null && vectors.has(m[1] as string) ? { key: m[1] as string, index: Number(m[2]), column } : { key: column, index: -1, column };
-  });
+  const reads = usedColumns(chosen).map((column) => source.get(column) as { key: string; index: number; column: string });
   const timeColumn = chosen.timeColumn;
   const modeColumn = chosen.modeColumn;
   return {
     layout: chosen,
+    place(row: SampleRow, j: number): string {
+      const r = reads[j] as { key: string; index: number; column: string };
+      const record = parseJsonRecord(row.text, name, row.line);
+      const v = r.index < 0 ? record[r.key] : (record[r.key] as unknown[])[r.index];
+      return `${name}:${row.line}:${keyColumn(row.text, r.key)}: "${r.column}" = ${JSON.stringify(v) ?? "no such key"}`;
+    },
     parse(text: string, line: number): SampleRow {
       const record = parseJsonRecord(text, name, line);
       const values = new Float64Array(reads.length);
@@ -306,7 +354,7 @@ function ndjsonParser(firstText: string, firstLine: number, options: ReadSamples
         if ((typeof m !== "string" || m.length === 0) && typeof m !== "number") throw recordError(name, line, keyColumn(text, modeColumn), `"${modeColumn}": expected the name of an operating mode, got ${m === undefined ? "no such key" : JSON.stringify(m)}`);
         mode = String(m);
       }
-      return { line, time, mode, values };
+      return { line, time, mode, values, text };
     },
   };
 }
