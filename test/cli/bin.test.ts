@@ -1,5 +1,7 @@
 import { spawn } from "node:child_process";
-import { existsSync, readFileSync } from "node:fs";
+import { existsSync, mkdtempSync, readFileSync, rmSync } from "node:fs";
+import { tmpdir } from "node:os";
+import { join } from "node:path";
 import { fileURLToPath } from "node:url";
 import { describe, expect, it } from "vitest";
 
@@ -90,11 +92,46 @@ describe("leeway (spawned)", () => {
     // 400 000 rows: kept as line strings and parsed rows they would take about 55 MB of heap,
     // and their decisions (about 200 MB of NDJSON) far more; the engine and buffers need about 15 MB.
     const n = 400_000;
-    const r = await run(["replay", "-"], () => scoreStream(n), ["--max-old-space-size=32"]);
+    const r = await run(["replay", "-", "--log", "full"], () => scoreStream(n), ["--max-old-space-size=32"]);
     expect(r.stderr.slice(0, 3000)).not.toContain("heap out of memory");
     expect(r.code, r.stderr).toBe(0);
     expect(r.stdoutLines).toBe(n);
     expect(r.stderr).toContain(`replay: ${n} decisions written`);
+  });
+
+  it("SIGINT stops a spawned replay at its next batch: exit code 130, and stderr says it was interrupted and where the partial log is", async () => {
+    const dir = mkdtempSync(join(tmpdir(), "leeway-sigint-"));
+    try {
+      const child = spawn(process.execPath, [bin, "replay", "-", "--out", dir], { stdio: ["pipe", "pipe", "pipe"] });
+      let stderr = "";
+      let signalled = false;
+      const rows = [...scoreStream(100_000)];
+      let next = 2001;
+      // More input keeps arriving in small parts, as from a live source, until the replay stops.
+      const feed = setInterval(() => {
+        if (!signalled || next >= rows.length) return;
+        child.stdin.write(rows.slice(next, next + 200).join(""));
+        next += 200;
+      }, 40);
+      child.stdin.on("error", () => undefined);
+      child.stderr.on("data", (chunk: Buffer) => {
+        stderr += chunk.toString("utf8");
+        // The layout line comes with the first batch: the replay is running; then the operator presses Ctrl-C.
+        if (!signalled && stderr.includes("replay: scores mode")) {
+          signalled = true;
+          child.kill("SIGINT");
+        }
+      });
+      child.stdin.write(rows.slice(0, next).join(""));
+      const code = await new Promise<number | string | null>((resolve) => child.on("close", (c, s) => resolve(c ?? s)));
+      clearInterval(feed);
+      expect(code).toBe(130);
+      expect(stderr).toMatch(/leeway: replay interrupted by SIGINT after \d+ decisions \(last good line \d+\); they are in .*decisions\.log\.partial, which is incomplete/);
+      expect(existsSync(join(dir, "decisions.log.partial"))).toBe(true);
+      expect(existsSync(join(dir, "decisions.log"))).toBe(false);
+    } finally {
+      rmSync(dir, { recursive: true, force: true });
+    }
   });
 
   it("a malformed line stops the spawned replay with exit code 3 and the line named, after the good decisions", async () => {
@@ -105,7 +142,7 @@ describe("leeway (spawned)", () => {
         k++;
       }
     }
-    const r = await run(["replay", "-"], broken);
+    const r = await run(["replay", "-", "--log", "full"], broken);
     expect(r.code).toBe(3);
     expect(r.stderr).toContain('stdin:3002:6: field 2 ("ref"): expected a number, got "seven"');
     expect(r.stdoutLines).toBe(3000);

@@ -21,12 +21,12 @@ export class Capture extends Writable {
 }
 
 /** Runs `leeway <argv>` in-process with `stdin` as standard input (text or an iterable of chunks). */
-export async function runCli(argv: string[], options: { stdin?: string | AsyncIterable<Buffer | string> | Iterable<Buffer | string>; cwd?: string; tty?: boolean } = {}): Promise<CliRun> {
+export async function runCli(argv: string[], options: { stdin?: string | AsyncIterable<Buffer | string> | Iterable<Buffer | string>; cwd?: string; tty?: boolean; signal?: AbortSignal } = {}): Promise<CliRun> {
   const stdout = new Capture();
   const stderr = new Capture();
   const source = options.stdin ?? "";
   const stdin = typeof source === "string" ? Readable.from([Buffer.from(source)]) : Readable.from(source);
-  const code = await main(argv, { stdin, stdout, stderr, stderrIsTTY: options.tty ?? false, cwd: options.cwd ?? process.cwd() });
+  const code = await main(argv, { stdin, stdout, stderr, stderrIsTTY: options.tty ?? false, cwd: options.cwd ?? process.cwd(), ...(options.signal === undefined ? {} : { signal: options.signal }) });
   return { code, stdout: stdout.text, stderr: stderr.text };
 }
 

@@ -48,3 +48,17 @@ export class InputError extends CliError {
     super(EXIT_INPUT, message);
   }
 }
+
+/**
+ * A run stopped by a signal (SIGINT, SIGTERM): exit code 128 + the signal's
+ * number, 130 or 143, as shells report it.
+ * @example
+ * new InterruptedError("SIGINT", "replay interrupted").exitCode; // 130
+ */
+export class InterruptedError extends CliError {
+  readonly signal: string;
+  constructor(signal: string, message: string) {
+    super(signal === "SIGTERM" ? 143 : signal === "SIGHUP" ? 129 : 130, message);
+    this.signal = signal;
+  }
+}

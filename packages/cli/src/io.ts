@@ -1,8 +1,8 @@
 import { createReadStream, createWriteStream, type WriteStream } from "node:fs";
-import { mkdir, readFile, rename, rm, stat } from "node:fs/promises";
+import { mkdir, readdir, readFile, rename, rm, stat } from "node:fs/promises";
 import { dirname, resolve } from "node:path";
 import type { Writable } from "node:stream";
-import { InputError } from "./exit-codes.js";
+import { InputError, UsageError } from "./exit-codes.js";
 
 /** The streams and context the command runs with (injected, so tests run it in-process). */
 export interface CliStreams {
@@ -13,6 +13,28 @@ export interface CliStreams {
   stderrIsTTY: boolean;
   /** Directory relative paths are resolved against. */
   cwd: string;
+  /**
+   * Aborted when the process is asked to stop (SIGINT, SIGTERM; the reason is
+   * the signal's name): a long command stops at its next batch, says so and
+   * names what it leaves behind.
+   */
+  signal?: AbortSignal;
+}
+
+/**
+ * Prepares an output folder for a run: files of an earlier run there (any of
+ * `names`, or their `.partial` leftovers) are refused, so that a new run
+ * never sits beside an old run's complete-looking files, unless `force`, in
+ * which case they are removed before the run starts.
+ */
+export async function prepareOutputFolder(dir: string, names: readonly string[], force: boolean, flagHint: string): Promise<void> {
+  await mkdir(dir, { recursive: true }).catch((e: NodeJS.ErrnoException) => {
+    throw new InputError(`${dir}: cannot create the output folder (${e.code ?? e.message})`);
+  });
+  const present = (await readdir(dir)).filter((f) => names.some((n) => f === n || f === `${n}.partial`)).sort();
+  if (present.length === 0) return;
+  if (!force) throw new UsageError(`${dir} already holds the output of an earlier run (${present.join(", ")}); choose another folder, or add ${flagHint} to replace it`);
+  for (const f of present) await rm(resolve(dir, f), { force: true });
 }
 
 /** An input stream opened from a path, or from stdin for "-". */

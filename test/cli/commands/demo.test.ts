@@ -1,9 +1,18 @@
 import { readFileSync } from "node:fs";
 import { join } from "node:path";
 import { describe, expect, it } from "vitest";
-import { parseDecisionLine } from "../../../packages/cli/src/decision-log.js";
+import { createReadStream } from "node:fs";
+import { readDecisionLog, type DecisionLogInfo, type LoggedDecision } from "../../../packages/cli/src/decision-log.js";
+import { readLines } from "../../../packages/cli/src/input/lines.js";
 import { demoEngineOptions, simulatedClock } from "../../../packages/cli/src/commands/demo.js";
 import { runCli, scratchDir } from "../run-cli.js";
+
+async function readLog(path: string): Promise<{ decisions: LoggedDecision[]; info: DecisionLogInfo }> {
+  const info: DecisionLogInfo = { format: null, complete: null };
+  const decisions: LoggedDecision[] = [];
+  for await (const batch of readDecisionLog(readLines(createReadStream(path), { name: path }), path, info)) decisions.push(...batch);
+  return { decisions, info };
+}
 
 describe("leeway demo", () => {
   it("runs the Harbour Lane scenario end to end and writes report, decisions and labels", async () => {
@@ -13,9 +22,9 @@ describe("leeway demo", () => {
     // 168 simulated hours at 6 samples an hour.
     expect(r.stdout).toMatch(/^Harbour Lane PS-2 — 1008 samples in /);
     for (const text of ["standby compressor installed", "outer-race defect", "rag in the impeller", "metrics:", "detected / missed"]) expect(r.stdout).toContain(text);
-    const lines = readFileSync(join(dir, "decisions.ndjson"), "utf8").trimEnd().split("\n");
-    expect(lines.length).toBe(1008);
-    expect(lines.map((l, i) => parseDecisionLine(l, "d", i + 1).decision.index)).toEqual(lines.map((_, i) => i));
+    const logged = await readLog(join(dir, "decisions.log"));
+    expect(logged.info).toEqual({ format: "compact", complete: true });
+    expect(logged.decisions.map((d) => d.decision.index)).toEqual(Array.from({ length: 1008 }, (_, i) => i));
     const labels = JSON.parse(readFileSync(join(dir, "labels.json"), "utf8")) as { events: { type: string; start: number }[]; anomaly: number[] };
     expect(labels.events.map((e) => e.type)).toEqual(["environment-shift", "degradation", "fault"]);
     expect(labels.anomaly.length).toBe(1008);
@@ -24,9 +33,9 @@ describe("leeway demo", () => {
     expect(html).toContain('id="plot-events"');
   });
 
-  it("leeway report rebuilds the demo's plots and metrics exactly from decisions.ndjson and labels.json", async () => {
+  it("leeway report rebuilds the demo's plots and metrics exactly from the full log and labels.json, and from the compact log to the log's rounding", async () => {
     const dir = scratchDir("demo-rebuild");
-    expect((await runCli(["demo", "--scale", "6", "--out", dir])).code).toBe(0);
+    expect((await runCli(["demo", "--scale", "6", "--out", dir, "--log", "full"])).code).toBe(0);
     const rebuilt = join(dir, "rebuilt.html");
     const r = await runCli(["report", join(dir, "decisions.ndjson"), "--labels", join(dir, "labels.json"), "--out", rebuilt]);
     expect(r.code, r.stderr).toBe(0);
@@ -35,6 +44,16 @@ describe("leeway demo", () => {
     const b = readFileSync(rebuilt, "utf8");
     expect(section(b, '<section aria-label="plots">', "<h2>Metrics</h2>")).toBe(section(a, '<section aria-label="plots">', "<h2>Metrics</h2>"));
     expect(section(b, "<h2>Metrics</h2>", "</main>")).toBe(section(a, "<h2>Metrics</h2>", "</main>"));
+    // The compact log of the same run gives the same decisions, and the metrics computed from them.
+    const compactDir = scratchDir("demo-rebuild-compact");
+    expect((await runCli(["demo", "--scale", "6", "--out", compactDir])).code).toBe(0);
+    const c = await runCli(["report", join(compactDir, "decisions.log"), "--labels", join(compactDir, "labels.json"), "--out", join(compactDir, "rebuilt.html")]);
+    expect(c.code, c.stderr).toBe(0);
+    const full = await readLog(join(dir, "decisions.ndjson"));
+    const compact = await readLog(join(compactDir, "decisions.log"));
+    expect(compact.decisions.map((d) => [d.decision.action, d.decision.cause, d.decision.phase])).toEqual(full.decisions.map((d) => [d.decision.action, d.decision.cause, d.decision.phase]));
+    const metrics = (html: string): string => section(html, "<h2>Metrics</h2>", "<h2>Decision changes</h2>");
+    expect(metrics(readFileSync(join(compactDir, "rebuilt.html"), "utf8"))).toBe(metrics(a));
   });
 
   it("the same seed gives the same decisions", async () => {
@@ -42,7 +61,7 @@ describe("leeway demo", () => {
     const b = scratchDir("demo-b");
     await runCli(["demo", "--scale", "3", "--out", a]);
     await runCli(["demo", "--scale", "3", "--out", b]);
-    expect(readFileSync(join(a, "decisions.ndjson"), "utf8")).toBe(readFileSync(join(b, "decisions.ndjson"), "utf8"));
+    expect(readFileSync(join(a, "decisions.log"), "utf8")).toBe(readFileSync(join(b, "decisions.log"), "utf8"));
     expect(readFileSync(join(a, "report.html"), "utf8")).toBe(readFileSync(join(b, "report.html"), "utf8"));
   });
 
@@ -56,7 +75,7 @@ describe("leeway demo", () => {
   it("each speed setting has its own engine, named in every decision", async () => {
     const dir = scratchDir("demo-modes");
     expect((await runCli(["demo", "--scale", "12", "--out", dir])).code).toBe(0);
-    const modes = new Set(readFileSync(join(dir, "decisions.ndjson"), "utf8").trimEnd().split("\n").map((l) => (JSON.parse(l) as { evidence: { mode: string } }).evidence.mode));
+    const modes = new Set((await readLog(join(dir, "decisions.log"))).decisions.map((d) => d.decision.evidence.mode));
     expect([...modes].sort()).toEqual(["high", "low", "mid"]);
   });
 

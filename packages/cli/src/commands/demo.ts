@@ -1,13 +1,13 @@
-import { closeSync, mkdirSync, openSync, renameSync, writeSync } from "node:fs";
+import { closeSync, openSync, renameSync, writeSync } from "node:fs";
 import { resolve } from "node:path";
 import { anomalyMask, replay, type Pipeline } from "@leeway/eval";
 import { DecisionEngine, type Decision, type DecisionEngineOptions } from "@leeway/policy";
 import { reduceBins, SpectrumAnalyzer } from "@leeway/signal";
 import { harbourLane, MachineSimulator, type TruthEvent } from "@leeway/sim";
 import { numberFlag, stringFlag, type CommandSpec, type ParsedArguments } from "../args.js";
-import { decisionLine } from "../decision-log.js";
 import { UsageError } from "../exit-codes.js";
-import { writeWholeFile, type CliStreams } from "../io.js";
+import { prepareOutputFolder, writeWholeFile, type CliStreams } from "../io.js";
+import { logFormat, type LogForm } from "../log/compact-log.js";
 import { ModeRouter } from "../mode-router.js";
 import { ProgressBar } from "../progress.js";
 import { renderReport } from "../report/html.js";
@@ -26,7 +26,8 @@ export const demoSpec: CommandSpec = {
   positionals: [],
   flags: [
     { name: "scale", kind: "number", value: "S", description: "samples per simulated hour, 1 to 3600 (3600 = one frame a second, the real rate)", defaultText: String(DEMO_SCALE) },
-    { name: "out", kind: "string", value: "DIR", description: "where to write report.html, decisions.ndjson and labels.json", defaultText: "leeway-demo" },
+    { name: "out", kind: "string", value: "DIR", description: "where to write report.html, the decision log and labels.json (an earlier demo's files there are replaced)", defaultText: "leeway-demo" },
+    { name: "log", kind: "string", value: "FORM", description: "decision log form: compact (decisions.log) or full (decisions.ndjson, every decision with its whole evidence)", defaultText: "compact", choices: ["compact", "full"] },
     { name: "seed", kind: "string", value: "SEED", description: "seed of the simulator and the engine", defaultText: '"harbour-lane"' },
   ],
   details: [
@@ -91,9 +92,12 @@ export async function runDemo(parsed: ParsedArguments, io: CliStreams): Promise<
   const length = simulator.length;
   io.stderr.write(`demo: Harbour Lane PS-2, ${length} samples (${scale} per simulated hour, 7 days), output in ${outDir}\n`);
 
-  mkdirSync(outDir, { recursive: true });
-  const decisionsPath = resolve(outDir, "decisions.ndjson");
+  await prepareOutputFolder(outDir, ["decisions.log", "decisions.ndjson", "report.html", "labels.json"], true, "");
+  const format = logFormat((stringFlag(parsed, "log") ?? "compact") as LogForm);
+  const decisionsPath = resolve(outDir, format.fileName);
   const fd = openSync(`${decisionsPath}.partial`, "w");
+  const header = format.header();
+  if (header !== null) writeSync(fd, header + "\n");
   const collector = new TimelineCollector();
   const progress = new ProgressBar(io.stderr, io.stderrIsTTY, length, "demo");
   let pending: string[] = [];
@@ -116,7 +120,7 @@ export async function runDemo(parsed: ParsedArguments, io: CliStreams): Promise<
     observe(sample: { x: Float64Array; mode: string }): Decision {
       const d = router.observe(sample.x, sample.mode);
       collector.add(d);
-      pending.push(decisionLine(d, null));
+      pending.push(format.line(d, null));
       if (pending.length >= 512) {
         writeSync(fd, pending.join("\n") + "\n");
         pending = [];
@@ -131,6 +135,8 @@ export async function runDemo(parsed: ParsedArguments, io: CliStreams): Promise<
   const anomaly = anomalyMask(events, length);
   const { metrics } = replay(pipeline, frames, { events, anomaly }, { keepDecisions: false });
   if (pending.length > 0) writeSync(fd, pending.join("\n") + "\n");
+  const end = format.end(length);
+  if (end !== null) writeSync(fd, end + "\n");
   closeSync(fd);
   renameSync(`${decisionsPath}.partial`, decisionsPath);
   progress.done();

@@ -4,11 +4,11 @@ import { Timeline } from "@leeway/eval";
 import type { Decision, DecisionEngine } from "@leeway/policy";
 import { stringFlag, type CommandSpec, type ParsedArguments } from "../args.js";
 import { buildEngine, defaultConfig, parseConfig, type PipelineConfig } from "../config.js";
-import { decisionLine } from "../decision-log.js";
-import { CliError, InputError } from "../exit-codes.js";
-import { openInput, PartialFile, readTextFile, TextSink, writeWholeFile, type CliStreams } from "../io.js";
+import { CliError, InputError, InterruptedError } from "../exit-codes.js";
+import { openInput, PartialFile, prepareOutputFolder, readTextFile, TextSink, writeWholeFile, type CliStreams } from "../io.js";
+import { logFormat, type LogForm } from "../log/compact-log.js";
 import { readLines } from "../input/lines.js";
-import { readSamples, type SampleRow, type StreamLayout } from "../input/samples.js";
+import { readSamples, type SampleBatch, type SampleRow, type StreamLayout } from "../input/samples.js";
 import { ModeRouter } from "../mode-router.js";
 import { ScriptedOperator } from "../operator.js";
 import { ProgressBar } from "../progress.js";
@@ -26,13 +26,15 @@ export const replaySpec: CommandSpec = {
   flags: [
     { name: "config", kind: "string", value: "FILE", description: "pipeline config (JSON): input columns, engine options, report (see docs/cli.md)" },
     { name: "labels", kind: "string", value: "FILE", description: "labelled events (JSON) to measure the decisions against" },
-    { name: "out", kind: "string", value: "DIR", description: "write decisions.ndjson and report.html into DIR instead of decisions to stdout" },
+    { name: "out", kind: "string", value: "DIR", description: "write the decision log and report.html into DIR instead of the decisions to stdout" },
+    { name: "log", kind: "string", value: "FORM", description: "compact: one short row per sample, full decisions where the action, cause or phase changes (decisions.log); full: every decision with its whole evidence as NDJSON (decisions.ndjson)", defaultText: "compact", choices: ["compact", "full"] },
+    { name: "force", kind: "boolean", description: "replace the output of an earlier run in the --out folder" },
   ],
   details: [
     "Columns: a single numeric column, or columns named score (or live) and ref… (at most two references: commissioning, newest), mean score-only mode (your model scores, leeway decides); otherwise every numeric column is a feature and leeway's own autoencoder pool scores them. A column named time, timestamp, datetime, date or t is carried through into the decisions; with input.modeColumn in the config, each value of that column (an operating mode) gets an engine of its own. Blank lines and lines starting with # are skipped.",
-    "The input is streamed in constant memory. A malformed record stops the replay with exit code 3 and a message naming the line, the column and what was expected; decisions written until then are incomplete (with --out they stay in decisions.ndjson.partial and no report is written). With --labels the decisions are also kept compactly (19 bytes each) for the metrics.",
+    "The input is streamed in constant memory. A malformed record stops the replay with exit code 3 and a message naming the file, line, column, field and value; decisions written until then are incomplete (with --out they stay in decisions.log.partial and no report is written). Outputs are written under .partial names and renamed only when the run succeeds; an --out folder that holds an earlier run is refused unless --force. SIGINT or SIGTERM stops the replay at the next batch with exit code 130 or 143, naming the partial file. With --labels the decisions are also kept compactly (19 bytes each) for the metrics.",
   ],
-  examples: ["leeway replay ps2-scores.csv > decisions.ndjson", "leeway replay spectra.ndjson --config pipeline.json --labels events.json --out run/", "cat scores.csv | leeway replay - | head"],
+  examples: ["leeway replay ps2-scores.csv > decisions.log", "leeway replay ps2-scores.csv --log full > decisions.ndjson", "leeway replay spectra.ndjson --config pipeline.json --labels events.json --out run/", "cat scores.csv | leeway replay - | head"],
 };
 
 /** Per sample: one decision from the engine, in the mode the layout says. */
@@ -73,14 +75,25 @@ function describeLayout(l: StreamLayout): string {
   return `features mode: ${l.featureColumns.length} features (${l.featureColumns.slice(0, 3).join(", ")}${l.featureColumns.length > 3 ? ", ..." : ""}); ${time}${ignored}`;
 }
 
+/** Where a refused record's value is, for the message: the first non-finite value, or the live score. */
+function refusedRecord(batch: SampleBatch, row: SampleRow, error: LeewayError): InputError {
+  let j = 0;
+  while (j < row.values.length && Number.isFinite(row.values[j] as number)) j++;
+  const place = batch.place(row, j < row.values.length ? j : 0);
+  const hint = error.code === "E_NON_FINITE" ? ' (engine.nonFinite: "skip" in the config skips such samples and counts them)' : "";
+  return new InputError(`${place}: the engine refused this value: ${error.message} [${error.code}]${hint}`);
+}
+
 /** leeway replay. */
 export async function runReplay(parsed: ParsedArguments, io: CliStreams): Promise<number> {
   const configPath = stringFlag(parsed, "config");
   const config: PipelineConfig = configPath === undefined ? defaultConfig() : parseConfig(await readTextFile(configPath, io), configPath);
   const labels = await labelsFromFlag(parsed, io);
   const outDir = stringFlag(parsed, "out");
+  const format = logFormat((stringFlag(parsed, "log") ?? "compact") as LogForm);
   const input = await openInput(parsed.positionals[0] as string, io);
-  const file = outDir === undefined ? null : await PartialFile.create(resolve(io.cwd, outDir, "decisions.ndjson"));
+  if (outDir !== undefined) await prepareOutputFolder(resolve(io.cwd, outDir), ["decisions.log", "decisions.ndjson", "report.html"], parsed.flags.get("force") === true, "--force");
+  const file = outDir === undefined ? null : await PartialFile.create(resolve(io.cwd, outDir, format.fileName));
   const sink = file === null ? new TextSink(io.stdout) : file.sink;
   const collector = outDir === undefined ? null : new TimelineCollector({ columns: config.report.columns });
   const timeline = labels === null ? null : new Timeline();
@@ -99,6 +112,7 @@ export async function runReplay(parsed: ParsedArguments, io: CliStreams): Promis
       ...(config.input.modeColumn === null ? {} : { modeColumn: config.input.modeColumn }),
     });
     for await (const batch of batches) {
+      if (io.signal?.aborted === true) throw new InterruptedError(String(io.signal.reason), `replay interrupted by ${String(io.signal.reason)}`);
       if (decider === null) {
         layout = batch.layout;
         if (layout.mode === "scores" && layout.referenceColumns.length > 2) {
@@ -106,17 +120,19 @@ export async function runReplay(parsed: ParsedArguments, io: CliStreams): Promis
         }
         io.stderr.write(`replay: ${describeLayout(layout)}\n`);
         decider = makeDecider(config, layout);
+        const header = format.header();
+        if (header !== null) sink.write(header + "\n");
       }
       for (const row of batch.rows) {
-        lastLine = row.line;
         let decision: Decision;
         try {
           decision = decider(row);
         } catch (error) {
-          if (error instanceof LeewayError) throw new InputError(`${input.name}:${row.line}: the engine refused this record: ${error.message} [${error.code}]`);
+          if (error instanceof LeewayError) throw refusedRecord(batch, row, error);
           throw error;
         }
-        const pending = sink.write(decisionLine(decision, row.time) + "\n");
+        lastLine = row.line;
+        const pending = sink.write(format.line(decision, row.time) + "\n");
         if (pending !== undefined) await pending;
         collector?.add(decision, row.time);
         timeline?.record(decision);
@@ -124,22 +140,25 @@ export async function runReplay(parsed: ParsedArguments, io: CliStreams): Promis
       }
       progress.update(batch.bytesRead, samples);
     }
+    const end = format.end(samples);
+    if (end !== null) sink.write(end + "\n");
     await sink.flush();
   } catch (error) {
     progress.done();
     await sink.flush().catch(() => undefined);
-    if (file !== null) {
-      await file.abandon();
-      if (error instanceof CliError) throw new InputError(`${error.message}\nreplay stopped after ${samples} decisions (last good line ${lastLine}); they are in ${file.partialPath}, which is incomplete`);
-    } else if (error instanceof CliError) {
-      throw new InputError(`${error.message}\nreplay stopped after ${samples} decisions (last good line ${lastLine}); the decisions written are incomplete`);
+    const stopped = error instanceof InterruptedError ? error.message : error instanceof CliError ? `${error.message}\nreplay stopped` : null;
+    if (stopped !== null) {
+      const where = file === null ? "the decisions written are incomplete" : `they are in ${file.partialPath}, which is incomplete`;
+      if (file !== null) await file.abandon();
+      const text = `${stopped} after ${samples} decisions (last good line ${lastLine}); ${where}`;
+      throw error instanceof InterruptedError ? new InterruptedError(error.signal, text) : new InputError(text);
     }
+    if (file !== null) await file.abandon();
     throw error;
   }
   progress.done();
   const metrics = timeline !== null && labels !== null ? metricsOf(timeline, labels, stringFlag(parsed, "labels") as string) : null;
   if (file !== null && collector !== null) {
-    await file.commit();
     const drawn = collector.result();
     const reportPath = resolve(io.cwd, outDir as string, "report.html");
     await writeWholeFile(
@@ -154,6 +173,7 @@ export async function runReplay(parsed: ParsedArguments, io: CliStreams): Promis
         version: leewayVersion(),
       }),
     );
+    await file.commit();
     io.stdout.write(`replayed ${samples} samples: ${countsText(drawn)}\n\ndecision changes:\n${timelineText(drawn)}\n`);
     if (metrics !== null) io.stdout.write(`\nmetrics against ${stringFlag(parsed, "labels") as string}:\n${metricsText(metrics)}\n`);
     io.stdout.write(`\nwrote ${file.path}\nwrote ${reportPath}\n`);

@@ -1,8 +1,8 @@
 import { dirname, resolve } from "node:path";
 import { evaluate, Timeline } from "@leeway/eval";
 import { stringFlag, type CommandSpec, type ParsedArguments } from "../args.js";
-import { readDecisionLog } from "../decision-log.js";
-import { InputError } from "../exit-codes.js";
+import { readDecisionLog, type DecisionLogInfo } from "../decision-log.js";
+import { InputError, InterruptedError } from "../exit-codes.js";
 import { openInput, readTextFile, writeWholeFile, type CliStreams } from "../io.js";
 import { readLines } from "../input/lines.js";
 import { parseLabels, type LabelsFile } from "../labels-file.js";
@@ -14,8 +14,8 @@ import { leewayVersion } from "../version.js";
 /** Arguments, flags and help of `leeway report`. */
 export const reportSpec: CommandSpec = {
   name: "report",
-  summary: "Rebuilds the HTML report from a decision log (the NDJSON that replay and demo write).",
-  positionals: [{ name: "decisions.ndjson", description: 'the decision log, or "-" for standard input' }],
+  summary: "Rebuilds the HTML report from a decision log (compact or full, as replay and demo write it).",
+  positionals: [{ name: "decisions", description: 'the decision log (decisions.log or decisions.ndjson), or "-" for standard input' }],
   flags: [
     { name: "labels", kind: "string", value: "FILE", description: "labelled events (JSON) to draw and to measure the decisions against" },
     { name: "out", kind: "string", value: "FILE", description: "where to write the report", defaultText: "report.html beside the decision log" },
@@ -24,7 +24,7 @@ export const reportSpec: CommandSpec = {
   details: [
     "The report is one self-contained HTML file (inline SVG, no script, nothing fetched): scores, change-test statistics, trend evidence, decisions by cause, phases as bands, labelled events and the metrics. With --labels the metrics include detection delays, the confusion of causes and false alarms; the decisions are then also kept in memory, 19 bytes each, for the metrics.",
   ],
-  examples: ["leeway report out/decisions.ndjson --labels out/labels.json", "leeway replay scores.csv | leeway report - --out ps2.html"],
+  examples: ["leeway report out/decisions.log --labels out/labels.json", "leeway replay scores.csv | leeway report - --out ps2.html"],
 };
 
 /** Reads a labels file given by --labels, or null. */
@@ -59,7 +59,12 @@ export async function runReport(parsed: ParsedArguments, io: CliStreams): Promis
       yield batch;
     }
   })();
-  for await (const batch of readDecisionLog(lines, input.name)) {
+  const info: DecisionLogInfo = { format: null, complete: null };
+  for await (const batch of readDecisionLog(lines, input.name, info)) {
+    if (io.signal?.aborted === true) {
+      progress.done();
+      throw new InterruptedError(String(io.signal.reason), `report interrupted by ${String(io.signal.reason)} after ${collector.count} decisions; no report written`);
+    }
     for (const { decision, time } of batch) {
       collector.add(decision, time);
       timeline?.record(decision);
@@ -67,6 +72,8 @@ export async function runReport(parsed: ParsedArguments, io: CliStreams): Promis
     progress.update(bytes, collector.count);
   }
   progress.done();
+  const incomplete = incompleteNote(path, info);
+  if (incomplete !== null) io.stderr.write(`report: ${incomplete}\n`);
   const metrics = timeline !== null && labels !== null ? metricsOf(timeline, labels, stringFlag(parsed, "labels") as string) : undefined;
   const out = resolve(io.cwd, stringFlag(parsed, "out") ?? (path === "-" ? "report.html" : `${dirname(path)}/report.html`));
   const html = renderReport({
@@ -75,11 +82,19 @@ export async function runReport(parsed: ParsedArguments, io: CliStreams): Promis
     timeline: collector.result(),
     ...(labels === null ? {} : { events: labels.events }),
     ...(metrics === undefined ? {} : { metrics: reportMetrics(metrics) }),
+    ...(incomplete === null ? {} : { incomplete }),
     version: leewayVersion(),
   });
   await writeWholeFile(out, html);
   io.stdout.write(`wrote ${out} (${(Buffer.byteLength(html) / 1024).toFixed(0)} KiB, ${collector.count} decisions)\n`);
   return 0;
+}
+
+/** Why a decision log is known to be incomplete (a `.partial` name, a compact log without its closing line), or null. */
+export function incompleteNote(path: string, info: DecisionLogInfo): string | null {
+  if (path.endsWith(".partial")) return `${path} is the partial log of a run that did not finish; the report covers only the decisions written before it stopped`;
+  if (info.complete === false) return `${path} ends without its closing line: the run that wrote it did not finish, and the report covers only the decisions written before it stopped`;
+  return null;
 }
 
 /** The parts of the evaluator's metrics a report prints (the long per-response list is left out). */

@@ -20,6 +20,8 @@ export interface ReportContent {
   facts?: readonly [string, string][];
   /** The leeway version that wrote the report. */
   version: string;
+  /** Set when the decisions are known to be incomplete: why (shown at the top of the page). */
+  incomplete?: string;
 }
 
 /** The styles the plots need on their own (tick labels, legends), for showing a figure outside a report. */
@@ -50,6 +52,7 @@ th,td{border-bottom:1px solid ${GRID};padding:3px 9px;text-align:left;vertical-a
 thead th{border-bottom:2px solid ${INK};font-weight:600}
 td.num{text-align:right;font-variant-numeric:tabular-nums}
 td.cause span{display:inline-block;width:9px;height:9px;border-radius:2px;margin-right:5px;vertical-align:baseline}
+.incomplete{border:2px solid #b8322a;background:#fbeceb;padding:8px 12px;margin:0 0 14px}
 footer{max-width:1320px;margin:18px auto 0;padding:10px 24px 24px;border-top:3px solid ${INK};font-size:12.5px;color:${INK}}
 footer .caution{font-weight:600}
 footer .made{color:${MUTED}}
@@ -106,6 +109,7 @@ export function renderReport(content: ReportContent): string {
     `<style>${STYLE}</style></head><body><main>`,
     `<header><h1>${escapeXml(content.title)}</h1>${content.subtitle === undefined ? "" : `<p class="sub">${escapeXml(content.subtitle)}</p>`}`,
     `<ul class="facts">${facts.map(([k, v]) => `<li><b>${escapeXml(k as string)}:</b> ${escapeXml(v as string)}</li>`).join("")}</ul></header>`,
+    content.incomplete === undefined ? "" : `<p class="incomplete" role="alert"><strong>Incomplete:</strong> ${escapeXml(content.incomplete)}.</p>`,
     `<section aria-label="plots">${plots.join("\n")}</section>`,
     `<h2>Metrics</h2><section class="tables">${tables.map((tb) => tableHtml(tb)).join("\n")}</section>`,
     `<h2>Decision changes</h2>${transitionsTable(t)}`,
