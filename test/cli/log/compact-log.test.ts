@@ -8,8 +8,6 @@ import { COMPACT_DIGITS } from "../../../packages/cli/src/log/cells.js";
 import { handMadeDecisions } from "../hand-made.js";
 import { scoreRows, SHORT_ENGINE } from "../streams.js";
 
-const SEED = 20261205;
-
 function compactText(decisions: readonly Decision[], times: readonly (string | number | null)[], complete = true): string {
   const writer = new CompactLogWriter();
   const lines = [compactHeader(), ...decisions.map((d, i) => writer.line(d, times[i] ?? null))];
@@ -57,7 +55,6 @@ describe("compact decision log", () => {
       extra: fc.dictionary(fc.constantFrom("change", "trend", "mode"), fc.oneof(leaf, fc.dictionary(fc.constantFrom("statistic", "z", "moved"), fc.oneof(leaf, fc.array(fc.integer(), { maxLength: 3 })), { maxKeys: 3 })), { maxKeys: 3 }),
       time: fc.oneof(fc.constant(null), fc.integer({ min: 0, max: 100 })),
     });
-    console.log(`compact log property seed ${SEED}`);
     fc.assert(
       fc.asyncProperty(fc.array(decision, { minLength: 1, maxLength: 40 }), fc.boolean(), async (items, timed) => {
         const decisions: Decision[] = items.map((x, i) => ({ index: i, action: x.action, cause: x.cause, phase: x.phase, evidence: { liveScore: x.live, referenceScores: x.refs, ...x.extra } }));
@@ -70,7 +67,7 @@ describe("compact decision log", () => {
           expect(rounded(JSON.parse(JSON.stringify(b.decision.evidence)))).toEqual(rounded(JSON.parse(JSON.stringify(d.evidence))));
         });
       }),
-      { seed: SEED, numRuns: 150 },
+      { numRuns: 150 },
     );
   });
 
