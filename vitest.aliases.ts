@@ -1,6 +1,6 @@
 import { fileURLToPath } from "node:url";
 
-const packages = ["core", "stats", "change", "pool", "signal", "sim", "policy", "eval"];
+const packages = ["core", "stats", "change", "pool", "signal", "sim", "policy", "eval", "fleet"];
 const fromRoot = (path: string): string => fileURLToPath(new URL(path, import.meta.url));
 
 /**

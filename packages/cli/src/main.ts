@@ -2,6 +2,7 @@ import { LeewayError } from "@leeway/core";
 import { helpText, parseArguments, type CommandSpec, type ParsedArguments } from "./args.js";
 import { calibrateSpec, runCalibrate } from "./commands/calibrate.js";
 import { demoSpec, runDemo } from "./commands/demo.js";
+import { fleetSpec, runFleet } from "./commands/fleet.js";
 import { replaySpec, runReplay } from "./commands/replay.js";
 import { reportSpec, runReport } from "./commands/report.js";
 import { CliError, EXIT_INPUT, EXIT_INTERNAL, EXIT_OK, EXIT_USAGE } from "./exit-codes.js";
@@ -13,6 +14,8 @@ import { leewayVersion } from "./version.js";
 interface Command {
   spec: CommandSpec;
   run(parsed: ParsedArguments, io: CliStreams): Promise<number>;
+  /** A command with actions of its own parses its arguments itself. */
+  dispatch?(argv: readonly string[], io: CliStreams): Promise<number>;
 }
 
 const COMMANDS: readonly Command[] = [
@@ -20,6 +23,7 @@ const COMMANDS: readonly Command[] = [
   { spec: replaySpec, run: runReplay },
   { spec: calibrateSpec, run: runCalibrate },
   { spec: reportSpec, run: runReport },
+  { spec: fleetSpec, run: () => Promise.resolve(EXIT_USAGE), dispatch: runFleet },
 ];
 
 /** The top-level `leeway --help`. */
@@ -72,6 +76,7 @@ export async function main(argv: readonly string[], io: CliStreams): Promise<num
       io.stderr.write(`leeway: ${what} (commands: ${names.join(", ")}; see leeway --help)\n`);
       return EXIT_USAGE;
     }
+    if (command.dispatch !== undefined) return await command.dispatch(rest, io);
     const parsed = parseArguments(command.spec, rest);
     if (parsed.help) {
       io.stdout.write(helpText(command.spec));

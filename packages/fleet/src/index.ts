@@ -1,0 +1,18 @@
+export { partitionKeys, partitionOf, fleetKeys } from "./keys.js";
+export type { PartitionKeys } from "./keys.js";
+export { parseRecord, sampleFields, operatorFields, OPERATOR_EVENTS } from "./records.js";
+export type { InputRecord, OperatorEvent } from "./records.js";
+export { encodeEngine, decodeEngine, MAX_SNAPSHOT_BYTES } from "./stream-snapshot.js";
+export { PartitionEngines } from "./partition.js";
+export type { BatchPlan, StreamEntry, StoredStream, EngineFactory } from "./partition.js";
+export { commitBatch, FencedError } from "./commit.js";
+export { acquireLease, renewLease, releaseLease } from "./lease.js";
+export type { HeldLease } from "./lease.js";
+export { FleetWorker, entriesAdded } from "./worker.js";
+export type { FleetWorkerOptions, WorkerProgress, WorkerEvent } from "./worker.js";
+export type { RedisClient } from "./scripts.js";
+export { FleetFeeder } from "./feeder.js";
+export type { FleetFeederOptions } from "./feeder.js";
+export { fleetStatus } from "./status.js";
+export type { FleetStatus, PartitionStatus } from "./status.js";
+export { openRedis } from "./connect.js";
