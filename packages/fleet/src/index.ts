@@ -16,3 +16,7 @@ export type { FleetFeederOptions } from "./feeder.js";
 export { fleetStatus } from "./status.js";
 export type { FleetStatus, PartitionStatus } from "./status.js";
 export { openRedis } from "./connect.js";
+export { SiteOnsets } from "./site-onsets.js";
+export type { SiteOnsetsOptions } from "./site-onsets.js";
+export { SiteEvidence, isOnset } from "./site-evidence.js";
+export type { SiteEvidenceOptions } from "./site-evidence.js";

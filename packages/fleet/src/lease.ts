@@ -16,7 +16,7 @@ export interface HeldLease {
  * const lease = await acquireLease(redis, partitionKeys("leeway", 0), "worker-a", 10_000);
  * lease?.token; // "1" on a fresh database
  */
-export async function acquireLease(client: RedisClient, keys: PartitionKeys, owner: string, leaseMs: number): Promise<HeldLease | null> {
+export async function acquireLease(client: RedisClient, keys: Pick<PartitionKeys, "meta" | "lease">, owner: string, leaseMs: number): Promise<HeldLease | null> {
   const reply = (await ACQUIRE.run(client, [keys.meta, keys.lease], [owner, leaseMs])) as [string, string, string] | null;
   if (reply === null) return null;
   return { token: String(reply[0]), offset: String(reply[1]), consumed: Number(reply[2]) };
