@@ -267,7 +267,9 @@ export class OselmAutoencoder {
     const cholesky = new CholeskyDecomposition(gram);
     if (!cholesky.isPositiveDefinite()) throw new StateError(COMPONENT, "fit: HᵀH + ridge·I is not positive definite in floating point; raise ridge");
     const p = cholesky.solve(Matrix.eye(L, L));
-    const beta = p.mmul(hRows.transpose().mmul(zRows));
+    // β from the factor itself (A β = HᵀZ), not as P·HᵀZ: multiplying by the
+    // explicit inverse loses about cond(A)·‖P‖‖HᵀZ‖/‖β‖ digits to cancellation
+    const beta = cholesky.solve(hRows.transpose().mmul(zRows));
     const newP = allocate(this.#dtype, L * L);
     const newBeta = allocate(this.#dtype, L * n);
     for (let i = 0; i < L; i++) {
