@@ -55,7 +55,22 @@ export function standardizeFrom(rows: readonly Float64Array[], inputs: number): 
 }
 
 /**
- * Copies x into z, scaled. Throws {@link DimensionError} for a wrong length.
+ * Throws {@link NonFiniteError} naming the first element of x that is not of
+ * type number (a string, null, a boolean, a bigint, an array...): such values
+ * are refused under every nonFinite policy, never coerced. Typed float arrays
+ * hold only numbers and pass at once.
+ */
+export function requireNumbers(component: string, parameter: string, x: ArrayLike<unknown>): void {
+  if (x instanceof Float64Array || x instanceof Float32Array) return;
+  for (let j = 0; j < x.length; j++) {
+    const v = x[j];
+    if (typeof v !== "number") throw new NonFiniteError(component, `${parameter}[${j}]`, v);
+  }
+}
+
+/**
+ * Copies x into z, scaled. Throws {@link DimensionError} for a wrong length
+ * and {@link NonFiniteError} for an element that is not a number.
  * Returns false (z then undefined) when x holds a non-finite value and
  * `refuse` is false; throws {@link NonFiniteError} when it is true.
  */
@@ -63,6 +78,7 @@ export function scaleInto(component: string, parameter: string, x: ArrayLike<num
   const n = z.length;
   if (x === null || typeof x !== "object" || typeof x.length !== "number") throw new DimensionError(component, parameter, n, 0);
   if (x.length !== n) throw new DimensionError(component, parameter, n, x.length);
+  requireNumbers(component, parameter, x);
   const offset = scaling.offset;
   const scale = scaling.scale;
   let check = 0;
@@ -79,7 +95,7 @@ export function scaleInto(component: string, parameter: string, x: ArrayLike<num
       check += v * 0;
     }
   }
-  // check is 0 for finite x and NaN as soon as one element is NaN or ±Infinity (or not a number).
+  // check is 0 for finite x and NaN as soon as one element is NaN or ±Infinity.
   if (check === 0) return true;
   if (!refuse) return false;
   for (let j = 0; j < n; j++) {
