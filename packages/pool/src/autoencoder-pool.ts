@@ -23,7 +23,7 @@ import {
 import { ACTIVATIONS, type Activation } from "./activation.js";
 import { FrozenModel } from "./frozen-model.js";
 import { MAX_HIDDEN, MAX_INPUTS, OselmAutoencoder, type OselmAutoencoderOptions, type OselmAutoencoderState } from "./oselm-autoencoder.js";
-import { scalingOption, type ScalingOption } from "./scaling.js";
+import { requireNumbers, scalingOption, type ScalingOption } from "./scaling.js";
 import { DTYPES, type Dtype } from "./vector.js";
 
 const COMPONENT = "AutoencoderPool";
@@ -414,6 +414,8 @@ export class AutoencoderPool {
     const skipped = s.integer("skipped", 0, Number.MAX_SAFE_INTEGER);
     const memberReaders = s.objects("members", { max: maxMembers });
     if (memberReaders.length > spawned) s.fail("members", `holds ${memberReaders.length} members but only ${spawned} were ever started`);
+    // members are replaced but never removed: once one was started the list cannot be empty
+    if (spawned > 0 && memberReaders.length === 0) s.fail("members", `is empty although spawned says ${spawned} member(s) were started`);
     const pendingRows = s.rawArray("pending", { max: spawnPatience - 1 });
     checkedSize(kind, "state.pending", [pendingRows.length, inputs]);
     const options: AutoencoderPoolOptions = { inputs, hidden, maxMembers, spawnPatience, seed, activation, ridge, forgetting, dtype, scaling: scalingOption, nonFinite };
@@ -491,9 +493,10 @@ export class AutoencoderPool {
   #check(x: ArrayLike<number>, refuse: boolean): boolean {
     if (x === null || typeof x !== "object" || typeof x.length !== "number") throw new DimensionError(COMPONENT, "x", this.#n, 0);
     if (x.length !== this.#n) throw new DimensionError(COMPONENT, "x", this.#n, x.length);
+    requireNumbers(COMPONENT, "x", x);
     for (let j = 0; j < this.#n; j++) {
-      const v = x[j];
-      if (typeof v !== "number" || !Number.isFinite(v)) {
+      const v = x[j] as number;
+      if (!Number.isFinite(v)) {
         if (refuse) throw new NonFiniteError(COMPONENT, `x[${j}]`, v);
         return false;
       }

@@ -24,7 +24,9 @@ import { ACTIVATIONS, type Activation } from "./activation.js";
 import { hiddenForward, outputResidual } from "./forward.js";
 import { drawHiddenLayer, type HiddenLayer } from "./hidden-layer.js";
 import { scaleInto, scalingOption, standardizeFrom, type Scaling, type ScalingOption } from "./scaling.js";
-import { shermanMorrisonStep, UpdateWorkspace, type Refusal } from "./sherman-morrison.js";
+import { LIMITS, type NumericLimits } from "./numeric-limits.js";
+import { isPositiveDefinite } from "./positive-definite.js";
+import { REFUSALS, shermanMorrisonStep, UpdateWorkspace, type Refusal } from "./sherman-morrison.js";
 import { allocate, bytesPerElement, DTYPES, type Dtype, type Vector } from "./vector.js";
 import { woodburyChunk } from "./woodbury.js";
 
@@ -34,7 +36,13 @@ export const MAX_INPUTS = 2 ** 20;
 /** Largest accepted number of hidden units L (L² must fit a snapshot array). */
 export const MAX_HIDDEN = 4096;
 const LAYER = Symbol("hidden layer");
-const REFUSALS = ["hPh-not-positive", "gain-not-finite", "p-overflow"] as const;
+/** Accepted updates between two Cholesky checks that P is still positive definite. */
+export const CHECK_INTERVAL = 256;
+/** Consecutive refused updates after which the next refused one re-anchors P. */
+export const REANCHOR_AFTER = 8;
+/** Why P was last re-anchored. */
+const RESETS = ["not-positive-definite", "persistent-refusals"] as const;
+type Reset = (typeof RESETS)[number];
 
 /** Options of {@link OselmAutoencoder}. */
 export interface OselmAutoencoderOptions {
@@ -72,6 +80,11 @@ export interface AutoencoderHealth {
   lastRefusal: string | null;
   /** Updates whose forgetting factor was raised to hold trace(P) at its bound. */
   windupLimited: number;
+  /** Times P was re-anchored to a ridge prior (β kept), and why the last time, or null. */
+  resets: number;
+  lastReset: string | null;
+  /** The last Cholesky check (on restore, after fit, every 256 accepted updates) found P positive definite. */
+  positiveDefinite: boolean;
   /** trace(P) now, and its bound. */
   trace: number;
   traceBound: number;
@@ -81,7 +94,7 @@ export interface AutoencoderHealth {
   maxAsymmetry: number;
   /** Every entry of β and P is finite. */
   finite: boolean;
-  /** finite, symmetric, positive diagonal and trace within its bound (when λ < 1). */
+  /** finite, symmetric, positive diagonal, positive definite at the last check and trace within its bound (when λ < 1). */
   ok: boolean;
 }
 
@@ -106,6 +119,12 @@ export interface OselmAutoencoderState {
   refused: number;
   windupLimited: number;
   lastRefusal: string | null;
+  resets: number;
+  lastReset: string | null;
+  /** Consecutive refused updates just before the snapshot. */
+  refusalRun: number;
+  /** Accepted updates since the last Cholesky check of P. */
+  sinceCheck: number;
   /** β, L × n row-major. */
   beta: number[];
   /** The upper triangle of P, row by row (L(L+1)/2 numbers). */
@@ -133,7 +152,7 @@ interface InternalOptions extends OselmAutoencoderOptions {
  */
 export class OselmAutoencoder {
   static readonly kind = "leeway.pool.oselm-autoencoder";
-  static readonly version = 1;
+  static readonly version = 2;
 
   readonly #n: number;
   readonly #L: number;
@@ -142,6 +161,7 @@ export class OselmAutoencoder {
   readonly #forgetting: number; // λ
   readonly #traceBound: number;
   readonly #dtype: Dtype;
+  readonly #limits: NumericLimits;
   readonly #nonFinite: NonFinitePolicy;
   readonly #seed: string;
   readonly #layer: HiddenLayer;
@@ -154,11 +174,20 @@ export class OselmAutoencoder {
   #refused = 0;
   #windupLimited = 0;
   #lastRefusal: string | null = null;
+  #resets = 0;
+  #lastReset: Reset | null = null;
+  #refusalRun = 0;
+  #sinceCheck = 0;
+  #positiveDefinite = true;
+  /** An upper bound on max |β_ij|, exact after fit, restore and every recomputation. */
+  #betaBound = 0;
+  #betaBoundExact = true;
   #scored = false;
   readonly #z: Float64Array;
   readonly #h: Float64Array;
   readonly #e: Float64Array;
   readonly #ws: UpdateWorkspace;
+  readonly #moved = new Float64Array(1);
 
   constructor(options: OselmAutoencoderOptions) {
     const o = optionsObject<InternalOptions>(COMPONENT, options, [
@@ -178,6 +207,7 @@ export class OselmAutoencoder {
     this.#traceBound = o.traceBound === undefined ? this.#L / this.#ridge : positiveNumber(COMPONENT, "traceBound", o.traceBound);
     if (!(this.#traceBound < Infinity)) throw new OptionError(COMPONENT, "traceBound", o.traceBound, "a finite number > 0 (L/ridge is too large)");
     this.#dtype = o.dtype === undefined ? "float64" : oneOf(COMPONENT, "dtype", o.dtype, DTYPES);
+    this.#limits = LIMITS[this.#dtype];
     this.#nonFinite = nonFiniteOption(COMPONENT, o.nonFinite);
     this.#scaling = scalingOption(COMPONENT, o.scaling, this.#n);
     this.#fitted = this.#scaling.mode !== "standardize";
@@ -290,6 +320,12 @@ export class OselmAutoencoder {
     this.#refused = 0;
     this.#windupLimited = 0;
     this.#lastRefusal = null;
+    this.#resets = 0;
+    this.#lastReset = null;
+    this.#refusalRun = 0;
+    this.#sinceCheck = 0;
+    this.#positiveDefinite = isPositiveDefinite(newP, L);
+    this.#measureBeta();
     this.#scored = false;
     return raw.length;
   }
@@ -343,7 +379,11 @@ export class OselmAutoencoder {
 
   /**
    * Learns k rows at once by the Woodbury identity (one k × k Cholesky solve;
-   * for k = 1 the Sherman–Morrison step); the result equals k calls of `learn` in order. With λ < 1, when the trace
+   * for k = 1 the Sherman–Morrison step); the result equals k calls of `learn` in order.
+   * A chunk that would overflow β or P is refused whole (E_STATE, state
+   * unchanged); one whose gain check or Cholesky factor fails is learnt row by
+   * row, with the guards and recovery of `learn` (rows before a refused one
+   * stay learnt). With λ < 1, when the trace
    * bound could bind inside the chunk (trace(P)·λ^(−k) above it), the rows are
    * learnt one by one instead so that the bound is applied exactly as `learn`
    * does. Returns the number of rows learnt.
@@ -385,8 +425,23 @@ export class OselmAutoencoder {
       hRows.set(this.#h, r * L);
       eRows.set(this.#e, r * n);
     }
-    this.#refuseOn(woodburyChunk(this.#p, this.#beta, hRows, eRows, k, L, n, this.#forgetting));
-    this.#count += k;
+    let refusal = woodburyChunk(this.#p, this.#beta, hRows, eRows, k, L, n, this.#forgetting, this.#limits, this.#betaBound, this.#moved);
+    if (refusal === "beta-overflow" && !this.#betaBoundExact) {
+      this.#measureBeta();
+      refusal = woodburyChunk(this.#p, this.#beta, hRows, eRows, k, L, n, this.#forgetting, this.#limits, this.#betaBound, this.#moved);
+    }
+    if (refusal === "gain-unsafe" || refusal === "hPh-not-positive") {
+      // row by row, so that every row gets the single-row guards and the recovery
+      for (let r = 0; r < k; r++) {
+        this.#z.set(zRows.subarray(r * n, (r + 1) * n));
+        hiddenForward(this.#layer, this.#activation, this.#z, this.#h);
+        outputResidual(this.#beta, this.#h, this.#z, L, n, this.#e);
+        this.#update();
+      }
+      return k;
+    }
+    if (refusal !== null) this.#refuseOn(refusal);
+    this.#accepted(k, this.#moved[0] as number);
     return k;
   }
 
@@ -428,12 +483,15 @@ export class OselmAutoencoder {
       refused: this.#refused,
       lastRefusal: this.#lastRefusal,
       windupLimited: this.#windupLimited,
+      resets: this.#resets,
+      lastReset: this.#lastReset,
+      positiveDefinite: this.#positiveDefinite,
       trace,
       traceBound: this.#traceBound,
       minDiagonal,
       maxAsymmetry,
       finite,
-      ok: finite && maxAsymmetry === 0 && minDiagonal > 0 && withinBound,
+      ok: finite && maxAsymmetry === 0 && minDiagonal > 0 && this.#positiveDefinite && withinBound,
     };
   }
 
@@ -489,6 +547,8 @@ export class OselmAutoencoder {
     copy.#refused = this.#refused;
     copy.#windupLimited = this.#windupLimited;
     copy.#lastRefusal = this.#lastRefusal;
+    copy.#counters(this.#resets, this.#lastReset, this.#refusalRun, this.#sinceCheck);
+    copy.#positiveDefinite = this.#positiveDefinite;
     return copy;
   }
 
@@ -510,6 +570,10 @@ export class OselmAutoencoder {
       refused: this.#refused,
       windupLimited: this.#windupLimited,
       lastRefusal: this.#lastRefusal,
+      resets: this.#resets,
+      lastReset: this.#lastReset,
+      refusalRun: this.#refusalRun,
+      sinceCheck: this.#sinceCheck,
       beta: toPlainArray(this.#beta),
       p: upper,
     });
@@ -558,6 +622,11 @@ export class OselmAutoencoder {
     const windupLimited = s.integer("windupLimited", 0, Number.MAX_SAFE_INTEGER);
     const lastRefusal = s.stringOrNull("lastRefusal");
     if (lastRefusal !== null && !(REFUSALS as readonly string[]).includes(lastRefusal)) s.fail("lastRefusal", `must be null or one of ${REFUSALS.join(", ")}`);
+    const resets = s.integer("resets", 0, Number.MAX_SAFE_INTEGER);
+    const lastReset = s.stringOrNull("lastReset");
+    if (lastReset !== null && !(RESETS as readonly string[]).includes(lastReset)) s.fail("lastReset", `must be null or one of ${RESETS.join(", ")}`);
+    const refusalRun = s.integer("refusalRun", 0, REANCHOR_AFTER - 1);
+    const sinceCheck = s.integer("sinceCheck", 0, CHECK_INTERVAL - 1);
     const betaValues = s.numbers("beta", L * n);
     const upper = s.numbers("p", (L * (L + 1)) / 2);
     const beta = allocate(dtype, L * n);
@@ -574,6 +643,7 @@ export class OselmAutoencoder {
         t++;
       }
     }
+    if (!isPositiveDefinite(p, L)) s.fail("p", "is not positive definite (its Cholesky factorisation meets a pivot ≤ 0)");
     const layer = drawHiddenLayer(seed, n, L, dtype, activation !== "identity");
     if (layer.checksum !== checksum) {
       throw new SnapshotError(kind, "state.hiddenChecksum", `is ${checksum}, but the hidden layer drawn from seed ${JSON.stringify(seed)} has checksum ${layer.checksum}`);
@@ -591,6 +661,8 @@ export class OselmAutoencoder {
     model.#refused = refused;
     model.#windupLimited = windupLimited;
     model.#lastRefusal = lastRefusal;
+    model.#counters(resets, lastReset as Reset | null, refusalRun, sinceCheck);
+    model.#measureBeta();
     return model;
   }
 
@@ -639,22 +711,106 @@ export class OselmAutoencoder {
     return trace;
   }
 
-  /** The Sherman–Morrison step from the buffers h and e. */
-  #update(): void {
-    const refusal = shermanMorrisonStep(this.#p, this.#beta, this.#h, this.#e, this.#L, this.#n, this.#forgetting, this.#traceBound, this.#ws);
-    this.#refuseOn(refusal);
-    if (this.#ws.appliedForgetting > this.#forgetting) this.#windupLimited++;
-    this.#count++;
+  #counters(resets: number, lastReset: Reset | null, refusalRun: number, sinceCheck: number): void {
+    this.#resets = resets;
+    this.#lastReset = lastReset;
+    this.#refusalRun = refusalRun;
+    this.#sinceCheck = sinceCheck;
   }
 
-  #refuseOn(refusal: Refusal): void {
-    if (refusal === null) return;
+  /** max |β_ij| exactly (O(L·n)). */
+  #measureBeta(): void {
+    let max = 0;
+    for (let i = 0; i < this.#beta.length; i++) {
+      const v = Math.abs(this.#beta[i] as number);
+      if (v > max) max = v;
+    }
+    this.#betaBound = max;
+    this.#betaBoundExact = true;
+  }
+
+  /** One guarded Sherman–Morrison step from the buffers h and e; re-measures β once before refusing it as overflowing. */
+  #step(): Refusal {
+    const step = (): Refusal =>
+      shermanMorrisonStep(this.#p, this.#beta, this.#h, this.#e, this.#L, this.#n, this.#forgetting, this.#traceBound, this.#limits, this.#betaBound, this.#ws);
+    const refusal = step();
+    if (refusal !== "beta-overflow" || this.#betaBoundExact) return refusal;
+    this.#measureBeta();
+    return step();
+  }
+
+  /**
+   * The Sherman–Morrison step with its recovery, re-anchoring: P ← I/δₐ with β
+   * kept (covariance resetting; Goodwin & Sin, Adaptive Filtering Prediction
+   * and Control, 1984 — from memory). It happens when P has lost positive
+   * definiteness (hᵀPh ≤ 0 for h ≠ 0, or a failed Cholesky check), with δₐ = δ,
+   * and when this update would be refused after {@link REANCHOR_AFTER} refused
+   * ones in a row (a lasting change of scale), with δₐ = max(δ, ‖h‖²) so that
+   * the prior weighs no more than one row of the new size. The update is then
+   * tried once more on the re-anchored P; after a lasting run that is refused
+   * again, P is put back. Any other refusal keeps the state as it was.
+   */
+  #update(): void {
+    let refusal = this.#step();
+    if (refusal === null) {
+      this.#accepted(1, this.#ws.increment);
+      return;
+    }
+    const broken = refusal === "hPh-not-positive";
+    const lasting = !broken && refusal !== "hidden-layer-zero" && this.#refusalRun + 1 >= REANCHOR_AFTER;
+    if (broken || lasting) {
+      const kept = lasting ? this.#p.slice() : null;
+      this.#reanchor(broken ? this.#ridge : Math.max(this.#ridge, this.#ws.hh), broken ? "not-positive-definite" : "persistent-refusals");
+      refusal = this.#step();
+      if (refusal === null) {
+        this.#accepted(1, this.#ws.increment);
+        return;
+      }
+      if (kept !== null) {
+        this.#p.set(kept);
+        this.#resets--;
+      }
+    }
+    this.#refuseOn(refusal);
+  }
+
+  /** P ← I/ridge, β kept. */
+  #reanchor(ridge: number, why: Reset): void {
+    const L = this.#L;
+    this.#p.fill(0);
+    for (let i = 0; i < L; i++) this.#p[i * L + i] = 1 / ridge;
+    this.#resets++;
+    this.#lastReset = why;
+    this.#positiveDefinite = true;
+    this.#sinceCheck = 0;
+  }
+
+  /** Bookkeeping after `rows` accepted rows that moved β by at most `moved`; the periodic Cholesky check. */
+  #accepted(rows: number, moved: number): void {
+    if (this.#ws.appliedForgetting > this.#forgetting && rows === 1) this.#windupLimited++;
+    this.#count += rows;
+    this.#refusalRun = 0;
+    this.#betaBound += moved;
+    this.#betaBoundExact = false;
+    this.#sinceCheck += rows;
+    if (this.#sinceCheck < CHECK_INTERVAL) return;
+    this.#sinceCheck = 0;
+    this.#positiveDefinite = isPositiveDefinite(this.#p, this.#L);
+    if (!this.#positiveDefinite) this.#reanchor(this.#ridge, "not-positive-definite");
+  }
+
+  #refuseOn(refusal: Exclude<Refusal, null>): never {
     this.#refused++;
     this.#lastRefusal = refusal;
+    if (refusal !== "hidden-layer-zero") this.#refusalRun = Math.min(this.#refusalRun + 1, REANCHOR_AFTER - 1);
     const why = {
-      "hPh-not-positive": "hᵀPh is not a finite positive number (P has lost positive definiteness or h is not finite)",
-      "gain-not-finite": "the gain or the residual is non-finite or absurdly large",
-      "p-overflow": "an entry of P would overflow",
+      "hidden-layer-zero":
+        "the hidden layer is all zero for this input (the identity activation has no bias, so an all-zero input gives h = 0 and nothing to learn)",
+      "hPh-not-positive": "hᵀPh is not positive, and P re-anchored to the ridge prior still refuses it",
+      "gain-unsafe": `the update would leave P less curvature along h than ${this.#dtype} resolves (the row is too large for the state: scale the inputs or raise ridge)`,
+      "gain-not-finite": "the hidden layer, the gain or the residual is non-finite or absurdly large",
+      "beta-overflow": `an entry of β would leave the ${this.#dtype} range (|β| ≤ ${this.#limits.betaLimit})`,
+      "p-overflow": `an entry of P would leave the ${this.#dtype} range`,
     }[refusal];
     throw new StateError(COMPONENT, `update refused: ${why}; the state is unchanged`);
   }

@@ -1,12 +1,19 @@
+import { gainIsSafe, type NumericLimits } from "./numeric-limits.js";
 import type { Vector } from "./vector.js";
 
-/** An increment larger than this (|k_i|·|e_j| summed) is refused as absurd. */
-export const MAX_INCREMENT = 1e150;
-/** A state entry that could pass this is refused before it is written. */
-export const MAX_STATE = 1e300;
+/**
+ * Why an update was refused (null: it was applied).
+ * - "hidden-layer-zero": h = 0, nothing to learn (identity activation, all-zero input)
+ * - "hPh-not-positive": hᵀPh ≤ 0 for h ≠ 0, so P is no longer positive definite
+ * - "gain-unsafe": the update would leave less curvature along h than the dtype resolves
+ * - "gain-not-finite": h, the gain or the residual is non-finite or absurdly large
+ * - "beta-overflow": an entry of β could leave the dtype's range
+ * - "p-overflow": an entry of P could leave the dtype's range
+ */
+export type Refusal = null | "hidden-layer-zero" | "hPh-not-positive" | "gain-unsafe" | "gain-not-finite" | "beta-overflow" | "p-overflow";
 
-/** Why an update was refused (null: it was applied). */
-export type Refusal = null | "hPh-not-positive" | "gain-not-finite" | "p-overflow";
+/** Every refusal reason, in a fixed order. */
+export const REFUSALS = ["hidden-layer-zero", "hPh-not-positive", "gain-unsafe", "gain-not-finite", "beta-overflow", "p-overflow"] as const;
 
 /** Scratch vectors and the outcome of the last update. */
 export class UpdateWorkspace {
@@ -16,6 +23,10 @@ export class UpdateWorkspace {
   readonly k: Float64Array;
   /** The forgetting factor actually applied by the last update. */
   appliedForgetting = 1;
+  /** ‖h‖² of the last prepared update. */
+  hh = 0;
+  /** max_i |k_i| · max_j |e_j| of the last prepared update: the most any entry of β moves. */
+  increment = 0;
   constructor(hidden: number) {
     this.u = new Float64Array(hidden);
     this.k = new Float64Array(hidden);
@@ -47,8 +58,9 @@ export function boundedForgetting(lambda: number, a: number, b: number, c: numbe
  *   P ← (P − u kᵀ) / λ
  * Only multiplications, additions and one division; P is written from its upper
  * triangle and mirrored, so it stays exactly symmetric. Nothing is written
- * unless c is a finite positive number, the gain and residual are finite and
- * bounded, and no entry of P could overflow; the refusal is returned instead.
+ * unless h ≠ 0, c is a finite positive number, the gain is safe for the dtype
+ * ({@link gainIsSafe}), and no entry of β (at most `betaBound` in size now) or
+ * of P could leave the dtype's range; the refusal is returned instead.
  */
 export function shermanMorrisonStep(
   p: Vector,
@@ -59,11 +71,13 @@ export function shermanMorrisonStep(
   n: number,
   lambda: number,
   traceBound: number,
+  limits: NumericLimits,
+  betaBound: number,
   ws: UpdateWorkspace,
 ): Refusal {
   // The checks and the two long loops live in separate functions: kept
   // together in one body, V8 compiled the loops about three times slower.
-  const refusal = prepareGain(p, h, e, L, n, lambda, traceBound, ws);
+  const refusal = prepareGain(p, h, e, L, n, lambda, traceBound, limits, betaBound, ws);
   if (refusal !== null) return refusal;
   addOuterProduct(beta, ws.k, e, L, n);
   symmetricDowndate(p, ws.u, ws.k, L, 1 / ws.appliedForgetting);
@@ -71,38 +85,70 @@ export function shermanMorrisonStep(
 }
 
 /** u = P h, the applied forgetting factor, k = u/(λ + hᵀu) and the safety checks; writes only the workspace. */
-function prepareGain(p: Vector, h: Float64Array, e: Float64Array, L: number, n: number, lambda: number, traceBound: number, ws: UpdateWorkspace): Refusal {
+function prepareGain(
+  p: Vector,
+  h: Float64Array,
+  e: Float64Array,
+  L: number,
+  n: number,
+  lambda: number,
+  traceBound: number,
+  limits: NumericLimits,
+  betaBound: number,
+  ws: UpdateWorkspace,
+): Refusal {
   const u = ws.u;
   const k = ws.k;
   let c = 0; // hᵀPh
   let uu = 0; // ‖Ph‖²
+  let hh = 0; // ‖h‖²
   let trace = 0;
+  let maxDiagonal = 0;
   for (let i = 0; i < L; i++) {
     const row = i * L;
     let s = 0;
     for (let j = 0; j < L; j++) s += (p[row + j] as number) * (h[j] as number);
     u[i] = s;
-    c += (h[i] as number) * s;
+    const hi = h[i] as number;
+    c += hi * s;
     uu += s * s;
-    trace += p[row + i] as number;
+    hh += hi * hi;
+    const d = p[row + i] as number;
+    trace += d;
+    if (d > maxDiagonal) maxDiagonal = d;
   }
-  if (!(c > 0 && c < Infinity)) return "hPh-not-positive";
+  ws.hh = hh;
+  if (hh === 0) return "hidden-layer-zero";
+  if (!(hh < Infinity && c < Infinity)) return "gain-not-finite";
+  if (!(c > 0)) return "hPh-not-positive";
   const applied = lambda < 1 ? boundedForgetting(lambda, trace, uu, c, traceBound) : 1;
+  if (!gainIsSafe(c, hh, maxDiagonal, applied, L, limits)) return "gain-unsafe";
   const inverse = 1 / (applied + c);
   let kSum = 0;
+  let kMax = 0;
   let uSum = 0;
   for (let i = 0; i < L; i++) {
     const ui = u[i] as number;
     const ki = ui * inverse;
     k[i] = ki;
-    kSum += Math.abs(ki);
+    const a = Math.abs(ki);
+    kSum += a;
+    if (a > kMax) kMax = a;
     uSum += Math.abs(ui);
   }
-  let eSum = 0;
-  for (let j = 0; j < n; j++) eSum += Math.abs(e[j] as number);
-  if (!(kSum * eSum <= MAX_INCREMENT)) return "gain-not-finite";
-  if (!((trace + uSum * kSum) / applied <= MAX_STATE)) return "p-overflow";
+  let eMax = 0;
+  let check = 0; // stays 0 unless a residual is NaN or ±Infinity
+  for (let j = 0; j < n; j++) {
+    const a = Math.abs(e[j] as number);
+    if (a > eMax) eMax = a;
+    check += a * 0;
+  }
+  const increment = check === 0 ? kMax * eMax : Infinity;
+  if (!(increment < Infinity)) return "gain-not-finite";
+  if (!(betaBound + increment <= limits.betaLimit)) return "beta-overflow";
+  if (!((trace + uSum * kSum) / applied <= limits.stateLimit)) return "p-overflow";
   ws.appliedForgetting = applied;
+  ws.increment = increment;
   return null;
 }
 

@@ -1,4 +1,6 @@
-import { MAX_INCREMENT, MAX_STATE, type Refusal } from "./sherman-morrison.js";
+import { CholeskyDecomposition, Matrix } from "ml-matrix";
+import { gainIsSafe, type NumericLimits } from "./numeric-limits.js";
+import type { Refusal } from "./sherman-morrison.js";
 import type { Vector } from "./vector.js";
 
 /**
@@ -11,8 +13,13 @@ import type { Vector } from "./vector.js";
  *   G = U S⁻¹                 (the gain; equals P_new Hᵀ Λ)
  *   β ← β + G E,  E = T − Hβ  (E: k × n residuals before the update)
  *   P ← P̃ − G Uᵀ
- * S is solved by Cholesky (k × k); P is written from its upper triangle and
- * mirrored. Nothing is written unless every check passes.
+ * S is solved by Cholesky (k × k, ml-matrix); P is written from its upper
+ * triangle and mirrored. Nothing is written unless every check passes: S
+ * positive definite, every row's gain safe against the starting P (a check
+ * of the first step that later rows, meeting a smaller P, only approximate —
+ * the periodic Cholesky check covers the rest), and no entry of β (at most `betaBound` in size now) or of
+ * P could leave the dtype's range. Returns the refusal, or null and the most
+ * any entry of β moved (in `moved[0]`).
  */
 export function woodburyChunk(
   p: Vector,
@@ -23,23 +30,31 @@ export function woodburyChunk(
   L: number,
   n: number,
   lambda: number,
+  limits: NumericLimits,
+  betaBound: number,
+  moved: Float64Array,
 ): Refusal {
   // As in the Sherman–Morrison step, the checks and the long loops live in
   // separate small functions, which V8 compiles to much faster loops.
   const a = lambda === 1 ? 1 : Math.pow(lambda, -k);
   const ut = new Float64Array(k * L); // Uᵀ, row r = a·P h_r
   const uSum = scaledProducts(p, hRows, k, L, a, ut);
-  const s = new Float64Array(k * k);
+  if (!(uSum < Infinity)) return "gain-not-finite";
+  if (!rowGainsSafe(p, hRows, ut, k, L, a, limits)) return "gain-unsafe";
+  const s = new Matrix(k, k);
   chunkSystem(hRows, ut, k, L, lambda, s);
-  if (!choleskyInPlace(s, k)) return "hPh-not-positive";
-  const gt = ut.slice(); // becomes Gᵀ = S⁻¹ Uᵀ
-  choleskySolveRows(s, k, gt, L);
+  const cholesky = new CholeskyDecomposition(s);
+  if (!cholesky.isPositiveDefinite()) return "hPh-not-positive";
+  const gt = Float64Array.from(cholesky.solve(new Matrix(rowsOf(ut, k, L))).to1DArray()); // Gᵀ = S⁻¹ Uᵀ
   const gSum = absoluteSum(gt, gt.length);
-  const eSum = absoluteSum(eRows, k * n);
-  if (!(gSum * eSum <= MAX_INCREMENT)) return "gain-not-finite";
+  // |Σ_r G_ir E_rj| ≤ Σ_r |G_ir|·max|E| ≤ gSum·max|E|
+  const increment = gSum * absoluteMax(eRows, k * n);
+  if (!(increment < Infinity)) return "gain-not-finite";
+  if (!(betaBound + increment <= limits.betaLimit)) return "beta-overflow";
   let trace = 0;
   for (let i = 0; i < L; i++) trace += p[i * L + i] as number;
-  if (!(a * trace + gSum * uSum <= MAX_STATE)) return "p-overflow";
+  if (!(a * trace + gSum * uSum <= limits.stateLimit)) return "p-overflow";
+  moved[0] = increment;
   addGainTimesResiduals(beta, gt, eRows, k, L, n);
   chunkDowndate(p, gt, ut, k, L, a);
   return null;
@@ -62,15 +77,37 @@ function scaledProducts(p: Vector, hRows: Float64Array, k: number, L: number, a:
   return uSum;
 }
 
+/** Each row's single-step gain check ({@link gainIsSafe}) against P̃ = a·P. */
+function rowGainsSafe(p: Vector, hRows: Float64Array, ut: Float64Array, k: number, L: number, a: number, limits: NumericLimits): boolean {
+  let maxDiagonal = 0;
+  for (let i = 0; i < L; i++) maxDiagonal = Math.max(maxDiagonal, a * (p[i * L + i] as number));
+  for (let r = 0; r < k; r++) {
+    let c = 0;
+    let hh = 0;
+    for (let i = 0; i < L; i++) {
+      const hi = hRows[r * L + i] as number;
+      c += hi * (ut[r * L + i] as number);
+      hh += hi * hi;
+    }
+    if (hh === 0 || !(c > 0) || !gainIsSafe(c, hh, maxDiagonal, 1, L, limits)) return false;
+  }
+  return true;
+}
+
+/** The k rows of a row-major k × L array as plain arrays (for ml-matrix). */
+function rowsOf(values: Float64Array, k: number, L: number): number[][] {
+  return Array.from({ length: k }, (_, r) => Array.from(values.subarray(r * L, (r + 1) * L)));
+}
+
 /** S = Λ⁻¹ + H U (k × k, symmetric), with 1/w_r = λ^(−(k−1−r)). */
-function chunkSystem(hRows: Float64Array, ut: Float64Array, k: number, L: number, lambda: number, s: Float64Array): void {
+function chunkSystem(hRows: Float64Array, ut: Float64Array, k: number, L: number, lambda: number, s: Matrix): void {
   for (let r = 0; r < k; r++) {
     for (let q = r; q < k; q++) {
       let sum = 0;
       for (let i = 0; i < L; i++) sum += (hRows[r * L + i] as number) * (ut[q * L + i] as number);
       if (q === r) sum += lambda === 1 ? 1 : Math.pow(lambda, -(k - 1 - r));
-      s[r * k + q] = sum;
-      s[q * k + r] = sum;
+      s.set(r, q, sum);
+      s.set(q, r, sum);
     }
   }
 }
@@ -79,6 +116,17 @@ function absoluteSum(values: Float64Array, length: number): number {
   let sum = 0;
   for (let i = 0; i < length; i++) sum += Math.abs(values[i] as number);
   return sum;
+}
+
+function absoluteMax(values: Float64Array, length: number): number {
+  let max = 0;
+  let check = 0; // stays 0 unless a value is NaN or ±Infinity
+  for (let i = 0; i < length; i++) {
+    const v = Math.abs(values[i] as number);
+    if (v > max) max = v;
+    check += v * 0;
+  }
+  return check === 0 ? max : Infinity;
 }
 
 /** β ← β + G E, one row of β at a time: the k terms are summed in a small buffer, so β is read and written once. */
@@ -121,45 +169,5 @@ function chunkDowndate(p: Vector, gt: Float64Array, ut: Float64Array, k: number,
       p[i * L + j] = v;
       p[j * L + i] = v;
     }
-  }
-}
-
-/**
- * Cholesky factorisation A = C Cᵀ of a symmetric k × k matrix in place (C in
- * the lower triangle). False when a pivot is not a finite positive number.
- */
-export function choleskyInPlace(m: Float64Array, k: number): boolean {
-  for (let j = 0; j < k; j++) {
-    let d = m[j * k + j] as number;
-    for (let t = 0; t < j; t++) d -= (m[j * k + t] as number) ** 2;
-    if (!(d > 0 && d < Infinity)) return false;
-    const c = Math.sqrt(d);
-    m[j * k + j] = c;
-    for (let i = j + 1; i < k; i++) {
-      let v = m[i * k + j] as number;
-      for (let t = 0; t < j; t++) v -= (m[i * k + t] as number) * (m[j * k + t] as number);
-      m[i * k + j] = v / c;
-    }
-  }
-  return true;
-}
-
-/** Solves (C Cᵀ) X = B in place for B of k rows × width columns, C from {@link choleskyInPlace}. */
-export function choleskySolveRows(c: Float64Array, k: number, b: Float64Array, width: number): void {
-  for (let r = 0; r < k; r++) {
-    for (let t = 0; t < r; t++) {
-      const f = c[r * k + t] as number;
-      for (let i = 0; i < width; i++) b[r * width + i] = (b[r * width + i] as number) - f * (b[t * width + i] as number);
-    }
-    const d = c[r * k + r] as number;
-    for (let i = 0; i < width; i++) b[r * width + i] = (b[r * width + i] as number) / d;
-  }
-  for (let r = k - 1; r >= 0; r--) {
-    for (let t = r + 1; t < k; t++) {
-      const f = c[t * k + r] as number;
-      for (let i = 0; i < width; i++) b[r * width + i] = (b[r * width + i] as number) - f * (b[t * width + i] as number);
-    }
-    const d = c[r * k + r] as number;
-    for (let i = 0; i < width; i++) b[r * width + i] = (b[r * width + i] as number) / d;
   }
 }
