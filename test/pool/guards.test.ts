@@ -125,7 +125,7 @@ describe("OselmAutoencoder: guards sized to the dtype", () => {
     expect(model.health()).toMatchObject({ refused: 1, lastRefusal: "hidden-layer-zero", resets: 0 });
   });
 
-  it("score and learn refuse non-numbers with E_NON_FINITE naming the element, also under nonFinite: skip (no coercion of strings, null, arrays, booleans or bigints)", () => {
+  it("score and learn refuse non-numbers with E_SAMPLE naming the element and its type, also under nonFinite: skip (no coercion of strings, null, arrays, booleans or bigints)", () => {
     for (const nonFinite of ["refuse", "skip"] as const) {
       const model = new OselmAutoencoder({ inputs: 2, hidden: 3, seed: 7, nonFinite });
       const pool = new AutoencoderPool({ inputs: 2, hidden: 3, maxMembers: 1, seed: 7, spawnPatience: 1, nonFinite });
@@ -133,11 +133,11 @@ describe("OselmAutoencoder: guards sized to the dtype", () => {
       const cases: [unknown[], string][] = [[[1, "2"], 'x[1]'], [[null, 1], "x[0]"], [[[7], 1], "x[0]"], [[true, 1], "x[0]"], [[1, 1n], "x[1]"]];
       for (const [x, element] of cases) {
         const v = x as number[];
-        expectLeewayError(() => model.score(v), "E_NON_FINITE", element, "finite number");
-        expectLeewayError(() => model.learn(v), "E_NON_FINITE", element);
-        expectLeewayError(() => model.learnChunk([v]), "E_NON_FINITE", `rows[0]${element.slice(1)}`);
-        expectLeewayError(() => pool.score(v), "E_NON_FINITE", element);
-        expectLeewayError(() => pool.learn(v), "E_NON_FINITE", element);
+        expectLeewayError(() => model.score(v), "E_SAMPLE", element, "a number", "(");
+        expectLeewayError(() => model.learn(v), "E_SAMPLE", element);
+        expectLeewayError(() => model.learnChunk([v]), "E_SAMPLE", `rows[0]${element.slice(1)}`);
+        expectLeewayError(() => pool.score(v), "E_SAMPLE", element);
+        expectLeewayError(() => pool.learn(v), "E_SAMPLE", element);
       }
       expect(model.skipped + pool.skipped).toBe(0);
     }

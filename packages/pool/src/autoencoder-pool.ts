@@ -13,6 +13,7 @@ import {
   nonFiniteOption,
   openSnapshot,
   optionsObject,
+  requireNumbers,
   positiveInteger,
   positiveNumber,
   seedOption,
@@ -23,7 +24,7 @@ import {
 import { ACTIVATIONS, type Activation } from "./activation.js";
 import { FrozenModel } from "./frozen-model.js";
 import { MAX_HIDDEN, MAX_INPUTS, OselmAutoencoder, type OselmAutoencoderOptions, type OselmAutoencoderState } from "./oselm-autoencoder.js";
-import { requireNumbers, scalingOption, type ScalingOption } from "./scaling.js";
+import { scalingOption, type ScalingOption } from "./scaling.js";
 import { DTYPES, type Dtype } from "./vector.js";
 
 const COMPONENT = "AutoencoderPool";

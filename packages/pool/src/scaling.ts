@@ -1,4 +1,4 @@
-import { DimensionError, NonFiniteError, OptionError, finiteArray } from "@leeway/core";
+import { DimensionError, NonFiniteError, OptionError, finiteArray, requireNumbers } from "@leeway/core";
 
 /**
  * How inputs are scaled before the network sees them: z_j = (x_j − offset_j) / scale_j.
@@ -55,22 +55,8 @@ export function standardizeFrom(rows: readonly Float64Array[], inputs: number): 
 }
 
 /**
- * Throws {@link NonFiniteError} naming the first element of x that is not of
- * type number (a string, null, a boolean, a bigint, an array...): such values
- * are refused under every nonFinite policy, never coerced. Typed float arrays
- * hold only numbers and pass at once.
- */
-export function requireNumbers(component: string, parameter: string, x: ArrayLike<unknown>): void {
-  if (x instanceof Float64Array || x instanceof Float32Array) return;
-  for (let j = 0; j < x.length; j++) {
-    const v = x[j];
-    if (typeof v !== "number") throw new NonFiniteError(component, `${parameter}[${j}]`, v);
-  }
-}
-
-/**
  * Copies x into z, scaled. Throws {@link DimensionError} for a wrong length
- * and {@link NonFiniteError} for an element that is not a number.
+ * and SampleError (`E_SAMPLE`, from `requireNumbers`) for an element that is not a number.
  * Returns false (z then undefined) when x holds a non-finite value and
  * `refuse` is false; throws {@link NonFiniteError} when it is true.
  */
