@@ -7,8 +7,6 @@ import {
   checkedSize,
   envelope,
   integerInRange,
-  numberInRange,
-  oneOf,
   MAX_SNAPSHOT_ELEMENTS,
   nonFiniteOption,
   openSnapshot,
@@ -23,7 +21,7 @@ import {
 } from "@leeway/core";
 import { ACTIVATIONS, type Activation } from "./activation.js";
 import { FrozenModel } from "./frozen-model.js";
-import { MAX_HIDDEN, MAX_INPUTS, OselmAutoencoder, type OselmAutoencoderOptions, type OselmAutoencoderState } from "./oselm-autoencoder.js";
+import { learningOptions, MAX_HIDDEN, MAX_INPUTS, OselmAutoencoder, type OselmAutoencoderOptions, type OselmAutoencoderState } from "./oselm-autoencoder.js";
 import { scalingOption, type ScalingOption } from "./scaling.js";
 import { DTYPES, type Dtype } from "./vector.js";
 
@@ -182,14 +180,13 @@ export class AutoencoderPool {
       seed: `${this.#seed}/member/0`,
       scaling: scaling.offset !== null && scaling.scale !== null ? { offset: scaling.offset, scale: scaling.scale } : scaling.mode === "standardize" ? "standardize" : "none",
     };
-    if (o.activation !== undefined) memberOptions.activation = oneOf(COMPONENT, "activation", o.activation, ACTIVATIONS);
-    if (o.ridge !== undefined) memberOptions.ridge = numberInRange(COMPONENT, "ridge", o.ridge, { min: 1e-15, max: 1e15 });
-    if (o.forgetting !== undefined) memberOptions.forgetting = numberInRange(COMPONENT, "forgetting", o.forgetting, { min: 0, max: 1, minExclusive: true });
-    if (o.traceBound !== undefined) memberOptions.traceBound = positiveNumber(COMPONENT, "traceBound", o.traceBound);
-    if (o.dtype !== undefined) memberOptions.dtype = oneOf(COMPONENT, "dtype", o.dtype, DTYPES);
-    if (!((memberOptions.traceBound ?? this.#L / (memberOptions.ridge ?? 0.01)) < Infinity)) {
-      throw new OptionError(COMPONENT, "ridge", o.ridge, "a number > 0 large enough that hidden/ridge is finite");
-    }
+    // validated once, by the model's own option check; only given options are kept, so defaults stay the model's
+    learningOptions(COMPONENT, o, this.#L);
+    if (o.activation !== undefined) memberOptions.activation = o.activation;
+    if (o.ridge !== undefined) memberOptions.ridge = o.ridge;
+    if (o.forgetting !== undefined) memberOptions.forgetting = o.forgetting;
+    if (o.traceBound !== undefined) memberOptions.traceBound = o.traceBound;
+    if (o.dtype !== undefined) memberOptions.dtype = o.dtype;
     this.#memberOptions = memberOptions;
   }
 
@@ -396,11 +393,11 @@ export class AutoencoderPool {
     const spawnLoss = s.numberOrNull("spawnLoss");
     const spawnPatience = s.integer("spawnPatience", 1, MAX_SPAWN_PATIENCE);
     const seed = s.string("seed");
-    const activation = s.oneOf("activation", ["sigmoid", "tanh", "identity"] as const);
+    const activation = s.oneOf("activation", ACTIVATIONS);
     const ridge = s.number("ridge");
     const forgetting = s.number("forgetting");
     const traceBound = s.numberOrNull("traceBound");
-    const dtype = s.oneOf("dtype", ["float64", "float32"] as const);
+    const dtype = s.oneOf("dtype", DTYPES);
     const scaling = s.oneOf("scaling", ["none", "standardize", "given"] as const);
     let scalingOption: ScalingOption = scaling === "given" ? "none" : scaling;
     if (scaling === "given") {

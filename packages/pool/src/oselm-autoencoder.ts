@@ -68,6 +68,31 @@ export interface OselmAutoencoderOptions {
   nonFinite?: NonFinitePolicy;
 }
 
+/** The learning options of a model with every default filled in. */
+export interface LearningOptions {
+  activation: Activation;
+  ridge: number;
+  forgetting: number;
+  traceBound: number;
+  dtype: Dtype;
+}
+
+/**
+ * Validates activation, ridge, forgetting, traceBound and dtype for a model of
+ * L hidden units and fills in their defaults: the one check that both
+ * {@link OselmAutoencoder} and the pool's member options go through.
+ */
+export function learningOptions(component: string, o: Partial<LearningOptions>, L: number): LearningOptions {
+  const activation = o.activation === undefined ? "sigmoid" : oneOf(component, "activation", o.activation, ACTIVATIONS);
+  // 1/δ is the prior P, so δ is kept where 1/δ is a normal float32 number
+  const ridge = o.ridge === undefined ? 0.01 : numberInRange(component, "ridge", o.ridge, { min: 1e-15, max: 1e15 });
+  const forgetting = o.forgetting === undefined ? 1 : numberInRange(component, "forgetting", o.forgetting, { min: 0, max: 1, minExclusive: true });
+  const traceBound = o.traceBound === undefined ? L / ridge : positiveNumber(component, "traceBound", o.traceBound);
+  if (!(traceBound < Infinity)) throw new OptionError(component, "traceBound", o.traceBound, "a finite number > 0 (hidden/ridge is too large)");
+  const dtype = o.dtype === undefined ? "float64" : oneOf(component, "dtype", o.dtype, DTYPES);
+  return { activation, ridge, forgetting, traceBound, dtype };
+}
+
 /** What {@link OselmAutoencoder.health} reports. */
 export interface AutoencoderHealth {
   /** Rows learnt (fit rows plus sequential updates). */
@@ -200,13 +225,12 @@ export class OselmAutoencoder {
       throw new OptionError(COMPONENT, "hidden", o.hidden, `at most ${Math.floor(MAX_SNAPSHOT_ELEMENTS / this.#n)} for ${this.#n} inputs (L·n ≤ ${MAX_SNAPSHOT_ELEMENTS})`);
     }
     this.#seed = String(seedOption(COMPONENT, "seed", o.seed));
-    this.#activation = o.activation === undefined ? "sigmoid" : oneOf(COMPONENT, "activation", o.activation, ACTIVATIONS);
-    // 1/δ is the prior P, so δ is kept where 1/δ is a normal float32 number
-    this.#ridge = o.ridge === undefined ? 0.01 : numberInRange(COMPONENT, "ridge", o.ridge, { min: 1e-15, max: 1e15 });
-    this.#forgetting = o.forgetting === undefined ? 1 : numberInRange(COMPONENT, "forgetting", o.forgetting, { min: 0, max: 1, minExclusive: true });
-    this.#traceBound = o.traceBound === undefined ? this.#L / this.#ridge : positiveNumber(COMPONENT, "traceBound", o.traceBound);
-    if (!(this.#traceBound < Infinity)) throw new OptionError(COMPONENT, "traceBound", o.traceBound, "a finite number > 0 (L/ridge is too large)");
-    this.#dtype = o.dtype === undefined ? "float64" : oneOf(COMPONENT, "dtype", o.dtype, DTYPES);
+    const learning = learningOptions(COMPONENT, o, this.#L);
+    this.#activation = learning.activation;
+    this.#ridge = learning.ridge;
+    this.#forgetting = learning.forgetting;
+    this.#traceBound = learning.traceBound;
+    this.#dtype = learning.dtype;
     this.#limits = LIMITS[this.#dtype];
     this.#nonFinite = nonFiniteOption(COMPONENT, o.nonFinite);
     this.#scaling = scalingOption(COMPONENT, o.scaling, this.#n);
