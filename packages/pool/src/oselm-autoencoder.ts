@@ -41,7 +41,7 @@ export const CHECK_INTERVAL = 256;
 /** Consecutive refused updates after which the next refused one re-anchors P. */
 export const REANCHOR_AFTER = 8;
 /** Why P was last re-anchored. */
-const RESETS = ["not-positive-definite", "persistent-refusals"] as const;
+const RESETS = ["not-positive-definite", "lost-resolution", "persistent-refusals"] as const;
 type Reset = (typeof RESETS)[number];
 
 /** Options of {@link OselmAutoencoder}. */
@@ -767,12 +767,15 @@ export class OselmAutoencoder {
    * The Sherman–Morrison step with its recovery, re-anchoring: P ← I/δₐ with β
    * kept (covariance resetting; Goodwin & Sin, Adaptive Filtering Prediction
    * and Control, 1984 — from memory). It happens when P has lost positive
-   * definiteness (hᵀPh ≤ 0 for h ≠ 0, or a failed Cholesky check), with δₐ = δ,
-   * and when this update would be refused after {@link REANCHOR_AFTER} refused
+   * definiteness (hᵀPh ≤ 0 for h ≠ 0, or a failed Cholesky check), with δₐ = δ;
+   * when the gain is unsafe but P's confidence along h, spread evenly
+   * (δₐ = max(δ, ‖h‖²/hᵀPh)), would take the row safely (P has gathered more
+   * information in some directions than the dtype resolves next to the
+   * others); and when this update would be refused after {@link REANCHOR_AFTER} refused
    * ones in a row (a lasting change of scale), with δₐ = max(δ, ‖h‖²) so that
    * the prior weighs no more than one row of the new size. The update is then
-   * tried once more on the re-anchored P; after a lasting run that is refused
-   * again, P is put back. Any other refusal keeps the state as it was.
+   * tried once more on the re-anchored P; if that is refused too, P is put
+   * back (unless it was not positive definite). Any other refusal keeps the state as it was.
    */
   #update(): void {
     let refusal = this.#step();
@@ -781,20 +784,30 @@ export class OselmAutoencoder {
       return;
     }
     const broken = refusal === "hPh-not-positive";
+    // an unsafe gain from a row that P's current confidence along h would take safely: P has lost resolution elsewhere
+    const unresolved = refusal === "gain-unsafe" && this.#ws.c > 0 && Number.isFinite(this.#ws.hh / this.#ws.c);
     const lasting = !broken && refusal !== "hidden-layer-zero" && this.#refusalRun + 1 >= REANCHOR_AFTER;
-    if (broken || lasting) {
-      const kept = lasting ? this.#p.slice() : null;
-      this.#reanchor(broken ? this.#ridge : Math.max(this.#ridge, this.#ws.hh), broken ? "not-positive-definite" : "persistent-refusals");
+    const attempts: [number, Reset][] = [];
+    if (broken) attempts.push([this.#ridge, "not-positive-definite"]);
+    if (unresolved) attempts.push([Math.max(this.#ridge, this.#ws.hh / this.#ws.c), "lost-resolution"]);
+    if (lasting) attempts.push([Math.max(this.#ridge, this.#ws.hh), "persistent-refusals"]);
+    const kept = broken ? null : this.#p.slice();
+    const before = { lastReset: this.#lastReset, sinceCheck: this.#sinceCheck, positiveDefinite: this.#positiveDefinite };
+    for (const [ridge, why] of attempts) {
+      this.#reanchor(ridge, why);
       refusal = this.#step();
       if (refusal === null) {
         this.#accepted(1, this.#ws.increment);
         return;
       }
-      if (kept !== null) {
-        this.#p.set(kept);
-        this.#resets--;
-      }
+      this.#resets--;
     }
+    if (kept !== null && attempts.length > 0) {
+      this.#p.set(kept);
+      this.#lastReset = before.lastReset;
+      this.#sinceCheck = before.sinceCheck;
+      this.#positiveDefinite = before.positiveDefinite;
+    } else if (broken) this.#resets++; // P stays re-anchored: it was not positive definite
     this.#refuseOn(refusal);
   }
 

@@ -23,8 +23,9 @@ export class UpdateWorkspace {
   readonly k: Float64Array;
   /** The forgetting factor actually applied by the last update. */
   appliedForgetting = 1;
-  /** ‖h‖² of the last prepared update. */
+  /** ‖h‖² and hᵀPh of the last prepared update. */
   hh = 0;
+  c = 0;
   /** max_i |k_i| · max_j |e_j| of the last prepared update: the most any entry of β moves. */
   increment = 0;
   constructor(hidden: number) {
@@ -118,6 +119,7 @@ function prepareGain(
     if (d > maxDiagonal) maxDiagonal = d;
   }
   ws.hh = hh;
+  ws.c = c;
   if (hh === 0) return "hidden-layer-zero";
   if (!(hh < Infinity && c < Infinity)) return "gain-not-finite";
   if (!(c > 0)) return "hPh-not-positive";
