@@ -1,11 +1,27 @@
 import { it } from "vitest";
 import { Matrix } from "ml-matrix";
 import { RandomSource } from "@leeway/core";
-import { AutoencoderPool, OselmAutoencoder, type Dtype } from "@leeway/pool";
-import { BenchReport, consume, nsPerOp, sumBaselineNs } from "./harness.js";
+import { AutoencoderPool, OselmAutoencoder, type AutoencoderPoolOptions, type Dtype } from "@leeway/pool";
+import { BenchReport, consume } from "./harness.js";
+import { interleave, ratio, show, spread, type Run, type Timing } from "./pool-timing.js";
+
+// Pool speed, 256-32-256, in one run: every kernel is timed in rounds that
+// alternate with its baselines, by process CPU time and by wall time, and each
+// ratio is taken per round and shown as min / median / max over the rounds.
+// Baselines:
+// - dot4: a dot product of two Float64Arrays of L·n elements with four
+//   accumulators (the machine's scalar multiply-add rate in this runtime);
+//   a kernel's "× dot4" is its time over dot4's time for the same number of
+//   multiply-adds (1 = as fast as the tight loop, 2 = half its rate).
+// - ml-matrix: the same algorithm written plainly with ml-matrix operations
+//   (β kept as it is and multiplied from the left by hᵀ, no transpose per
+//   call, the sigmoid in a plain loop).
+// Run: npm run bench -- bench/pool.bench.ts; figures go to docs/pool.md.
 
 const n = 256;
 const L = 32;
+const ROUNDS = 7;
+const MIN_MS = 60;
 // multiply-adds per call, counted from the loops
 const SCORE_MA = 2 * L * n; // W·z and βᵀh
 const UPDATE_MA = L * n + L * L + (L * (L + 1)) / 2; // β += k eᵀ, u = P h, upper triangle of P
@@ -21,36 +37,52 @@ function rows(count: number, seed: number): Float64Array[] {
   });
 }
 
-function dot(a: Float64Array, b: Float64Array): number {
-  let s = 0;
-  for (let i = 0; i < a.length; i++) s += (a[i] as number) * (b[i] as number);
-  return s;
+/** Σ a_i b_i with four accumulators. */
+function dot4(a: Float64Array, b: Float64Array): number {
+  let s0 = 0;
+  let s1 = 0;
+  let s2 = 0;
+  let s3 = 0;
+  const m = a.length - (a.length % 4);
+  let i = 0;
+  for (; i < m; i += 4) {
+    s0 += (a[i] as number) * (b[i] as number);
+    s1 += (a[i + 1] as number) * (b[i + 1] as number);
+    s2 += (a[i + 2] as number) * (b[i + 2] as number);
+    s3 += (a[i + 3] as number) * (b[i + 3] as number);
+  }
+  for (; i < a.length; i++) s0 += (a[i] as number) * (b[i] as number);
+  return s0 + s1 + (s2 + s3);
 }
 
-/** The same OS-ELM autoencoder written with ml-matrix operations (the reference of ratio a). */
+/** The same OS-ELM autoencoder in plain ml-matrix operations. */
 class MatrixAutoencoder {
   readonly w: Matrix;
   readonly b: Matrix;
-  beta: Matrix;
-  p: Matrix;
+  readonly beta: Matrix;
+  readonly p: Matrix;
   constructor(model: OselmAutoencoder) {
     const { weights, biases } = model.hiddenLayer();
-    this.w = new Matrix(L, n);
-    for (let i = 0; i < L; i++) for (let j = 0; j < n; j++) this.w.set(i, j, weights[i * n + j] as number);
-    this.b = Matrix.columnVector(Array.from(biases));
     const beta = model.outputWeights();
     const p = model.inverseGram();
+    this.w = new Matrix(L, n);
     this.beta = new Matrix(L, n);
-    for (let i = 0; i < L; i++) for (let j = 0; j < n; j++) this.beta.set(i, j, beta[i * n + j] as number);
     this.p = new Matrix(L, L);
-    for (let i = 0; i < L; i++) for (let j = 0; j < L; j++) this.p.set(i, j, p[i * L + j] as number);
+    for (let i = 0; i < L; i++) {
+      for (let j = 0; j < n; j++) {
+        this.w.set(i, j, weights[i * n + j] as number);
+        this.beta.set(i, j, beta[i * n + j] as number);
+      }
+      for (let j = 0; j < L; j++) this.p.set(i, j, p[i * L + j] as number);
+    }
+    this.b = Matrix.columnVector(Array.from(biases));
   }
-  #forward(x: Float64Array): { z: Matrix; h: Matrix; e: Matrix } {
-    const z = Matrix.columnVector(Array.from(x));
-    const h = this.w.mmul(z).add(this.b);
-    h.apply((i, j) => h.set(i, j, 1 / (1 + Math.exp(-h.get(i, j)))));
-    const e = Matrix.sub(z, this.beta.transpose().mmul(h));
-    return { z, h, e };
+  #forward(x: Float64Array): { h: Matrix; e: Matrix } {
+    const z = Matrix.rowVector(Array.from(x));
+    const h = this.w.mmul(z.transpose()).add(this.b); // L × 1
+    for (let i = 0; i < L; i++) h.set(i, 0, 1 / (1 + Math.exp(-h.get(i, 0))));
+    const e = Matrix.sub(z, h.transpose().mmul(this.beta)); // 1 × n: z − hᵀβ
+    return { h, e };
   }
   score(x: Float64Array): number {
     const { e } = this.#forward(x);
@@ -61,106 +93,97 @@ class MatrixAutoencoder {
     const u = this.p.mmul(h);
     const c = h.transpose().mmul(u).get(0, 0);
     const k = Matrix.div(u, 1 + c);
-    this.beta.add(k.mmul(e.transpose()));
+    this.beta.add(k.mmul(e));
     this.p.sub(u.mmul(k.transpose()));
   }
 }
 
-function median(xs: number[]): number {
-  const sorted = xs.slice().sort((a, b) => a - b);
-  return sorted[Math.floor(sorted.length / 2)] as number;
+function fitted(dtype: Dtype, data: Float64Array[], seed = 4): OselmAutoencoder {
+  const model = new OselmAutoencoder({ inputs: n, hidden: L, seed, dtype });
+  model.fit(data.slice(0, 64));
+  return model;
 }
 
-/**
- * Times several runs in alternation, `rounds` times, so that a change of the
- * machine's load hits all of them alike. Returns the ns per operation of each
- * run in each round.
- */
-function interleaved(runs: (() => number)[], rounds = 9): number[][] {
-  const times = runs.map(() => [] as number[]);
-  for (let r = 0; r < rounds; r++) runs.forEach((run, i) => (times[i] as number[]).push(run()));
-  return times;
+function pool(data: Float64Array[], options: Partial<AutoencoderPoolOptions> = {}): AutoencoderPool {
+  const p = new AutoencoderPool({ inputs: n, hidden: L, maxMembers: 4, seed: 5, ...options });
+  for (let m = 0; m < 4; m++) p.addMember(rows(64, 10 + m));
+  void data;
+  return p;
 }
 
-/** Median over rounds of a[r] / b[r]. */
-function ratioOf(a: number[], b: number[]): number {
-  return median(a.map((x, r) => x / (b[r] as number)));
-}
-
-it("pool: OS-ELM autoencoder 256-32-256 and a pool of 4", () => {
+it("pool: OS-ELM autoencoder 256-32-256 and a pool of 4, against dot4 and ml-matrix", () => {
   const data = rows(4096, 1);
-  const baseline = sumBaselineNs(data[0] as Float64Array);
-  const report = new BenchReport("pool");
-  const quick = { minMs: 40, repeats: 3 };
-  // The machine's scalar multiply-add rate: a tight dot product of two Float64Arrays
-  // of L·n elements (the size of W and of β), timed in alternation with the kernels.
   const da = new RandomSource(2).fillUniform(new Float64Array(L * n));
   const db = new RandomSource(3).fillUniform(new Float64Array(L * n));
-  const dotRun = (): number => nsPerOp(() => consume(dot(da, db)), L * n, quick);
-
-  const fitted = (dtype: Dtype): OselmAutoencoder => {
-    const model = new OselmAutoencoder({ inputs: n, hidden: L, seed: 4, dtype });
-    model.fit(data.slice(0, 64));
-    return model;
-  };
   let t = 0;
-  const scoreRun = (model: OselmAutoencoder) => (): number =>
-    nsPerOp(() => {
+  const next = (): Float64Array => data[t++ & 4095] as Float64Array;
+  const scoreRun = (model: OselmAutoencoder): Run => ({
+    ops: 64,
+    run: () => {
       let s = 0;
-      for (let i = 0; i < 64; i++) s += model.score(data[t++ & 4095] as Float64Array);
+      for (let i = 0; i < 64; i++) s += model.score(next());
       consume(s);
-    }, 64, quick);
-  const learnRun = (model: OselmAutoencoder) => (): number =>
-    nsPerOp(() => {
+    },
+  });
+  const learnRun = (model: OselmAutoencoder): Run => ({
+    ops: 64,
+    run: () => {
       let s = 0;
-      for (let i = 0; i < 64; i++) s += model.learn(data[t++ & 4095] as Float64Array);
+      for (let i = 0; i < 64; i++) s += model.learn(next());
       consume(s);
-    }, 64, quick);
-  const model64 = fitted("float64");
-  const reference = new MatrixAutoencoder(fitted("float64"));
-  let r = 0;
-  const refScoreRun = (): number => nsPerOp(() => { let s = 0; for (let i = 0; i < 8; i++) s += reference.score(data[r++ & 4095] as Float64Array); consume(s); }, 8, quick);
-  const refLearnRun = (): number => nsPerOp(() => { for (let i = 0; i < 8; i++) reference.learn(data[r++ & 4095] as Float64Array); consume(reference.p.get(0, 0)); }, 8, quick);
-  const pool = new AutoencoderPool({ inputs: n, hidden: L, maxMembers: 4, seed: 5 });
-  for (let m = 0; m < 4; m++) pool.addMember(rows(64, 10 + m));
-  let q = 0;
-  // pool of 4 members: score all, train the nearest (learnScored reuses the nearest's forward pass)
-  const poolRun = (): number => nsPerOp(() => { for (let i = 0; i < 64; i++) consume(pool.learn(data[q++ & 4095] as Float64Array).loss); }, 64, quick);
-
-  const [dotNs, scoreNs, learnNs, refScoreNs, refLearnNs, poolNs] = interleaved([dotRun, scoreRun(model64), learnRun(model64), refScoreRun, refLearnRun, poolRun]) as [number[], number[], number[], number[], number[], number[]];
-  // (b): achieved multiply-adds per ns over the dot product's, per round
-  // also the ratio of the fastest rounds, the closest this shared machine gets to an idle one
-  const rate = (ma: number, ns: number[], dots = dotNs): string => {
-    const achieved = median(ns.map((x) => ma / x));
-    const fastest = Math.min(...dots) / (Math.min(...ns) / ma);
-    return `${achieved.toFixed(3)} multiply-adds/ns = ${ratioOf(dots, ns.map((x) => x / ma)).toFixed(2)} × the dot-product rate (fastest rounds: ${fastest.toFixed(2)} ×)`;
-  };
-  report.add("dot product of two Float64Arrays (per multiply-add)", median(dotNs), baseline, `${(1 / median(dotNs)).toFixed(3)} multiply-adds/ns (median of ${dotNs.length} rounds)`);
-  report.add("score 256-32-256 float64", median(scoreNs), baseline,
-    `${(1e9 / median(scoreNs)).toFixed(0)} samples/s; (a) ${ratioOf(refScoreNs, scoreNs).toFixed(1)}× faster than ml-matrix (fastest rounds: ${(Math.min(...refScoreNs) / Math.min(...scoreNs)).toFixed(1)}×); (b) ${rate(SCORE_MA, scoreNs)}`);
-  report.add("learn 256-32-256 float64", median(learnNs), baseline,
-    `${(1e9 / median(learnNs)).toFixed(0)} samples/s; (a) ${ratioOf(refLearnNs, learnNs).toFixed(1)}× faster than ml-matrix (fastest rounds: ${(Math.min(...refLearnNs) / Math.min(...learnNs)).toFixed(1)}×); (b) ${rate(LEARN_MA, learnNs)}`);
-  report.add("score, same algorithm in ml-matrix operations", median(refScoreNs), baseline, `${(1e9 / median(refScoreNs)).toFixed(0)} samples/s`);
-  report.add("learn, same algorithm in ml-matrix operations", median(refLearnNs), baseline, `${(1e9 / median(refLearnNs)).toFixed(0)} samples/s`);
-  report.add("pool of 4: score all + learn nearest", median(poolNs), baseline, `${(1e9 / median(poolNs)).toFixed(0)} samples/s; (b) ${rate(4 * SCORE_MA + UPDATE_MA, poolNs)}`);
-
-  // learnChunk per sample for k = 1, 4, 16, 64, against learn in the same rounds
-  const chunkRuns = [1, 4, 16, 64].map((k) => {
-    const model = fitted("float64");
-    const chunks = Array.from({ length: 64 }, (_, c) => data.slice((c * k) % 4032, ((c * k) % 4032) + k));
+    },
+  });
+  const chunkRun = (model: OselmAutoencoder, k: number): Run => {
+    const chunks = Array.from({ length: 64 }, (_, c) => data.slice((c * k) % (4096 - k), ((c * k) % (4096 - k)) + k));
     let c = 0;
-    return (): number => nsPerOp(() => { model.learnChunk(chunks[c++ & 63] as Float64Array[]); consume(model.count); }, k, quick);
+    return { ops: k, run: () => consume(model.learnChunk(chunks[c++ & 63] as Float64Array[])) };
+  };
+  const reference = new MatrixAutoencoder(fitted("float64", data));
+  const poolRun = (p: AutoencoderPool): Run => ({
+    ops: 64,
+    run: () => {
+      let s = 0;
+      for (let i = 0; i < 64; i++) s += p.learn(next()).loss;
+      consume(s);
+    },
   });
-  const chunkTimes = interleaved([learnRun(fitted("float64")), ...chunkRuns], 5);
-  [1, 4, 16, 64].forEach((k, i) => {
-    const ns = chunkTimes[i + 1] as number[];
-    report.add(`learnChunk k=${k}, per sample`, median(ns), baseline, `${(1e9 / median(ns)).toFixed(0)} samples/s; ${ratioOf(ns, chunkTimes[0] as number[]).toFixed(2)}× the cost of one learn`);
-  });
+  const runs: Record<string, Run> = {
+    dot4: { ops: L * n, run: () => consume(dot4(da, db)) },
+    score64: scoreRun(fitted("float64", data)),
+    learn64: learnRun(fitted("float64", data)),
+    score32: scoreRun(fitted("float32", data)),
+    learn32: learnRun(fitted("float32", data)),
+    matrixScore: { ops: 8, run: () => { let s = 0; for (let i = 0; i < 8; i++) s += reference.score(next()); consume(s); } },
+    matrixLearn: { ops: 8, run: () => { for (let i = 0; i < 8; i++) reference.learn(next()); consume(reference.p.get(0, 0)); } },
+    pool4: poolRun(pool(data)),
+    pool4shared: poolRun(pool(data, { sharedHiddenLayer: true })),
+  };
+  for (const k of [1, 4, 8, 16, 64]) runs[`chunk${k}`] = chunkRun(fitted("float64", data), k);
+  const times = interleave(runs, ROUNDS, MIN_MS);
+  const T = (name: string): Timing[] => times[name] as Timing[];
 
-  // float32 state last: from here on the shared loops also see Float32Array
-  const model32 = fitted("float32");
-  const [dot32, score32, learn32] = interleaved([dotRun, scoreRun(model32), learnRun(model32)], 5) as [number[], number[], number[]];
-  report.add("score 256-32-256 float32", median(score32), baseline, `${(1e9 / median(score32)).toFixed(0)} samples/s; (b) ${rate(SCORE_MA, score32, dot32)}`);
-  report.add("learn 256-32-256 float32", median(learn32), baseline, `${(1e9 / median(learn32)).toFixed(0)} samples/s; (b) ${rate(LEARN_MA, learn32, dot32)}`);
+  const report = new BenchReport("pool");
+  const dotMedian = spread(T("dot4").map((x) => x.cpu)).median;
+  const line = (name: string, key: string, ma: number, extra: string): void => {
+    const cpu = spread(T(key).map((x) => x.cpu));
+    const wall = spread(T(key).map((x) => x.wall));
+    const rate = spread(T(key).map((x) => 1e9 / x.cpu));
+    report.add(name, cpu.median, dotMedian * ma,
+      `× dot4 (CPU) ${show(ratio(T(key), T("dot4"), "cpu", 1, ma))}, (wall) ${show(ratio(T(key), T("dot4"), "wall", 1, ma))}; ` +
+      `samples per CPU s ${show(rate, 0)}; ns CPU ${show(cpu, 0)}, wall ${show(wall, 0)}${extra}`);
+  };
+  report.add("dot4, per multiply-add", dotMedian, dotMedian,
+    `CPU ns ${show(spread(T("dot4").map((x) => x.cpu)), 3)}, wall ns ${show(spread(T("dot4").map((x) => x.wall)), 3)}`);
+  line("score 256-32-256 float64", "score64", SCORE_MA, `; ml-matrix/this (CPU) ${show(ratio(T("matrixScore"), T("score64"), "cpu"), 1)}`);
+  line("learn 256-32-256 float64", "learn64", LEARN_MA, `; ml-matrix/this (CPU) ${show(ratio(T("matrixLearn"), T("learn64"), "cpu"), 1)}`);
+  line("score, ml-matrix formulation", "matrixScore", SCORE_MA, "");
+  line("learn, ml-matrix formulation", "matrixLearn", LEARN_MA, "");
+  line("score 256-32-256 float32", "score32", SCORE_MA, `; float32/float64 (CPU) ${show(ratio(T("score32"), T("score64"), "cpu"))}`);
+  line("learn 256-32-256 float32", "learn32", LEARN_MA, `; float32/float64 (CPU) ${show(ratio(T("learn32"), T("learn64"), "cpu"))}`);
+  for (const k of [1, 4, 8, 16, 64]) {
+    line(`learnChunk k=${k}, per sample`, `chunk${k}`, LEARN_MA, `; per sample / learn (CPU) ${show(ratio(T(`chunk${k}`), T("learn64"), "cpu"))}`);
+  }
+  line("pool of 4: score all + learn nearest", "pool4", 4 * SCORE_MA + UPDATE_MA, "");
+  line("pool of 4, sharedHiddenLayer", "pool4shared", 5 * L * n + UPDATE_MA, `; shared/own (CPU) ${show(ratio(T("pool4shared"), T("pool4"), "cpu"))}`);
   report.write();
 });

@@ -36,6 +36,8 @@ export const MAX_INPUTS = 2 ** 20;
 /** Largest accepted number of hidden units L (L² must fit a snapshot array). */
 export const MAX_HIDDEN = 4096;
 const LAYER = Symbol("hidden layer");
+/** Internal: scores the input another model with the same hidden layer and scaling has just scored (see AutoencoderPool's sharedHiddenLayer). */
+export const SCORE_SHARED = Symbol("score from a shared hidden layer");
 /** Accepted updates between two Cholesky checks that P is still positive definite. */
 export const CHECK_INTERVAL = 256;
 /** Consecutive refused updates after which the next refused one re-anchors P. */
@@ -362,6 +364,19 @@ export class OselmAutoencoder {
     this.#requireReady("score");
     scaleInto(COMPONENT, "x", x, this.#z, this.#scaling, true);
     hiddenForward(this.#layer, this.#activation, this.#z, this.#h);
+    const loss = outputResidual(this.#beta, this.#h, this.#z, this.#L, this.#n, this.#e);
+    this.#scored = true;
+    return loss;
+  }
+
+  /**
+   * Internal (AutoencoderPool with sharedHiddenLayer): the score of the input
+   * that `source` — a model with the same hidden layer and scaling — has just
+   * scored, reusing its scaled input and hidden activations. Equal to `score(x)` bit for bit.
+   */
+  [SCORE_SHARED](source: OselmAutoencoder): number {
+    this.#z.set(source.#z);
+    this.#h.set(source.#h);
     const loss = outputResidual(this.#beta, this.#h, this.#z, this.#L, this.#n, this.#e);
     this.#scored = true;
     return loss;
