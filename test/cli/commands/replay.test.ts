@@ -135,7 +135,7 @@ describe("leeway replay", () => {
     const html = readFileSync(join(dir, "run", "report.html"), "utf8");
     expect(html).toContain("PS-2 replay");
     expect(html).toContain('id="plot-events"');
-    expect(html).toContain("<caption>confusion</caption>");
+    expect(html).toContain("<caption>What the answers claimed (columns) against what happened (rows)</caption>");
   });
 
   it("a config with an unknown key or a refused value is an input error at its place", async () => {

@@ -17,16 +17,16 @@ describe("leeway report", () => {
     expect(r.stdout).toContain("3000 decisions");
     const html = readFileSync(join(dir, "report.html"), "utf8");
     expect(html).toContain("PS-2 week 9");
-    expect(html).toContain("compressor (concept-drift)");
-    expect(html).toContain("<caption>confusion</caption>");
-    expect(html).toContain("<caption>per event</caption>");
+    expect(html).toContain("compressor (concept drift)");
+    expect(html).toContain("<caption>What the answers claimed (columns) against what happened (rows)</caption>");
+    expect(html).toContain("<caption>Each labelled event</caption>");
   });
 
   it("reads the log from stdin and writes where --out says", async () => {
     const dir = scratchDir("report-stdin");
     const r = await runCli(["report", "-", "--out", join(dir, "x.html")], { stdin: log });
     expect(r.code, r.stderr).toBe(0);
-    expect(readFileSync(join(dir, "x.html"), "utf8")).toContain('id="plot-scores"');
+    expect(readFileSync(join(dir, "x.html"), "utf8")).toContain('id="lane-1-scores"');
   });
 
   it("a malformed log line is an input error naming it, and no report is written", async () => {

@@ -11,10 +11,12 @@ import { logFormat, type LogForm } from "../log/compact-log.js";
 import { ModeRouter } from "../mode-router.js";
 import { ProgressBar } from "../progress.js";
 import { renderReport } from "../report/html.js";
-import { TimelineCollector } from "../report/timeline.js";
+import { ReportCollector } from "../report/lanes.js";
 import { countsText, metricsText, timelineText } from "../summary.js";
 import { leewayVersion } from "../version.js";
-import { reportMetrics } from "./report.js";
+
+/** The demo's operating modes (the simulator's names) as the report names them. */
+const SPEED_WORDS: Readonly<Record<string, string>> = { low: "990 rpm", mid: "1485 rpm", high: "2970 rpm" };
 
 /** Samples per simulated hour the demo runs at by default (one frame every ten seconds). */
 export const DEMO_SCALE = 360;
@@ -98,7 +100,7 @@ export async function runDemo(parsed: ParsedArguments, io: CliStreams): Promise<
   const fd = openSync(`${decisionsPath}.partial`, "w");
   const header = format.header();
   if (header !== null) writeSync(fd, header + "\n");
-  const collector = new TimelineCollector();
+  const collector = new ReportCollector();
   const progress = new ProgressBar(io.stderr, io.stderrIsTTY, length, "demo");
   let pending: string[] = [];
 
@@ -141,17 +143,21 @@ export async function runDemo(parsed: ParsedArguments, io: CliStreams): Promise<
   renameSync(`${decisionsPath}.partial`, decisionsPath);
   progress.done();
 
-  const drawn = collector.result();
+  const data = collector.result();
+  const drawn = data.all;
   const reportEvents = events.map((e) => ({ cause: e.cause, start: e.start, end: e.end, id: e.id, type: e.type, label: e.label }));
   const labelsPath = resolve(outDir, "labels.json");
   await writeWholeFile(labelsPath, `{"events": ${JSON.stringify(reportEvents, null, 1)},\n"anomaly": [${anomaly.map((a) => (a ? 1 : 0)).join(",")}]}\n`);
   const reportPath = resolve(outDir, "report.html");
   const html = renderReport({
     title: "Harbour Lane pump station, skid PS-2",
-    subtitle: `Demo: seven simulated days at ${scale} samples per hour — compressor installed on day 2 (concept drift), outer-race bearing defect from day 4 (degradation), impeller clog on day 6 (anomaly). One engine per speed setting (990, 1485, 2970 rpm); the plots show all three in stream order.`,
+    subtitle: `Demo: seven simulated days at ${scale} samples per hour — a standby compressor installed on day 2 (changed conditions), an outer-race bearing defect growing from day 4 (slow degradation), a rag clogging the impeller on day 6 (anomaly). One engine per speed setting, each in a lane of its own.`,
     timeline: drawn,
+    lanes: data.lanes,
+    laneTitle: (mode) => `Engine at ${SPEED_WORDS[mode] ?? mode}`,
+    samplePeriod: 3600 / scale,
     events: reportEvents,
-    metrics: reportMetrics(metrics),
+    metrics,
     facts: [["scenario", "harbourLane (invented)"], ["engines", `one per speed (${router.modes.join(", ")})`], ["operator", `scripted, ${router.operatorActions().length} actions`], ["scale", `${scale} samples per simulated hour`], ["seed", seed], ["features", `${s.bins}-band log spectrum`]],
     version: leewayVersion(),
   });

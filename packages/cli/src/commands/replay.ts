@@ -2,7 +2,7 @@ import { resolve } from "node:path";
 import { LeewayError } from "@leeway/core";
 import { Timeline } from "@leeway/eval";
 import type { Decision, DecisionEngine } from "@leeway/policy";
-import { stringFlag, type CommandSpec, type ParsedArguments } from "../args.js";
+import { numberFlag, stringFlag, type CommandSpec, type ParsedArguments } from "../args.js";
 import { buildEngine, defaultConfig, parseConfig, type PipelineConfig } from "../config.js";
 import { CliError, InputError, InterruptedError } from "../exit-codes.js";
 import { openInput, PartialFile, prepareOutputFolder, readTextFile, TextSink, writeWholeFile, type CliStreams } from "../io.js";
@@ -13,10 +13,10 @@ import { ModeRouter } from "../mode-router.js";
 import { ScriptedOperator } from "../operator.js";
 import { ProgressBar } from "../progress.js";
 import { renderReport } from "../report/html.js";
-import { TimelineCollector } from "../report/timeline.js";
+import { ReportCollector } from "../report/lanes.js";
 import { countsText, metricsText, timelineText } from "../summary.js";
 import { leewayVersion } from "../version.js";
-import { labelsFromFlag, metricsOf, reportMetrics } from "./report.js";
+import { labelsFromFlag, metricsOf } from "./report.js";
 
 /** Arguments, flags and help of `leeway replay`. */
 export const replaySpec: CommandSpec = {
@@ -28,6 +28,7 @@ export const replaySpec: CommandSpec = {
     { name: "labels", kind: "string", value: "FILE", description: "labelled events (JSON) to measure the decisions against" },
     { name: "out", kind: "string", value: "DIR", description: "write the decision log and report.html into DIR instead of the decisions to stdout" },
     { name: "log", kind: "string", value: "FORM", description: "compact: one short row per sample, full decisions where the action, cause or phase changes (decisions.log); full: every decision with its whole evidence as NDJSON (decisions.ndjson)", defaultText: "compact", choices: ["compact", "full"] },
+    { name: "sample-period", kind: "number", value: "SECONDS", description: "seconds between samples, for the report's time axis when the input has no time column" },
     { name: "force", kind: "boolean", description: "replace the output of an earlier run in the --out folder" },
   ],
   details: [
@@ -95,7 +96,7 @@ export async function runReplay(parsed: ParsedArguments, io: CliStreams): Promis
   if (outDir !== undefined) await prepareOutputFolder(resolve(io.cwd, outDir), ["decisions.log", "decisions.ndjson", "report.html"], parsed.flags.get("force") === true, "--force");
   const file = outDir === undefined ? null : await PartialFile.create(resolve(io.cwd, outDir, format.fileName));
   const sink = file === null ? new TextSink(io.stdout) : file.sink;
-  const collector = outDir === undefined ? null : new TimelineCollector({ columns: config.report.columns });
+  const collector = outDir === undefined ? null : new ReportCollector({ columns: config.report.columns });
   const timeline = labels === null ? null : new Timeline();
   const progress = new ProgressBar(io.stderr, io.stderrIsTTY, input.size, "replay");
   let decider: ((row: SampleRow) => Decision) | null = null;
@@ -159,7 +160,8 @@ export async function runReplay(parsed: ParsedArguments, io: CliStreams): Promis
   progress.done();
   const metrics = timeline !== null && labels !== null ? metricsOf(timeline, labels, stringFlag(parsed, "labels") as string) : null;
   if (file !== null && collector !== null) {
-    const drawn = collector.result();
+    const data = collector.result();
+    const drawn = data.all;
     const reportPath = resolve(io.cwd, outDir as string, "report.html");
     await writeWholeFile(
       reportPath,
@@ -167,8 +169,10 @@ export async function runReplay(parsed: ParsedArguments, io: CliStreams): Promis
         title: config.report.title,
         subtitle: `Replay of ${input.name} (${describeLayout(layout as StreamLayout)}).`,
         timeline: drawn,
+        lanes: data.lanes,
+        samplePeriod: numberFlag(parsed, "sample-period") ?? null,
         ...(labels === null ? {} : { events: labels.events }),
-        ...(metrics === null ? {} : { metrics: reportMetrics(metrics) }),
+        ...(metrics === null ? {} : { metrics }),
         facts: [["input", input.name], ["config", configPath ?? "defaults"], ["labels", stringFlag(parsed, "labels") ?? "none"]],
         version: leewayVersion(),
       }),

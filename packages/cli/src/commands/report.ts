@@ -1,6 +1,6 @@
 import { dirname, resolve } from "node:path";
 import { evaluate, Timeline } from "@leeway/eval";
-import { stringFlag, type CommandSpec, type ParsedArguments } from "../args.js";
+import { numberFlag, stringFlag, type CommandSpec, type ParsedArguments } from "../args.js";
 import { readDecisionLog, type DecisionLogInfo } from "../decision-log.js";
 import { InputError, InterruptedError } from "../exit-codes.js";
 import { openInput, readTextFile, writeWholeFile, type CliStreams } from "../io.js";
@@ -8,7 +8,7 @@ import { readLines } from "../input/lines.js";
 import { parseLabels, type LabelsFile } from "../labels-file.js";
 import { ProgressBar } from "../progress.js";
 import { renderReport } from "../report/html.js";
-import { TimelineCollector } from "../report/timeline.js";
+import { ReportCollector } from "../report/lanes.js";
 import { leewayVersion } from "../version.js";
 
 /** Arguments, flags and help of `leeway report`. */
@@ -19,10 +19,11 @@ export const reportSpec: CommandSpec = {
   flags: [
     { name: "labels", kind: "string", value: "FILE", description: "labelled events (JSON) to draw and to measure the decisions against" },
     { name: "out", kind: "string", value: "FILE", description: "where to write the report", defaultText: "report.html beside the decision log" },
+    { name: "sample-period", kind: "number", value: "SECONDS", description: "seconds between samples, for the time axis when the log has no times" },
     { name: "title", kind: "string", value: "TEXT", description: "heading of the report", defaultText: '"leeway report"' },
   ],
   details: [
-    "The report is one self-contained HTML file (inline SVG, no script, nothing fetched): scores, change-test statistics, trend evidence, decisions by cause, phases as bands, labelled events and the metrics. With --labels the metrics include detection delays, the confusion of causes and false alarms; the decisions are then also kept in memory, 19 bytes each, for the metrics.",
+    "The report is one self-contained HTML file (inline SVG, no script, nothing fetched; it prints to A4): what needs attention at the end of the record, one lane per engine (scores and thresholds, change test, trend evidence) on a wall-clock time axis, decisions by cause, labelled events, a table of events and, with --labels, the metrics (detection delays, what the answers claimed against what happened, false alarms); the decisions are then also kept in memory, 19 bytes each, for the metrics. A .partial log, or a compact log without its closing line, gives a report marked incomplete.",
   ],
   examples: ["leeway report out/decisions.log --labels out/labels.json", "leeway replay scores.csv | leeway report - --out ps2.html"],
 };
@@ -49,7 +50,7 @@ export async function runReport(parsed: ParsedArguments, io: CliStreams): Promis
   const path = parsed.positionals[0] as string;
   const labels = await labelsFromFlag(parsed, io);
   const input = await openInput(path, io);
-  const collector = new TimelineCollector();
+  const collector = new ReportCollector();
   const timeline = labels === null ? null : new Timeline();
   const progress = new ProgressBar(io.stderr, io.stderrIsTTY, input.size, "report");
   let bytes = 0;
@@ -73,15 +74,18 @@ export async function runReport(parsed: ParsedArguments, io: CliStreams): Promis
   }
   progress.done();
   const incomplete = incompleteNote(path, info);
+  const data = collector.result();
   if (incomplete !== null) io.stderr.write(`report: ${incomplete}\n`);
   const metrics = timeline !== null && labels !== null ? metricsOf(timeline, labels, stringFlag(parsed, "labels") as string) : undefined;
   const out = resolve(io.cwd, stringFlag(parsed, "out") ?? (path === "-" ? "report.html" : `${dirname(path)}/report.html`));
   const html = renderReport({
     title: stringFlag(parsed, "title") ?? "leeway report",
     subtitle: `Rebuilt from the decision log ${input.name}${labels === null ? "" : ` with the labels of ${stringFlag(parsed, "labels") as string}`}.`,
-    timeline: collector.result(),
+    timeline: data.all,
+    lanes: data.lanes,
+    samplePeriod: numberFlag(parsed, "sample-period") ?? null,
     ...(labels === null ? {} : { events: labels.events }),
-    ...(metrics === undefined ? {} : { metrics: reportMetrics(metrics) }),
+    ...(metrics === undefined ? {} : { metrics }),
     ...(incomplete === null ? {} : { incomplete }),
     version: leewayVersion(),
   });
@@ -95,10 +99,4 @@ export function incompleteNote(path: string, info: DecisionLogInfo): string | nu
   if (path.endsWith(".partial")) return `${path} is the partial log of a run that did not finish; the report covers only the decisions written before it stopped`;
   if (info.complete === false) return `${path} ends without its closing line: the run that wrote it did not finish, and the report covers only the decisions written before it stopped`;
   return null;
-}
-
-/** The parts of the evaluator's metrics a report prints (the long per-response list is left out). */
-export function reportMetrics(m: ReturnType<typeof evaluate>): Record<string, unknown> {
-  const { responses: _responses, runLengths, ...rest } = m;
-  return { ...rest, runLengths: { exposure: runLengths.exposure, falseAlarms: runLengths.falseAlarms, arl: runLengths.arl, arlLower: runLengths.interval.lower, arlUpper: runLengths.interval.upper, level: runLengths.interval.level } };
 }

@@ -1,8 +1,16 @@
-import { CAUSE_COLOURS, INK, MUTED, PAPER, GRID } from "./palette.js";
-import { causeStrip, eventStrip, groupSeries, linePlot, type ReportEvent } from "./plots.js";
+import type { ReplayMetrics } from "@leeway/eval";
+import { eventTable } from "./event-table.js";
+import { ACTION_WORDS, CAUSE_WORDS } from "./glossary.js";
+import { headline } from "./headline.js";
+import type { Lane } from "./lanes.js";
+import { lanePlots } from "./lane-plots.js";
+import { metricTables } from "./metric-tables.js";
+import { INK, MUTED, PAPER, GRID } from "./palette.js";
+import { axisOf, causeStrip, eventStrip, type ReportEvent } from "./plots.js";
 import { SAFETY_CAUTION } from "./safety.js";
 import { escapeXml, formatNumber } from "./scale.js";
-import { metricsTables, tableHtml, type Table } from "./tables.js";
+import { tableHtml, type Table } from "./tables.js";
+import { formatTime } from "./time-axis.js";
 import type { ReportTimeline } from "./timeline.js";
 
 /** Everything a report shows. */
@@ -11,13 +19,20 @@ export interface ReportContent {
   title: string;
   /** One line under the heading (what was replayed, how). */
   subtitle?: string;
+  /** The whole record (every decision in stream order). */
   timeline: ReportTimeline;
+  /** One lane per engine (see {@link ReportCollector}); default one lane of the whole record. */
+  lanes?: readonly Lane[];
+  /** A lane's heading from its name (the operating mode), e.g. "mid" → "1485 rpm"; default "Engine for mode …". */
+  laneTitle?: (name: string) => string;
   /** Labelled events (the truth), when labels were given. */
   events?: readonly ReportEvent[];
-  /** Metrics of the replay (any plain object; see {@link metricsTables}). */
-  metrics?: unknown;
+  /** Metrics of the replay against the labels (the evaluator's result). */
+  metrics?: ReplayMetrics;
   /** Facts about the run, printed as a small table (input, mode, samples, ...). */
   facts?: readonly [string, string][];
+  /** Seconds between samples, for the time axis when the record has no time column; null: unknown. */
+  samplePeriod?: number | null;
   /** The leeway version that wrote the report. */
   version: string;
   /** Set when the decisions are known to be incomplete: why (shown at the top of the page). */
@@ -51,56 +66,67 @@ caption{text-align:left;font-weight:600;padding:2px 0 4px}
 th,td{border-bottom:1px solid ${GRID};padding:3px 9px;text-align:left;vertical-align:top}
 thead th{border-bottom:2px solid ${INK};font-weight:600}
 td.num{text-align:right;font-variant-numeric:tabular-nums}
+td.when{white-space:nowrap}
+tr.truth td{background:#f4f6f8}
 td.cause span{display:inline-block;width:9px;height:9px;border-radius:2px;margin-right:5px;vertical-align:baseline}
 .incomplete{border:2px solid #b8322a;background:#fbeceb;padding:8px 12px;margin:0 0 14px}
 footer{max-width:1320px;margin:18px auto 0;padding:10px 24px 24px;border-top:3px solid ${INK};font-size:12.5px;color:${INK}}
 footer .caution{font-weight:600}
 footer .made{color:${MUTED}}
-@media print{@page{size:A4 landscape;margin:11mm}main{padding:0}footer{padding:8px 0 0}h2{break-after:avoid}body{font-size:11px}}
+.attention{border-left:6px solid #b8322a;background:#fdf3f2;padding:8px 14px;margin:0 0 10px}
+.attention.calm{border-left-color:#2f8f5b;background:#f1f8f3}
+.attention h3{margin:0 0 4px;font-size:15px}
+.attention ul{margin:4px 0 0;padding-left:18px}
+.figures{display:flex;flex-wrap:wrap;gap:8px 30px;margin:8px 0 0;padding:0;list-style:none}
+.figures li{min-width:180px}.figures .big{display:block;font-size:22px;font-weight:700;color:${INK}}
+.figures .bad{color:#b8322a}
+section.lane{margin-top:8px}
+h3.lane{font-size:15px;margin:14px 0 4px}
+@media print{
+@page{size:A4 portrait;margin:12mm 10mm}
+body{font-size:10.5px}
+main{max-width:none;padding:0}
+footer{max-width:none;padding:8px 0 0}
+h2{break-after:avoid;page-break-after:avoid}
+h3{break-after:avoid;page-break-after:avoid}
+figure.plot,.tables table,.attention{break-inside:avoid;page-break-inside:avoid}
+table.events{font-size:8.5px;width:100%}
+table.events td,table.events th{padding:1px 4px}
+table.events tr{break-inside:avoid;page-break-inside:avoid}
+section.lane{break-before:auto}
+ul.legend{font-size:9.5px}
+}
 `;
 
 /**
  * Renders a report as one self-contained HTML page: inline CSS and SVG only,
- * no script, no font or image to fetch, so it opens offline and prints.
- * Plots: scores over time with score thresholds and alarm/retrain markers,
- * one plot per change test (statistic and threshold), trend evidence,
- * decisions by cause, labelled events; phases as shaded bands behind them.
- * Tables: the metrics, decisions by action and cause, and the decision
- * changes. The page carries no date, so equal inputs give equal files.
+ * no script, no font or image to fetch, so it opens offline and prints (A4).
+ * From the top: what needs attention (open alarms, their cause, since when,
+ * the evidence in words, what moved); one lane per engine with its scores,
+ * thresholds, change test and trend evidence on a wall-clock time axis;
+ * decisions by cause and the labelled events; the table of events; the
+ * metrics in plain words. Every label comes from the glossary. The page
+ * carries no date, so equal inputs give equal files.
  */
 export function renderReport(content: ReportContent): string {
   const t = content.timeline;
   const events = content.events ?? [];
-  const groups = groupSeries(t.series);
-  const plots: string[] = [];
-  plots.push(
-    linePlot(t, {
-      id: "plot-scores",
-      title: "Scores",
-      caption: "Reconstruction loss of each sample under the live model and the frozen references, min/max per column; triangles mark alarms, retrains and mode switches, coloured by cause.",
-      traces: groups.scores,
-      height: 280,
-      allowLog: true,
-      markers: true,
-      phaseLegend: true,
-      events,
-    }),
-  );
-  for (const test of groups.tests.slice(0, 6)) {
-    plots.push(linePlot(t, { id: `plot-test-${slug(test.name)}`, title: `Change test: ${test.name}`, caption: "Statistic and threshold; a change is declared where the statistic crosses the threshold.", traces: test.traces, height: 170, events }));
-  }
-  for (const trend of groups.trends.slice(0, 4)) {
-    const isP = /p_?value$/i.test(trend.name);
-    const title = isP ? "Trend evidence: p-values" : trend.name === "z" ? "Trend evidence: Mann-Kendall z" : `Trend evidence: ${trend.name}`;
-    plots.push(linePlot(t, { id: `plot-trend-${slug(trend.name)}`, title, traces: trend.traces, height: 150, events, ...(isP ? { yRange: [0, 1] as [number, number] } : {}) }));
-  }
-  plots.push(causeStrip(t, "plot-causes"));
-  if (events.length > 0) plots.push(eventStrip(t, events, "plot-events"));
+  const axis = axisOf(t, content.samplePeriod ?? null);
+  const lanes = content.lanes ?? [{ name: "", timeline: t }];
+  const laneTitle = (name: string): string => (name === "" ? "The engine" : (content.laneTitle?.(name) ?? `Engine for operating mode ${name}`));
+  const sections: string[] = [];
+  sections.push(headline(content, lanes, laneTitle, axis));
+  lanes.forEach((lane, k) => sections.push(lanePlots(lane, k, laneTitle(lane.name), lanes.length, axis, events)));
+  const overall = [causeStrip(t, "plot-causes", axis)];
+  if (events.length > 0) overall.push(eventStrip(t, events, "plot-events", axis));
+  sections.push(`<section class="overall" aria-labelledby="h-overall"><h2 id="h-overall">All engines: decisions and what happened</h2>${overall.join("\n")}</section>`);
+  sections.push(`<section aria-labelledby="h-events"><h2 id="h-events">Events</h2>${eventTable(t, axis, events)}</section>`);
+  const tables: Table[] = content.metrics === undefined ? [] : metricTables(content.metrics, axis, events);
+  tables.push({ caption: "Decisions by action and cause", columns: ["decision", "cause", "samples", "share"], rows: t.counts.map((c) => [ACTION_WORDS[c.action], CAUSE_WORDS[c.cause], c.count, `${((100 * c.count) / Math.max(1, t.count)).toFixed(2)} %`]) });
+  sections.push(`<section aria-labelledby="h-metrics"><h2 id="h-metrics">${content.metrics === undefined ? "Counts" : "Measured against the labels"}</h2><div class="tables">${tables.map((tb) => tableHtml(tb)).join("\n")}</div></section>`);
 
-  const tables: Table[] = [...metricsTables(content.metrics)];
-  tables.push({ caption: "Decisions by action and cause", columns: ["action", "cause", "samples", "share"], rows: t.counts.map((c) => [c.action, c.cause, c.count, `${((100 * c.count) / Math.max(1, t.count)).toFixed(2)} %`]) });
-
-  const facts = [["samples", formatNumber(t.count)], ...(content.facts ?? []), ["drawn", `${t.buckets} columns of ${t.bucketWidth} sample${t.bucketWidth === 1 ? "" : "s"}`]];
+  const span = axis.basis.kind === "samples" ? "" : `${formatTime(axis.basis.kind, axis.basis.secondsAt(0), false)} to ${formatTime(axis.basis.kind, axis.basis.secondsAt(axis.span - 1), false)}`;
+  const facts = [["samples", formatNumber(t.count)], ...(span === "" ? [] : [["time", span]]), ...(content.facts ?? []), ["drawn", `${t.buckets} columns of ${t.bucketWidth} sample${t.bucketWidth === 1 ? "" : "s"}`]];
   return [
     "<!DOCTYPE html>",
     '<html lang="en"><head><meta charset="utf-8">',
@@ -110,29 +136,10 @@ export function renderReport(content: ReportContent): string {
     `<header><h1>${escapeXml(content.title)}</h1>${content.subtitle === undefined ? "" : `<p class="sub">${escapeXml(content.subtitle)}</p>`}`,
     `<ul class="facts">${facts.map(([k, v]) => `<li><b>${escapeXml(k as string)}:</b> ${escapeXml(v as string)}</li>`).join("")}</ul></header>`,
     content.incomplete === undefined ? "" : `<p class="incomplete" role="alert"><strong>Incomplete:</strong> ${escapeXml(content.incomplete)}.</p>`,
-    `<section aria-label="plots">${plots.join("\n")}</section>`,
-    `<h2>Metrics</h2><section class="tables">${tables.map((tb) => tableHtml(tb)).join("\n")}</section>`,
-    `<h2>Decision changes</h2>${transitionsTable(t)}`,
+    sections.join("\n"),
     "</main>",
     `<footer><p class="caution">${escapeXml(SAFETY_CAUTION)}</p><p class="made">Written by leeway ${escapeXml(content.version)}. Plots are decimated for drawing: each column shows the minimum and maximum of the samples it covers.</p></footer>`,
     "</body></html>",
     "",
   ].join("\n");
-}
-
-function transitionsTable(t: ReportTimeline): string {
-  const hasMode = t.transitions.some((x) => x.mode !== null);
-  const rows = t.transitions
-    .map(
-      (d) =>
-        `<tr><td class="num">${d.index}</td>${t.transitions.some((x) => x.time !== null) ? `<td>${escapeXml(d.time === null ? "" : String(d.time))}</td>` : ""}<td>${d.action}</td><td class="cause"><span style="background:${CAUSE_COLOURS[d.cause]}"></span>${d.cause}</td><td>${d.phase}</td>${hasMode ? `<td>${escapeXml(d.mode ?? "")}</td>` : ""}<td class="num">${escapeXml(formatNumber(d.liveScore))}</td><td>${escapeXml(d.detail)}</td></tr>`,
-    )
-    .join("");
-  const hasTime = t.transitions.some((x) => x.time !== null);
-  const more = t.transitionsOmitted > 0 ? `<p class="sub">${t.transitionsOmitted} later changes are not listed.</p>` : "";
-  return `<table class="data"><caption>Samples where the action, cause or phase changed</caption><thead><tr><th>index</th>${hasTime ? "<th>time</th>" : ""}<th>action</th><th>cause</th><th>phase</th>${hasMode ? "<th>mode</th>" : ""}<th>live score</th><th>evidence</th></tr></thead><tbody>${rows}</tbody></table>${more}`;
-}
-
-function slug(text: string): string {
-  return text.toLowerCase().replace(/[^a-z0-9]+/g, "-").replace(/^-|-$/g, "") || "x";
 }

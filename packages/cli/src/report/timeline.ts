@@ -21,6 +21,8 @@ export interface DecisionTransition {
   mode: string | null;
   /** Short text of the decision's evidence (string fields and names of the tests that took part). */
   detail: string;
+  /** The decision's whole evidence. */
+  evidence: Record<string, unknown>;
 }
 
 /** Options of {@link TimelineCollector}. */
@@ -31,6 +33,12 @@ export interface TimelineCollectorOptions {
   transitions?: number;
   /** Most distinct evidence fields traced (default 48). */
   series?: number;
+  /**
+   * Place samples by their decision index counted from this index (lanes of
+   * one engine among several share the stream's axis this way); default:
+   * in the order they are added, from the first.
+   */
+  origin?: number;
 }
 
 const MAX_DEPTH_KEYS = 64;
@@ -68,13 +76,18 @@ export class TimelineCollector {
   readonly #counts = new Map<string, number>();
   #firstDecisionIndex = 0;
   #lastDecisionIndex = -1;
+  readonly #origin: number | null;
+  #lastTime: string | number | null = null;
+  #lastDecision: Decision | null = null;
+  #openedBy: { decision: Decision; time: string | number | null } | null = null;
 
   constructor(options: TimelineCollectorOptions = {}) {
-    const o = optionsObject<TimelineCollectorOptions>("TimelineCollector", options, ["columns", "transitions", "series"]);
+    const o = optionsObject<TimelineCollectorOptions>("TimelineCollector", options, ["columns", "transitions", "series", "origin"]);
     const columns = o.columns === undefined ? 1200 : integerInRange("TimelineCollector", "columns", o.columns, 64, 8192);
     this.#columns = columns - (columns % 2);
     this.#maxTransitions = o.transitions === undefined ? 400 : integerInRange("TimelineCollector", "transitions", o.transitions, 0, 1_000_000);
     this.#maxSeries = o.series === undefined ? 48 : integerInRange("TimelineCollector", "series", o.series, 1, 1024);
+    this.#origin = o.origin === undefined ? null : integerInRange("TimelineCollector", "origin", o.origin, 0, Number.MAX_SAFE_INTEGER);
     this.#phaseMask = new Uint8Array(this.#columns);
     this.#causeMask = new Uint8Array(this.#columns);
     this.#actionMask = new Uint8Array(this.#columns);
@@ -84,10 +97,11 @@ export class TimelineCollector {
 
   /** Adds the next decision (and the time of its sample, if the stream has one). */
   add(decision: Decision, time: string | number | null = null): void {
-    let b = Math.floor(this.#count / this.#width);
-    if (b >= this.#columns) {
+    const position = this.#origin === null ? this.#count : Math.max(0, decision.index - this.#origin);
+    let b = Math.floor(position / this.#width);
+    while (b >= this.#columns) {
       this.#mergePairs();
-      b = Math.floor(this.#count / this.#width);
+      b = Math.floor(position / this.#width);
     }
     if (b >= this.#buckets) {
       this.#buckets = b + 1;
@@ -96,6 +110,7 @@ export class TimelineCollector {
     }
     if (this.#count === 0) this.#firstDecisionIndex = decision.index;
     this.#lastDecisionIndex = decision.index;
+    this.#lastTime = time;
     this.#count++;
     this.#phaseMask[b] = (this.#phaseMask[b] as number) | (1 << PHASES.indexOf(decision.phase));
     this.#causeMask[b] = (this.#causeMask[b] as number) | (1 << CAUSES.indexOf(decision.cause));
@@ -104,6 +119,11 @@ export class TimelineCollector {
     this.#counts.set(countKey, (this.#counts.get(countKey) ?? 0) + 1);
     this.#trace(decision.evidence as unknown as Record<string, unknown>, b);
     const last = this.#last;
+    // What opened the state that needs attention: a latched alarm, or a retrain waiting for confirmation.
+    const open = decision.phase === "latched" || decision.action === "await-confirmation";
+    if (!open) this.#openedBy = null;
+    else if (this.#openedBy === null || (last !== null && last.phase !== decision.phase)) this.#openedBy = { decision, time };
+    this.#lastDecision = decision;
     if (last === null || last.action !== decision.action || last.cause !== decision.cause || last.phase !== decision.phase) {
       this.#last = { action: decision.action, cause: decision.cause, phase: decision.phase };
       if (this.#transitions.length < this.#maxTransitions) {
@@ -116,6 +136,7 @@ export class TimelineCollector {
           liveScore: decision.evidence.liveScore,
           mode: typeof decision.evidence.mode === "string" ? decision.evidence.mode : null,
           detail: evidenceDetail(decision.evidence as unknown as Record<string, unknown>),
+          evidence: decision.evidence as unknown as Record<string, unknown>,
         });
       } else this.#transitionsOmitted++;
     }
@@ -164,6 +185,7 @@ export class TimelineCollector {
   }
 
   #mergePairs(): void {
+    if (this.#buckets > this.#columns) this.#buckets = this.#columns;
     const half = this.#columns / 2;
     for (const s of this.#series.values()) {
       for (let j = 0; j < half; j++) {
@@ -210,6 +232,10 @@ export class TimelineCollector {
     counts.sort((a, b) => ACTIONS.indexOf(a.action) - ACTIONS.indexOf(b.action) || CAUSES.indexOf(a.cause) - CAUSES.indexOf(b.cause));
     return {
       count: this.#count,
+      origin: this.#origin ?? this.#firstDecisionIndex,
+      lastTime: this.#lastTime,
+      last: this.#lastDecision,
+      openedBy: this.#openedBy,
       firstIndex: this.#firstDecisionIndex,
       lastIndex: this.#lastDecisionIndex,
       bucketWidth: this.#width,
@@ -230,6 +256,14 @@ export class TimelineCollector {
 /** A decimated decision stream, ready to draw (see {@link TimelineCollector}). */
 export interface ReportTimeline {
   count: number;
+  /** Decision index of bucket 0's first position. */
+  origin: number;
+  /** Time of the last decision's sample. */
+  lastTime: string | number | null;
+  /** The last decision added, or null. */
+  last: Decision | null;
+  /** The decision (and its time) that opened the state the last decision is in, when that state needs attention (a latched alarm, a retrain awaiting confirmation); else null. */
+  openedBy: { decision: Decision; time: string | number | null } | null;
   /** `index` of the first and last decision. */
   firstIndex: number;
   lastIndex: number;

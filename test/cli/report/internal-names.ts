@@ -1,0 +1,2 @@
+/** The internal names a report's reader must never see: evidence field names, the vocabulary spelt as code, empty values. */
+export const INTERNAL_NAMES: readonly RegExp[] = [/liveScore/, /referenceScores/, /pValue/, /\btrend\.z\b/, /gap\.\w/, /per10k/, /completedAt/, /\bconcept-drift\b/, /\bswitch-mode\b/, /await-confirmation/, /Change test: change/, /\bnull\b/, /\bundefined\b/, /\bNaN\b/, /\[object/];
