@@ -14,7 +14,7 @@ describe("the README's usage example", () => {
     const console = { log: (...args: unknown[]) => printed.push(args) };
     new Function("stats", "console", source)(stats, console);
     expect(printed).toHaveLength(1);
-    const [mean, std, p99] = printed[0] as number[];
+    const [mean, std, p99] = printed[0] as [number, number, number];
     const scores = Array.from({ length: 10_000 }, (_, i) => 0.07 + 0.01 * (((i * 7919) % 10_000) / 10_000));
     const ref = twoPass(scores);
     expect(mean).toBeCloseTo(ref.mean, 14);
