@@ -5,6 +5,7 @@ import { InputError, UsageError } from "../exit-codes.js";
 import type { CliStreams } from "../io.js";
 import { readScoreColumn } from "../input/score-column.js";
 import { formatNumber } from "../report/scale.js";
+import { calibrationWarnings } from "./calibration-warnings.js";
 
 const TESTS = ["cusum", "page-hinkley", "ewma", "adwin", "ks"] as const;
 type TestName = (typeof TESTS)[number];
@@ -30,6 +31,7 @@ export const calibrateSpec: CommandSpec = {
   details: [
     "Method: moving-block bootstrap streams resampled from the scores (Künsch, 1989); for each threshold tried, a fresh test runs on every stream until its first change; ARL0 is the censored-geometric estimate of the mean run length; the threshold is bracketed and bisected, then its ARL0 and 95 % interval are re-estimated on fresh streams. μ0 and σ of cusum, ewma and page-hinkley are the mean and standard deviation of the scores. The threshold is h (cusum, in σ), λ (page-hinkley, in score units), L (ewma, in σ of the statistic), the ε_cut scale (adwin) or the critical D (ks).",
     "Cost grows with replicates × target ARL × about 20 thresholds tried.",
+    "Warnings (stderr, and \"warnings\" in --json): the target lies outside the ARL0's 95 % interval (with the replicates and scores that would narrow it); the scores' two halves differ (two-sample Kolmogorov-Smirnov) or drift (Mann-Kendall on block means), each at p < 0.001, so they are not in-control scores.",
   ],
   examples: ["leeway calibrate commissioning-scores.csv --test cusum --target-arl 20000", "leeway calibrate scores.ndjson --test ks --target-arl 5000 --window 200 --json"],
 };
@@ -83,8 +85,10 @@ export async function runCalibrate(parsed: ParsedArguments, io: CliStreams): Pro
     ...(replicates === undefined ? {} : { replicates }),
     ...(blockLength === undefined ? {} : { blockLength }),
   });
+  const warnings = calibrationWarnings(scores, result, target);
+  for (const w of warnings) io.stderr.write(`calibrate: warning: ${w}\n`);
   if (parsed.flags.get("json") === true) {
-    io.stdout.write(`${JSON.stringify({ test, column: columnName, scores: scores.length, mean, sigma, targetArl0: target, threshold: result.threshold, arl0: result.arl0, interval: result.interval, replicates: result.replicates, censored: result.censored, evaluations: result.evaluations })}\n`);
+    io.stdout.write(`${JSON.stringify({ test, column: columnName, scores: scores.length, mean, sigma, targetArl0: target, threshold: result.threshold, arl0: result.arl0, interval: result.interval, replicates: result.replicates, censored: result.censored, evaluations: result.evaluations, warnings })}\n`);
     return 0;
   }
   const lines = [
