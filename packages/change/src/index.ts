@@ -17,3 +17,6 @@ export type { SlidingKsTestOptions, SlidingKsReading, SlidingKsTestState } from 
 export { restoreChangeTest } from "./restore-change-test.js";
 export { calibrateThreshold } from "./calibrate-threshold.js";
 export type { CalibrationOptions, CalibrationResult } from "./calibrate-threshold.js";
+export { ConformalMartingale, CONFORMAL_MAX_GRID } from "./conformal-martingale.js";
+export type { ConformalMartingaleOptions, ConformalMartingaleState, ConformalReading } from "./conformal-martingale.js";
+export type { ConformalBetting } from "./conformal-betting.js";

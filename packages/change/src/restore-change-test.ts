@@ -1,6 +1,7 @@
 import { SnapshotError } from "@leeway/core";
 import type { ChangeTest } from "./change-test.js";
 import { Adwin } from "./adwin.js";
+import { ConformalMartingale } from "./conformal-martingale.js";
 import { Cusum } from "./cusum.js";
 import { EwmaChart } from "./ewma-chart.js";
 import { SlidingKsTest } from "./sliding-ks-test.js";
@@ -25,7 +26,9 @@ export function restoreChangeTest(snapshot: unknown): ChangeTest {
       return Adwin.restore(snapshot);
     case SlidingKsTest.kind:
       return SlidingKsTest.restore(snapshot);
+    case ConformalMartingale.kind:
+      return ConformalMartingale.restore(snapshot);
     default:
-      throw new SnapshotError("a change test", "kind", `must be one of ${[Cusum.kind, PageHinkley.kind, EwmaChart.kind, Adwin.kind, SlidingKsTest.kind].join(", ")}, got ${JSON.stringify(kind) ?? "undefined"}`);
+      throw new SnapshotError("a change test", "kind", `must be one of ${[Cusum.kind, PageHinkley.kind, EwmaChart.kind, Adwin.kind, SlidingKsTest.kind, ConformalMartingale.kind].join(", ")}, got ${JSON.stringify(kind) ?? "undefined"}`);
   }
 }
