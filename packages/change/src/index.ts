@@ -20,3 +20,5 @@ export type { CalibrationOptions, CalibrationResult } from "./calibrate-threshol
 export { ConformalMartingale, CONFORMAL_MAX_GRID } from "./conformal-martingale.js";
 export type { ConformalMartingaleOptions, ConformalMartingaleState, ConformalReading } from "./conformal-martingale.js";
 export type { ConformalBetting } from "./conformal-betting.js";
+export { ChangePointPosterior, POSTERIOR_MAX_HYPOTHESES } from "./change-point-posterior.js";
+export type { ChangePointPosteriorOptions, ChangePointPosteriorState, ChangePointReading } from "./change-point-posterior.js";
