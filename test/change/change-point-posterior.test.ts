@@ -145,7 +145,7 @@ describe("ChangePointPosterior", () => {
     );
   });
 
-  it("on the log scale a zero score is non-finite: refused, or skipped and counted", () => {
+  it("on the log scale a zero score is non-finite: refused, or skipped and counted; a non-number or a linear value past 1e100 is refused", () => {
     expectLeewayError(() => new ChangePointPosterior({ mean: 0, sigma: 1 }).observe(0), "E_NON_FINITE", "x");
     const skip = new ChangePointPosterior({ mean: 0, sigma: 1, nonFinite: "skip" });
     expect(skip.observe(0).skipped).toBe(1);
@@ -154,6 +154,8 @@ describe("ChangePointPosterior", () => {
     const many = new ChangePointPosterior({ mean: 0, sigma: 1, nonFinite: "skip" });
     many.observeMany(Float64Array.from([1, 0, 2]));
     expect([many.count, many.skipped]).toEqual([2, 1]);
+    expectLeewayError(() => new ChangePointPosterior({ mean: 0, sigma: 1 }).observe("5" as never), "E_SAMPLE", "x", "string");
+    expectLeewayError(() => new ChangePointPosterior({ mean: 0, sigma: 1, scale: "linear" }).observe(1e200), "E_SAMPLE", "x", "1e+100");
   });
 
   it("refuses corrupted snapshots", () => {

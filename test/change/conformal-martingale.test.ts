@@ -115,6 +115,7 @@ describe("ConformalMartingale", () => {
     expect(test.scan(Float64Array.from([1, Infinity, 2]))).toBe(-1);
     expect(test.skipped).toBe(2);
     expectLeewayError(() => new ConformalMartingale().observe(Number.NaN), "E_NON_FINITE", "x");
+    expectLeewayError(() => new ConformalMartingale().observe(null as never), "E_SAMPLE", "x");
     expectLeewayError(() => new ConformalMartingale().scan(Float64Array.from([1, Number.NaN])), "E_NON_FINITE", "xs[1]");
   });
 

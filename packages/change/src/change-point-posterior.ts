@@ -10,6 +10,8 @@ import {
   optionsObject,
   OptionError,
   positiveNumber,
+  requireNumber,
+  SampleError,
   type NonFinitePolicy,
   type Snapshot,
 } from "@leeway/core";
@@ -43,7 +45,7 @@ export interface ChangePointPosteriorOptions {
   maxHypotheses?: number;
   /** Hypotheses whose posterior probability falls below this are dropped (in [0, 1e−3], default 1e−12). */
   pruneBelow?: number;
-  /** `"refuse"` (default) or `"skip"` non-finite samples (on the modelled scale). */
+  /** `"refuse"` (default) or `"skip"` non-finite samples (on the modelled scale). A modelled value beyond ±1e100 is refused (`E_SAMPLE`). */
   nonFinite?: NonFinitePolicy;
 }
 
@@ -93,6 +95,7 @@ export interface ChangePointPosteriorState {
 const NAME = "ChangePointPosterior";
 const KNOWN = ["expectedRunLength", "scale", "offset", "mean", "sigma", "burnIn", "meanWeight", "shape", "recent", "maxHypotheses", "pruneBelow", "nonFinite"] as const;
 const HALF_LOG_PI = 0.5 * Math.log(Math.PI);
+const LINEAR_LIMIT = 1e100; // the largest |modelled value| taken: its square stays far from overflow
 
 /**
  * Bayesian online change-point detection (Adams & MacKay, 2007): the posterior distribution of the
@@ -205,6 +208,7 @@ export class ChangePointPosterior {
 
   /** Takes one sample; returns the change probability, the most probable onset and the segment's level. */
   observe(x: number): ChangePointReading {
+    requireNumber(NAME, "x", x);
     const index = this.#count + this.#skipped;
     const y = this.#logScale ? Math.log(x + this.#offset) : x;
     if (!(y - y === 0) || !(x - x === 0)) {
@@ -212,6 +216,8 @@ export class ChangePointPosterior {
       this.#skipped += 1;
       return this.#reading(index);
     }
+    // (y − μ)² must stay finite in the posterior's rates
+    if (!(Math.abs(y) <= LINEAR_LIMIT)) throw new SampleError(NAME, "x", x, `a number whose modelled value is in [${-LINEAR_LIMIT}, ${LINEAR_LIMIT}]`);
     this.#count += 1;
     const burnIn = this.#burnIn;
     if (burnIn !== null) {

@@ -10,6 +10,7 @@ import {
   OptionError,
   optionsObject,
   RandomSource,
+  requireNumber,
   seedOption,
   type NonFinitePolicy,
   type Snapshot,
@@ -190,6 +191,7 @@ export class ConformalMartingale implements ChangeTest {
   }
 
   observe(x: number): ConformalReading {
+    requireNumber(NAME, "x", x);
     const i = this.#count + this.#skipped;
     if (!(x - x === 0)) {
       if (this.#nonFinite === "refuse") throw new NonFiniteError(NAME, "x", x);
