@@ -1,5 +1,6 @@
 import { describe, expect, it } from "vitest";
-import { ewmaArl, normalCdf } from "@leeway/change";
+import { ewmaArl } from "@leeway/change";
+import { normalCdf } from "@leeway/stats";
 import { expectLeewayError } from "../support/errors.js";
 
 describe("ewmaArl", () => {

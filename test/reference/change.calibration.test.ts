@@ -1,6 +1,7 @@
 import { describe, expect, it } from "vitest";
 import { RandomSource } from "@leeway/core";
-import { calibrateThreshold, Cusum, normalCdf } from "@leeway/change";
+import { calibrateThreshold, Cusum } from "@leeway/change";
+import { normalCdf } from "@leeway/stats";
 
 // Score distributions: inverse distribution functions and samplers of the same law.
 function normalQuantile(p: number): number {

@@ -1,6 +1,7 @@
 import fc from "fast-check";
 import { describe, expect, it } from "vitest";
-import { Moments, MOMENTS_BLOCK } from "@leeway/stats";
+import { Moments } from "@leeway/stats";
+import { MOMENTS_BLOCK } from "../../packages/stats/src/moments.js";
 import { expectLeewayError, throughJson } from "../support/errors.js";
 import { expectRefusesCorruptions } from "../support/snapshot-corruption.js";
 import { closeTo, twoPass } from "./brute-force.js";

@@ -1,7 +1,7 @@
 import fc from "fast-check";
 import * as ss from "simple-statistics";
 import { describe, expect, it } from "vitest";
-import { erfc, normalSurvival } from "@leeway/stats";
+import { erfc, normalCdf, normalSurvival } from "@leeway/stats";
 
 describe("erfc and normalSurvival", () => {
   it("erfc(x) + erfc(−x) = 2 and erfc decreases", () => {
@@ -31,5 +31,15 @@ describe("erfc and normalSurvival", () => {
     expect(normalSurvival(1.959963984540054)).toBeCloseTo(0.025, 12);
     expect(normalSurvival(3)).toBeCloseTo(0.0013498980316301, 13);
     expect(normalSurvival(6) / 9.865876450377e-10).toBeCloseTo(1, 9);
+  });
+
+  it("normalCdf matches Φ(−3) = 0.0013498980316301 and Φ(1.96) = 0.9750021048517795 (Abramowitz & Stegun, Table 26.1, from memory)", () => {
+    expect(normalCdf(-3)).toBeCloseTo(0.0013498980316301, 15);
+    expect(normalCdf(1.96)).toBeCloseTo(0.9750021048517795, 14);
+  });
+
+  it("normalCdf is symmetric, Φ(x) + Φ(−x) = 1, across the series/continued-fraction switch of erfc at |x| = 2.5√2", () => {
+    for (const x of [0, 0.3, 2, 3.5, 3.53, 3.6, 6, 8]) expect(normalCdf(x) + normalCdf(-x)).toBeCloseTo(1, 14);
+    expect(normalCdf(-3.5355)).toBeGreaterThan(normalCdf(-3.5356));
   });
 });

@@ -1,6 +1,7 @@
 import fc from "fast-check";
 import { describe, expect, it } from "vitest";
-import { WindowTrend, mannKendall, mannKendallZ } from "@leeway/stats";
+import { WindowTrend, mannKendall } from "@leeway/stats";
+import { mannKendallZ } from "../../packages/stats/src/mann-kendall.js";
 import { expectLeewayError, throughJson } from "../support/errors.js";
 import { expectRefusesCorruptions } from "../support/snapshot-corruption.js";
 import { mannKendallBrute } from "./brute-force.js";

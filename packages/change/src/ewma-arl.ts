@@ -1,5 +1,5 @@
 import { finiteNumber, integerInRange, numberInRange, optionsObject, positiveNumber } from "@leeway/core";
-import { normalCdf } from "./normal-cdf.js";
+import { normalCdf } from "@leeway/stats";
 
 /** Options of {@link ewmaArl}. */
 export interface EwmaArlOptions {

@@ -9,7 +9,6 @@ export { cusumArl } from "./cusum-arl.js";
 export type { CusumArlOptions } from "./cusum-arl.js";
 export { ewmaArl } from "./ewma-arl.js";
 export type { EwmaArlOptions } from "./ewma-arl.js";
-export { normalCdf } from "./normal-cdf.js";
 export { Adwin } from "./adwin.js";
 export type { AdwinOptions, AdwinReading, AdwinState, AdwinBound } from "./adwin.js";
 export { SlidingKsTest } from "./sliding-ks-test.js";

@@ -54,3 +54,14 @@ export function erfc(x: number): number {
 export function normalSurvival(z: number): number {
   return 0.5 * erfc(z / Math.SQRT2);
 }
+
+/**
+ * The standard normal distribution function Φ(x) = P(Z ≤ x) = erfc(−x/√2)/2,
+ * accurate in both tails (no 1 − Φ cancellation).
+ *
+ * @example
+ * normalCdf(0); // 0.5
+ */
+export function normalCdf(x: number): number {
+  return 0.5 * erfc(-x / Math.SQRT2);
+}
