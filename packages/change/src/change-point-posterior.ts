@@ -390,20 +390,23 @@ export class ChangePointPosterior {
     next.rates[0] = this.#priorRate + (k0 * d0 * d0) / (2 * (k0 + 1));
     next.gammaRatios[0] = Math.log(a0) - this.#priorGammaRatio;
     // normalise, prune, and copy back in order of increasing run length
-    let kept = 0;
     const floor = this.#pruneBelow;
-    let keptMass = 0;
+    let kept = 0;
+    let weakest = -1; // the least probable hypothesis above the floor
     for (let i = 0; i <= n; i++) {
       const w = (next.weights[i] as number) / total;
       next.weights[i] = w;
-      if (w >= floor) kept++;
+      if (w < floor) continue;
+      kept++;
+      if (weakest < 0 || w < (next.weights[weakest] as number)) weakest = i;
     }
-    let cut = floor;
-    if (kept > this.#max) cut = kthLargest(next.weights, n + 1, this.#max);
+    // one hypothesis is added per sample, so at most one is over the cap: the least probable goes
+    const drop = kept > this.#max ? weakest : -1;
+    let keptMass = 0;
     let j = 0;
     for (let i = 0; i <= n; i++) {
       const w = next.weights[i] as number;
-      if (w < floor || w < cut || j >= this.#max) continue;
+      if (w < floor || i === drop) continue;
       lengths[j] = next.lengths[i] as number;
       means[j] = next.means[i] as number;
       rates[j] = next.rates[i] as number;
@@ -449,10 +452,4 @@ function logStudent(y: number, mu: number, kappa: number, alpha: number, beta: n
   const nuS2 = (2 * beta * (kappa + 1)) / kappa; // ν·s²
   const d = y - mu;
   return gammaRatio - 0.5 * Math.log(nuS2) - HALF_LOG_PI - (alpha + 0.5) * Math.log1p((d * d) / nuS2);
-}
-
-/** The k-th largest of values[0..n) (k ≥ 1), by sorting a copy (n ≤ 4097). */
-function kthLargest(values: Float64Array, n: number, k: number): number {
-  const copy = values.slice(0, n).sort();
-  return copy[n - k] as number;
 }
