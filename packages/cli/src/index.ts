@@ -15,8 +15,8 @@ export { TimelineCollector } from "./report/timeline.js";
 export type { ReportTimeline, BucketSeries, TimelineCollectorOptions } from "./report/timeline.js";
 export { renderReport, FIGURE_STYLE } from "./report/html.js";
 export type { ReportContent } from "./report/html.js";
-export { linePlot, eventStrip, groupSeries } from "./report/plots.js";
-export type { LinePlotOptions, ReportEvent, Trace } from "./report/plots.js";
+export { axisOf, linePlot, eventStrip, groupSeries } from "./report/plots.js";
+export type { AxisSpan, LinePlotOptions, ReportEvent, Trace } from "./report/plots.js";
 export { SAFETY_CAUTION } from "./report/safety.js";
 export { demoEngineOptions } from "./commands/demo.js";
 // The mode router and the scripted operator move to @leeway/policy; import them from there once they are.
