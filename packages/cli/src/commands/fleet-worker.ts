@@ -1,8 +1,9 @@
-import { FleetWorker, type WorkerProgress } from "@leeway/fleet";
+import { FleetWorker, SiteEvidence, type WorkerProgress } from "@leeway/fleet";
 import { numberFlag, stringFlag, type CommandSpec, type ParsedArguments } from "../args.js";
 import { buildEngine, defaultConfig, parseConfig } from "../config.js";
 import { EXIT_OK, UsageError } from "../exit-codes.js";
 import { readTextFile, type CliStreams } from "../io.js";
+import type { RedisClient } from "@leeway/fleet";
 import { closeFleet, connectFleet, FLEET_FLAGS, fleetFlags } from "./fleet-connection.js";
 
 /** Arguments, flags and help of `leeway fleet worker`. */
@@ -17,6 +18,9 @@ export const fleetWorkerSpec: CommandSpec = {
     { name: "only", kind: "string", value: "LIST", description: "comma-separated partitions this worker may own (default all)" },
     { name: "batch", kind: "number", value: "N", description: "records read and committed per partition per batch", defaultText: "1000" },
     { name: "lease-ms", kind: "number", value: "MS", description: "lease time to live: how long a dead worker's partitions wait", defaultText: "10000" },
+    { name: "site-evidence", kind: "boolean", description: "also run the fleet's site-evidence consumer when this worker holds its lease (one runs per fleet)" },
+    { name: "site-fraction", kind: "number", value: "F", description: "fraction of a site's streams whose onsets make a site-wide shift", defaultText: "0.5" },
+    { name: "site-window", kind: "number", value: "N", description: "window the onsets must meet in (record time t, else samples)", defaultText: "900" },
   ],
   details: [
     "Progress (partitions, decisions, dead letters, lag) goes to stderr after every lease round. SIGINT or SIGTERM stops the worker gracefully: the batch in hand is committed and the leases are released. A worker killed any other way loses nothing: its partitions are taken over when their leases expire and continue from the last commit. See docs/fleet.md.",
@@ -34,6 +38,38 @@ function onlyFlag(parsed: ParsedArguments): number[] | undefined {
 
 function progressLine(p: WorkerProgress): string {
   return `fleet worker ${p.owner}: partitions ${p.partitions.length === 0 ? "none" : p.partitions.join(",")} · ${p.decisions} decisions · ${p.deadLetters} dead letters · lag ${p.lag}\n`;
+}
+
+/** The site-evidence consumer's loop beside the worker: a round every lease/3 until stopped. */
+function siteEvidence(parsed: ParsedArguments, client: RedisClient, fleet: { prefix: string; partitions: number }, owner: string, leaseMs: number | undefined): { stop(): void; done: Promise<void> } {
+  const fraction = numberFlag(parsed, "site-fraction");
+  const window = numberFlag(parsed, "site-window");
+  const evidence = new SiteEvidence(client, {
+    prefix: fleet.prefix,
+    partitions: fleet.partitions,
+    owner: `${owner}:sites`,
+    ...(leaseMs === undefined ? {} : { leaseMs }),
+    ...(fraction === undefined ? {} : { fraction }),
+    ...(window === undefined ? {} : { window }),
+  });
+  let stopped = false;
+  let wake: (() => void) | null = null;
+  const done = (async () => {
+    while (!stopped) {
+      await evidence.round().catch(() => []);
+      await new Promise<void>((resolve) => {
+        wake = resolve;
+        setTimeout(resolve, Math.floor((leaseMs ?? 10_000) / 3));
+      });
+    }
+  })();
+  return {
+    stop: () => {
+      stopped = true;
+      wake?.();
+    },
+    done,
+  };
 }
 
 /** leeway fleet worker. */
@@ -58,11 +94,15 @@ export async function runFleetWorker(parsed: ParsedArguments, io: CliStreams): P
   });
   worker.onProgress = (p) => io.stderr.write(progressLine(p));
   worker.onEvent = (e) => io.stderr.write(`fleet worker ${worker.owner}: ${e.message}\n`);
-  const stop = (): void => worker.stop();
+  const sites = parsed.flags.get("site-evidence") === true ? siteEvidence(parsed, client, fleet, worker.owner, leaseMs) : null;
+  const stop = (): void => {
+    worker.stop();
+    sites?.stop();
+  };
   process.once("SIGINT", stop);
   process.once("SIGTERM", stop);
   try {
-    await worker.run();
+    await Promise.all([worker.run(), sites?.done]);
   } finally {
     process.off("SIGINT", stop);
     process.off("SIGTERM", stop);
