@@ -172,18 +172,31 @@ describe("Moments", () => {
     expectLeewayError(() => new Moments({ weighted: true }).observe(1, Infinity), "E_NON_FINITE", "weight");
   });
 
-  it("samples beyond |x| = 1e100 (whose squares could overflow) fall under the non-finite policy, in both paths", () => {
+  it("samples beyond |x| = 1e100 (whose squares could overflow) are refused with E_SAMPLE under either policy, in both paths", () => {
     const m = new Moments();
-    expectLeewayError(() => m.observe(1e101), "E_NON_FINITE", "|x| <= 1e+100", "1e+101");
-    expectLeewayError(() => m.observeMany(Float64Array.from([1, 2, -1e200])), "E_NON_FINITE", "-1e+200");
+    expectLeewayError(() => m.observe(1e101), "E_SAMPLE", "x", "1e+100", "1e+101");
+    expectLeewayError(() => m.observeMany(Float64Array.from([1, 2, -1e200])), "E_SAMPLE", "-1e+200");
     expect(m.count).toBe(2);
     m.observe(-1e100);
     expect(m.min).toBe(-1e100);
     const skip = new Moments({ nonFinite: "skip" });
-    skip.observeMany(Float64Array.from([1, 1e300, 3]));
-    expect(skip.skipped).toBe(1);
-    expect(skip.mean).toBe(2);
-    expectLeewayError(() => new Moments({ weighted: true }).observe(1, 1e60), "E_NON_FINITE", "weight", "1e+60");
+    expectLeewayError(() => skip.observeMany(Float64Array.from([1, 1e300, 3])), "E_SAMPLE", "1e+300");
+    expect(skip.skipped).toBe(0);
+    expect(skip.mean).toBe(1);
+    expectLeewayError(() => new Moments({ weighted: true, nonFinite: "skip" }).observe(1, 1e60), "E_SAMPLE", "weight", "1e+60");
+  });
+
+  it("refuses non-numbers with E_SAMPLE naming the parameter and the type, under skip too; batches must be Float64Arrays", () => {
+    const skip = new Moments({ nonFinite: "skip" });
+    expectLeewayError(() => skip.observe(null as never), "E_SAMPLE", "x", "null");
+    expectLeewayError(() => skip.observe("5" as never), "E_SAMPLE", "x", "string");
+    expectLeewayError(() => skip.observe([7] as never), "E_SAMPLE", "x", "array");
+    expectLeewayError(() => skip.observe({} as never), "E_SAMPLE", "x", "object");
+    expectLeewayError(() => skip.observeMany([1, 2] as never), "E_SAMPLE", "xs", "array");
+    const weighted = new Moments({ weighted: true });
+    expectLeewayError(() => weighted.observe(1, "2" as never), "E_SAMPLE", "weight", "string");
+    expectLeewayError(() => weighted.observeMany(new Float64Array(2), [1, 1] as never), "E_SAMPLE", "weights", "array");
+    expect(skip.count + weighted.count).toBe(0);
   });
 
   it("rejects each bad option and bad weight with E_OPTION naming it", () => {

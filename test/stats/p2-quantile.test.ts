@@ -97,15 +97,26 @@ describe("P2Quantile", () => {
     expect(skip.observe(-Infinity)).toMatchObject({ count: 6, skipped: 2 });
   });
 
-  it("samples beyond |x| = 1e100 fall under the non-finite policy, in both paths", () => {
+  it("samples beyond |x| = 1e100 are refused with E_SAMPLE under either policy, in both paths, and the state is kept", () => {
     const a = new P2Quantile({ p: 0.5 });
-    expectLeewayError(() => a.observe(-1e101), "E_NON_FINITE", "|x| <= 1e+100");
-    expectLeewayError(() => a.observeMany(Float64Array.from([1, 1e200])), "E_NON_FINITE", "1e+200");
+    expectLeewayError(() => a.observe(-1e101), "E_SAMPLE", "x", "1e+100", "-1e+101");
+    expectLeewayError(() => a.observeMany(Float64Array.from([1, 1e200])), "E_SAMPLE", "1e+200");
     expect(a.count).toBe(1);
     const skip = new P2Quantile({ ...{ p: 0.5 }, nonFinite: "skip" });
-    skip.observeMany(Float64Array.from([1, 1e300, 3]));
-    expect(skip.skipped).toBe(1);
-    expect(skip.count).toBe(2);
+    expectLeewayError(() => skip.observeMany(Float64Array.from([1, 1e300, 3])), "E_SAMPLE", "1e+300");
+    expect(skip.skipped).toBe(0);
+    expect(skip.count).toBe(1);
+  });
+
+  it("refuses non-numbers with E_SAMPLE naming x and the type, under skip too; a batch must be a Float64Array", () => {
+    const skip = new P2Quantile({ ...{ p: 0.5 }, nonFinite: "skip" });
+    expectLeewayError(() => skip.observe(null as never), "E_SAMPLE", "x", "null");
+    expectLeewayError(() => skip.observe("5" as never), "E_SAMPLE", "x", "string");
+    expectLeewayError(() => skip.observe([7] as never), "E_SAMPLE", "x", "array");
+    expectLeewayError(() => skip.observe({} as never), "E_SAMPLE", "x", "object");
+    expectLeewayError(() => skip.observeMany([1, 2] as never), "E_SAMPLE", "xs", "array");
+    expect(skip.count).toBe(0);
+    expect(skip.skipped).toBe(0);
   });
 
   it("rejects each bad option with E_OPTION naming it", () => {

@@ -13,6 +13,7 @@ import {
   type Snapshot,
 } from "@leeway/core";
 import type { ChangeDirection, ChangeReading, ChangeTest } from "./change-test.js";
+import { acceptSample, MAX_SAMPLE_MAGNITUDE } from "@leeway/stats";
 import { scanStart, warningFractionOption } from "./options.js";
 import { buildFromSnapshot } from "./restore-support.js";
 
@@ -68,6 +69,8 @@ export interface AdwinState {
   skipped: number;
 }
 
+/** The largest |x| taken (10¹⁰⁰, from @leeway/stats): bucket sums of squares stay finite for 2⁵³ samples. */
+const ADWIN_LIMIT = MAX_SAMPLE_MAGNITUDE;
 const NAME = "Adwin";
 const KNOWN = ["delta", "buckets", "checkPeriod", "minSubWindow", "bound", "threshold", "warningFraction", "nonFinite"] as const;
 /** 1 − 10⁻⁶: the safety margin of the check's quick test (far above the few ulps of rounding on either side). */
@@ -179,8 +182,8 @@ export class Adwin implements ChangeTest {
 
   observe(x: number): AdwinReading {
     const i = this.#count + this.#skipped;
-    if (!(x - x === 0)) {
-      if (this.#nonFinite === "refuse") throw new NonFiniteError(NAME, "x", x);
+    if (!(typeof x === "number" && Math.abs(x) <= ADWIN_LIMIT)) {
+      acceptSample(NAME, "x", this.#nonFinite, x, ADWIN_LIMIT); // throws unless a non-finite number to skip
       this.#skipped += 1;
       return this.#reading(i, false);
     }
@@ -198,8 +201,10 @@ export class Adwin implements ChangeTest {
       const k = this.#insertRun(xs, j, stop);
       if (this.#sinceCheck === this.#checkPeriod && this.#checkAndCut()) return k - 1;
       if (k < stop) {
-        // a non-finite sample at xs[k]
-        if (refuse) throw new NonFiniteError(NAME, `xs[${k}]`, xs[k]);
+        // a non-finite sample, or one beyond the accepted range, at xs[k]
+        const x = xs[k] as number;
+        if (x - x === 0) acceptSample(NAME, `xs[${k}]`, "refuse", x, ADWIN_LIMIT);
+        if (refuse) throw new NonFiniteError(NAME, `xs[${k}]`, x);
         this.#skipped += 1;
         j = k + 1;
       } else {
@@ -346,7 +351,7 @@ export class Adwin implements ChangeTest {
     let j = from;
     for (; j < stop; j++) {
       const x = xs[j] as number;
-      if (!(x - x === 0)) break;
+      if (!(Math.abs(x) <= ADWIN_LIMIT)) break; // NaN, ±Infinity or beyond the accepted range
       total += x;
       width += 1;
       const c0 = counts[0] as number;

@@ -1,9 +1,17 @@
-import type { SnapshotReader } from "@leeway/core";
+import { finiteNumber, integerInRange, numberInRange, OptionError, type SnapshotReader } from "@leeway/core";
+import { MAX_SAMPLE_MAGNITUDE } from "@leeway/stats";
+
+/**
+ * The smallest σ a chart standardises by, in score units: with samples and μ₀ within ±10¹⁰⁰ every
+ * standardised sample stays within ±2·10²⁰⁰, so no sum or square of the charts overflows. A burn-in
+ * whose σ is smaller (its samples all equal, in practice) goes on.
+ */
+export const MIN_SIGMA = 1e-100;
 
 /**
  * In-control mean and standard deviation estimated from the first samples of a stream
  * (Welford, 1962: n ← n + 1, d = x − x̄, x̄ ← x̄ + d/n, M₂ ← M₂ + d·(x − x̄); s = √(M₂/(n − 1))).
- * The burn-in ends after `length` samples, or later if they were all equal (s would be 0).
+ * The burn-in ends after `length` samples, or later while s < {@link MIN_SIGMA} (samples all equal, in practice).
  */
 export interface BurnIn {
   /** Samples taken into the estimate. */
@@ -19,13 +27,42 @@ export function emptyBurnIn(): BurnIn {
   return { count: 0, mean: 0, m2: 0 };
 }
 
-/** Adds one sample; returns true when the estimate is complete (n ≥ length and M₂ > 0). */
+/** Adds one sample; returns true when the estimate is complete (n ≥ length and s ≥ {@link MIN_SIGMA}). */
 export function burnInStep(b: BurnIn, x: number, length: number): boolean {
   b.count += 1;
   const d = x - b.mean;
   b.mean += d / b.count;
   b.m2 += d * (x - b.mean);
-  return b.count >= length && b.m2 > 0;
+  return b.count >= length && b.m2 >= MIN_SIGMA * MIN_SIGMA * (b.count - 1);
+}
+
+/** μ₀ and σ of a chart, given as options or to be estimated by a burn-in, as its constructor keeps them. */
+export interface InControlSetting {
+  /** μ₀, NaN while burning in. */
+  mean: number;
+  /** σ, NaN while burning in. */
+  sigma: number;
+  /** Samples of the burn-in, 0 when μ₀ and σ are given. */
+  burnInLength: number;
+  /** The burn-in in progress, or null. */
+  burnIn: BurnIn | null;
+}
+
+/**
+ * Validates the options `mean`, `sigma` and `burnIn` of a chart that standardises its samples: μ₀ within
+ * ±{@link MAX_SAMPLE_MAGNITUDE} and σ ≥ {@link MIN_SIGMA} (both finite), or a burn-in of at least 2 samples.
+ */
+export function inControlOptions(component: string, o: { mean?: number; sigma?: number; burnIn?: number }): InControlSetting {
+  if (o.mean !== undefined || o.sigma !== undefined) {
+    if (o.burnIn !== undefined) throw new OptionError(component, "burnIn", o.burnIn, "absent when mean and sigma are given");
+    const mean = numberInRange(component, "mean", o.mean, { min: -MAX_SAMPLE_MAGNITUDE, max: MAX_SAMPLE_MAGNITUDE });
+    const sigma = finiteNumber(component, "sigma", o.sigma);
+    if (!(sigma >= MIN_SIGMA)) throw new OptionError(component, "sigma", sigma, `a finite number >= ${MIN_SIGMA}`);
+    return { mean, sigma, burnInLength: 0, burnIn: null };
+  }
+  if (o.burnIn === undefined) throw new OptionError(component, "burnIn", o.burnIn, "an integer >= 2 when mean and sigma are not given");
+  const burnInLength = integerInRange(component, "burnIn", o.burnIn, 2, 2 ** 31 - 1);
+  return { mean: Number.NaN, sigma: Number.NaN, burnInLength, burnIn: emptyBurnIn() };
 }
 
 /** The sample standard deviation of a complete burn-in. */
@@ -37,8 +74,10 @@ export function burnInSigma(b: BurnIn): number {
 export function readBurnIn(reader: SnapshotReader): BurnIn {
   const r = reader.object("burnIn");
   const count = r.integer("count", 0, Number.MAX_SAFE_INTEGER);
-  const mean = r.number("mean");
-  const m2 = r.numberIn("m2", 0, Number.MAX_VALUE);
+  // a running mean of accepted samples, and M₂ ≤ n·(2·10¹⁰⁰)²: what the burn-in can reach
+  const mean = r.numberIn("mean", -MAX_SAMPLE_MAGNITUDE, MAX_SAMPLE_MAGNITUDE);
+  const m2 = r.numberIn("m2", 0, count * 4 * MAX_SAMPLE_MAGNITUDE * MAX_SAMPLE_MAGNITUDE);
+  if (count === 0 && mean !== 0) r.fail("burnIn.mean", "must be 0 before the first sample");
   return { count, mean, m2 };
 }
 
@@ -72,6 +111,7 @@ export function readInControlLevel(r: SnapshotReader, count: number): InControlL
   const options = { mean: undefined, sigma: undefined, burnIn: burnInLength };
   if (!known) return { options, estimated: null, burnIn };
   // the burn-in has ended: μ₀ and σ were estimated
-  if (!((sigma as number) > 0)) r.fail("sigma", `must be > 0, got ${String(sigma)}`);
+  if (!((sigma as number) >= MIN_SIGMA)) r.fail("sigma", `must be >= ${MIN_SIGMA}, got ${String(sigma)}`);
+  if (!(Math.abs(mean as number) <= MAX_SAMPLE_MAGNITUDE)) r.fail("mean", `must be within ±${MAX_SAMPLE_MAGNITUDE}, got ${String(mean)}`);
   return { options, estimated: { mean: mean as number, sigma: sigma as number }, burnIn: null };
 }

@@ -1,9 +1,6 @@
 import {
   envelope,
-  finiteNumber,
-  integerInRange,
   nonFiniteOption,
-  NonFiniteError,
   nonNegativeNumber,
   openSnapshot,
   optionsObject,
@@ -12,11 +9,12 @@ import {
   type NonFinitePolicy,
   type Snapshot,
 } from "@leeway/core";
+import { acceptSample, MAX_SAMPLE_MAGNITUDE } from "@leeway/stats";
 import type { ChangeDirection, ChangeReading, ChangeSides, ChangeTest } from "./change-test.js";
-import { burnInSigma, burnInStep, emptyBurnIn, readInControlLevel, type BurnIn } from "./burn-in.js";
+import { burnInSigma, burnInStep, inControlOptions, readInControlLevel, type BurnIn } from "./burn-in.js";
 import { scanStart, sidesOption, warningFractionOption } from "./options.js";
-import { buildFromSnapshot, definedOnly } from "./restore-support.js";
-import { lastZero, SCAN_BLOCK } from "./scan-block.js";
+import { buildFromSnapshot, definedOnly, readLevelTestFields } from "./restore-support.js";
+import { closeBlock, finishScan, lastZero, openScan, SCAN, SCAN_BLOCK, scanPosition } from "./scan-block.js";
 
 /** Options of {@link Cusum}. Give `mean` and `sigma`, or `burnIn` to estimate them. */
 export interface CusumOptions {
@@ -118,20 +116,11 @@ export class Cusum implements ChangeTest {
     this.#hDown = this.#direction === "up" ? Infinity : this.#h;
     this.#warningFraction = warningFractionOption(NAME, o.warningFraction);
     this.#nonFinite = nonFiniteOption(NAME, o.nonFinite);
-    const given = o.mean !== undefined || o.sigma !== undefined;
-    if (given) {
-      if (o.burnIn !== undefined) throw new OptionError(NAME, "burnIn", o.burnIn, "absent when mean and sigma are given");
-      this.#mean = finiteNumber(NAME, "mean", o.mean);
-      this.#sigma = positiveNumber(NAME, "sigma", o.sigma);
-      this.#burnInLength = 0;
-      this.#burnIn = null;
-    } else {
-      if (o.burnIn === undefined) throw new OptionError(NAME, "burnIn", o.burnIn, "an integer >= 2 when mean and sigma are not given");
-      this.#burnInLength = integerInRange(NAME, "burnIn", o.burnIn, 2, 2 ** 31 - 1);
-      this.#mean = Number.NaN;
-      this.#sigma = Number.NaN;
-      this.#burnIn = emptyBurnIn();
-    }
+    const level = inControlOptions(NAME, o);
+    this.#mean = level.mean;
+    this.#sigma = level.sigma;
+    this.#burnInLength = level.burnInLength;
+    this.#burnIn = level.burnIn;
     this.#invSigma = 1 / this.#sigma;
     this.#upper = this.#headStart;
     this.#lower = this.#headStart;
@@ -170,8 +159,8 @@ export class Cusum implements ChangeTest {
 
   observe(x: number): ChangeReading {
     const i = this.#count + this.#skipped;
-    if (!(x - x === 0)) {
-      if (this.#nonFinite === "refuse") throw new NonFiniteError(NAME, "x", x);
+    if (!(typeof x === "number" && Math.abs(x) <= LIMIT)) {
+      accept(NAME, "x", this.#nonFinite, x, LIMIT); // throws unless a non-finite number to skip
       this.#skipped += 1;
       return this.#reading(i);
     }
@@ -197,29 +186,20 @@ export class Cusum implements ChangeTest {
     const n = xs.length;
     for (; j < n && this.#burnIn !== null; j++) this.observe(xs[j] as number);
     if (j >= n) return -1;
-    const state = (this.#loop ??= new Float64Array(LOOP.size));
-    state[LOOP.mu] = this.#mean;
-    state[LOOP.inv] = this.#invSigma;
-    state[LOOP.k] = this.#k;
-    state[LOOP.hUp] = this.#hUp;
-    state[LOOP.hDown] = this.#hDown;
-    state[LOOP.up] = this.#upper;
-    state[LOOP.lo] = this.#lower;
-    state[LOOP.uz] = this.#upperZero;
-    state[LOOP.lz] = this.#lowerZero;
-    state[LOOP.idx] = this.#count + this.#skipped;
-    state[LOOP.skipped] = this.#skipped;
-    state[LOOP.refuse] = this.#nonFinite === "refuse" ? 1 : 0;
-    const found = cusumLoop(xs, j, state, (this.#upSums ??= new Float64Array(SCAN_BLOCK)), (this.#lowSums ??= new Float64Array(SCAN_BLOCK)));
-    this.#upper = state[LOOP.up] as number;
-    this.#lower = state[LOOP.lo] as number;
-    this.#upperZero = state[LOOP.uz] as number;
-    this.#lowerZero = state[LOOP.lz] as number;
-    this.#skipped = state[LOOP.skipped] as number;
-    this.#count = (state[LOOP.idx] as number) - this.#skipped;
-    const stop = state[LOOP.j] as number;
-    if (found < 0 && stop < n) throw new NonFiniteError(NAME, `xs[${stop}]`, xs[stop]);
-    return found;
+    const s = (this.#loop ??= new Float64Array(LOOP.size));
+    openScan(s, this.#count, this.#skipped, this.#nonFinite === "refuse", this.#upperZero, this.#lowerZero);
+    s[LOOP.mu] = this.#mean;
+    s[LOOP.inv] = this.#invSigma;
+    s[LOOP.k] = this.#k;
+    s[LOOP.hUp] = this.#hUp;
+    s[LOOP.hDown] = this.#hDown;
+    s[LOOP.up] = this.#upper;
+    s[LOOP.lo] = this.#lower;
+    const found = cusumLoop(xs, j, s, (this.#upSums ??= new Float64Array(SCAN_BLOCK)), (this.#lowSums ??= new Float64Array(SCAN_BLOCK)));
+    this.#upper = s[LOOP.up] as number;
+    this.#lower = s[LOOP.lo] as number;
+    ({ count: this.#count, skipped: this.#skipped, upperZero: this.#upperZero, lowerZero: this.#lowerZero } = scanPosition(s));
+    return finishScan(NAME, xs, s, found);
   }
 
   restart(): void {
@@ -258,16 +238,11 @@ export class Cusum implements ChangeTest {
     const k = r.number("k");
     const h = r.number("h");
     const headStart = r.number("headStart");
-    const direction = r.oneOf("direction", ["up", "down", "both"] as const);
-    const warningFraction = r.number("warningFraction");
-    const nonFinite = r.oneOf("nonFinite", ["refuse", "skip"] as const);
-    const count = r.integer("count", 0, Number.MAX_SAFE_INTEGER);
-    const skipped = r.integer("skipped", 0, Number.MAX_SAFE_INTEGER);
-    const last = count + skipped - 1;
-    const upper = r.numberIn("upper", 0, Number.MAX_VALUE);
-    const lower = r.numberIn("lower", 0, Number.MAX_VALUE);
-    const upperZero = r.integer("upperZero", -1, last);
-    const lowerZero = r.integer("lowerZero", -1, last);
+    const { direction, warningFraction, nonFinite, count, skipped, upperZero, lowerZero } = readLevelTestFields(r);
+    // each standardised sample moves a sum by less than 2·10²⁰⁰ + k
+    const reach = headStart + count * (2 * MAX_Z + Math.abs(k));
+    const upper = r.numberIn("upper", 0, reach);
+    const lower = r.numberIn("lower", 0, reach);
     const level = readInControlLevel(r, count);
     const test = buildFromSnapshot(Cusum.kind, () =>
       new Cusum(definedOnly<CusumOptions>({
@@ -320,41 +295,41 @@ export class Cusum implements ChangeTest {
   }
 }
 
-/** Slots of the state array that {@link cusumLoop} reads and writes. */
-const LOOP = { mu: 0, inv: 1, k: 2, hUp: 3, hDown: 4, up: 5, lo: 6, uz: 7, lz: 8, idx: 9, skipped: 10, refuse: 11, j: 12, size: 13 } as const;
+/** Slots of the state array that {@link cusumLoop} reads and writes, after the shared ones (see scan-block.ts). */
+const LOOP = { mu: SCAN.own, inv: SCAN.own + 1, k: SCAN.own + 2, hUp: SCAN.own + 3, hDown: SCAN.own + 4, up: SCAN.own + 5, lo: SCAN.own + 6, size: SCAN.own + 7 } as const;
+
+// Module-local copies: under the test runner's module loader an imported binding is a getter on a
+// module object, which the loop's engine code would call (and not inline) after every block.
+const findLastZero = lastZero;
+const endBlock = closeBlock;
+const accept = acceptSample;
+const LIMIT = MAX_SAMPLE_MAGNITUDE;
+/** The largest |z| = |x − μ₀|/σ: samples and μ₀ within ±10¹⁰⁰, σ ≥ 10⁻¹⁰⁰. */
+const MAX_Z = 2e200;
 
 /**
  * The hot loop of {@link Cusum.scan}, outside the class so that the engine optimizes it as a whole
  * function: the same arithmetic as `observe`, the last zeros found per block (see scan-block.ts).
- * Returns the index of the first alarm or −1; leaves in `s[LOOP.j]` where it stopped.
+ * Returns the index of the first alarm or −1; leaves in `s[SCAN.j]` where it stopped.
  */
-// Module-local copies: under the test runner's module loader an imported function is a getter on a
-// module object, which the loop's engine code would call (and not inline) after every block.
-const findLastZero = lastZero;
-
 function cusumLoop(xs: Float64Array, from: number, s: Float64Array, upSums: Float64Array, lowSums: Float64Array): number {
   const mu = s[LOOP.mu] as number;
   const inv = s[LOOP.inv] as number;
   const k = s[LOOP.k] as number;
   const hUp = s[LOOP.hUp] as number;
   const hDown = s[LOOP.hDown] as number;
-  const refuse = s[LOOP.refuse] === 1;
   let up = s[LOOP.up] as number;
   let lo = s[LOOP.lo] as number;
-  let uz = s[LOOP.uz] as number;
-  let lz = s[LOOP.lz] as number;
-  let idx = s[LOOP.idx] as number; // stream index of xs[j]
-  let skipped = s[LOOP.skipped] as number;
   const n = xs.length;
   const block = upSums.length;
   let j = from;
   let found = -1;
-  while (j < n) {
+  for (;;) {
     const blockStart = j;
     const end = Math.min(n, j + block);
     for (; j < end; j++) {
       const x = xs[j] as number;
-      if (!(x - x === 0)) break;
+      if (!(Math.abs(x) <= LIMIT)) break; // NaN, ±Infinity or beyond the accepted range
       const z = (x - mu) * inv;
       const upRaw = up + (z - k);
       up = (upRaw + Math.abs(upRaw)) * 0.5; // max(0, ·) without a branch
@@ -368,34 +343,13 @@ function cusumLoop(xs: Float64Array, from: number, s: Float64Array, upSums: Floa
         break;
       }
     }
-    const length = j - blockStart;
-    const qUp = findLastZero(upSums, length);
-    const qLow = findLastZero(lowSums, length);
-    if (qUp >= 0) uz = idx + qUp;
-    if (qLow >= 0) lz = idx + qLow;
-    idx += length;
-    let done = found >= 0 || j >= n;
-    if (!done && j < end) {
-      // a non-finite sample at xs[j]
-      if (refuse) done = true;
-      else {
-        skipped++;
-        idx++;
-        j++;
-        done = j >= n;
-      }
-    }
     // The state goes back after every block, not once after the loop: the engine compiles this
     // function while its first call is still in the loop, and code that had not run by then would
     // bail out of the compiled code at the end of every later call.
     s[LOOP.up] = up;
     s[LOOP.lo] = lo;
-    s[LOOP.uz] = uz;
-    s[LOOP.lz] = lz;
-    s[LOOP.idx] = idx;
-    s[LOOP.skipped] = skipped;
-    s[LOOP.j] = j;
-    if (done) return found;
+    const length = j - blockStart;
+    if (endBlock(s, xs, blockStart, j, end, found, findLastZero(upSums, length), findLastZero(lowSums, length))) return found;
+    j = s[SCAN.j] as number;
   }
-  return found;
 }

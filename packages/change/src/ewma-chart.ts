@@ -1,23 +1,20 @@
 import {
   envelope,
-  finiteNumber,
-  integerInRange,
   nonFiniteOption,
-  NonFiniteError,
   numberInRange,
   oneOf,
   openSnapshot,
   optionsObject,
   positiveNumber,
-  OptionError,
   type NonFinitePolicy,
   type Snapshot,
 } from "@leeway/core";
+import { acceptSample, MAX_SAMPLE_MAGNITUDE } from "@leeway/stats";
 import type { ChangeDirection, ChangeReading, ChangeSides, ChangeTest } from "./change-test.js";
-import { burnInSigma, burnInStep, emptyBurnIn, readInControlLevel, type BurnIn } from "./burn-in.js";
+import { burnInSigma, burnInStep, inControlOptions, readInControlLevel, type BurnIn } from "./burn-in.js";
 import { scanStart, sidesOption, warningFractionOption } from "./options.js";
-import { buildFromSnapshot, definedOnly } from "./restore-support.js";
-import { lastNonNegative, lastNonPositive, SCAN_BLOCK } from "./scan-block.js";
+import { buildFromSnapshot, definedOnly, readLevelTestFields } from "./restore-support.js";
+import { closeBlock, finishScan, lastNonNegative, lastNonPositive, openScan, SCAN, SCAN_BLOCK, scanPosition } from "./scan-block.js";
 
 /** Which control limits an {@link EwmaChart} uses. */
 export type EwmaLimits = "asymptotic" | "exact";
@@ -123,20 +120,11 @@ export class EwmaChart implements ChangeTest {
     this.#boundUp = this.#direction === "down" ? Infinity : bound;
     this.#boundDown = this.#direction === "up" ? Infinity : bound;
     this.#decayStep = this.#limits === "exact" ? (1 - this.#lambda) * (1 - this.#lambda) : 0;
-    const given = o.mean !== undefined || o.sigma !== undefined;
-    if (given) {
-      if (o.burnIn !== undefined) throw new OptionError(NAME, "burnIn", o.burnIn, "absent when mean and sigma are given");
-      this.#mean = finiteNumber(NAME, "mean", o.mean);
-      this.#sigma = positiveNumber(NAME, "sigma", o.sigma);
-      this.#burnInLength = 0;
-      this.#burnIn = null;
-    } else {
-      if (o.burnIn === undefined) throw new OptionError(NAME, "burnIn", o.burnIn, "an integer >= 2 when mean and sigma are not given");
-      this.#burnInLength = integerInRange(NAME, "burnIn", o.burnIn, 2, 2 ** 31 - 1);
-      this.#mean = Number.NaN;
-      this.#sigma = Number.NaN;
-      this.#burnIn = emptyBurnIn();
-    }
+    const level = inControlOptions(NAME, o);
+    this.#mean = level.mean;
+    this.#sigma = level.sigma;
+    this.#burnInLength = level.burnInLength;
+    this.#burnIn = level.burnIn;
     this.#invSigma = 1 / this.#sigma;
   }
 
@@ -167,8 +155,8 @@ export class EwmaChart implements ChangeTest {
 
   observe(x: number): ChangeReading {
     const i = this.#count + this.#skipped;
-    if (!(x - x === 0)) {
-      if (this.#nonFinite === "refuse") throw new NonFiniteError(NAME, "x", x);
+    if (!(typeof x === "number" && Math.abs(x) <= LIMIT)) {
+      accept(NAME, "x", this.#nonFinite, x, LIMIT); // throws unless a non-finite number to skip
       this.#skipped += 1;
       return this.#reading(i);
     }
@@ -192,30 +180,21 @@ export class EwmaChart implements ChangeTest {
     const n = xs.length;
     for (; j < n && this.#burnIn !== null; j++) this.observe(xs[j] as number);
     if (j >= n) return -1;
-    const state = (this.#loop ??= new Float64Array(LOOP.size));
-    state[LOOP.mu] = this.#mean;
-    state[LOOP.inv] = this.#invSigma;
-    state[LOOP.lambda] = this.#lambda;
-    state[LOOP.step] = this.#decayStep;
-    state[LOOP.bUp] = this.#boundUp;
-    state[LOOP.bDown] = this.#boundDown;
-    state[LOOP.refuse] = this.#nonFinite === "refuse" ? 1 : 0;
-    state[LOOP.z] = this.#z;
-    state[LOOP.q] = this.#decay;
-    state[LOOP.uz] = this.#upperZero;
-    state[LOOP.lz] = this.#lowerZero;
-    state[LOOP.idx] = this.#count + this.#skipped;
-    state[LOOP.skipped] = this.#skipped;
-    const found = ewmaLoop(xs, j, state, (this.#zs ??= new Float64Array(SCAN_BLOCK)));
-    this.#z = state[LOOP.z] as number;
-    this.#decay = state[LOOP.q] as number;
-    this.#upperZero = state[LOOP.uz] as number;
-    this.#lowerZero = state[LOOP.lz] as number;
-    this.#skipped = state[LOOP.skipped] as number;
-    this.#count = (state[LOOP.idx] as number) - this.#skipped;
-    const stop = state[LOOP.j] as number;
-    if (found < 0 && stop < n) throw new NonFiniteError(NAME, `xs[${stop}]`, xs[stop]);
-    return found;
+    const s = (this.#loop ??= new Float64Array(LOOP.size));
+    openScan(s, this.#count, this.#skipped, this.#nonFinite === "refuse", this.#upperZero, this.#lowerZero);
+    s[LOOP.mu] = this.#mean;
+    s[LOOP.inv] = this.#invSigma;
+    s[LOOP.lambda] = this.#lambda;
+    s[LOOP.step] = this.#decayStep;
+    s[LOOP.bUp] = this.#boundUp;
+    s[LOOP.bDown] = this.#boundDown;
+    s[LOOP.z] = this.#z;
+    s[LOOP.q] = this.#decay;
+    const found = ewmaLoop(xs, j, s, (this.#zs ??= new Float64Array(SCAN_BLOCK)));
+    this.#z = s[LOOP.z] as number;
+    this.#decay = s[LOOP.q] as number;
+    ({ count: this.#count, skipped: this.#skipped, upperZero: this.#upperZero, lowerZero: this.#lowerZero } = scanPosition(s));
+    return finishScan(NAME, xs, s, found);
   }
 
   restart(): void {
@@ -254,16 +233,11 @@ export class EwmaChart implements ChangeTest {
     const lambda = r.number("lambda");
     const L = r.number("L");
     const limits = r.oneOf("limits", ["asymptotic", "exact"] as const);
-    const direction = r.oneOf("direction", ["up", "down", "both"] as const);
-    const warningFraction = r.number("warningFraction");
-    const nonFinite = r.oneOf("nonFinite", ["refuse", "skip"] as const);
-    const count = r.integer("count", 0, Number.MAX_SAFE_INTEGER);
-    const skipped = r.integer("skipped", 0, Number.MAX_SAFE_INTEGER);
-    const last = count + skipped - 1;
-    const z = r.number("z");
+    const { direction, warningFraction, nonFinite, count, skipped, upperZero, lowerZero } = readLevelTestFields(r);
+    // z is a weighted mean of standardised samples, each within ±2·10²⁰⁰
+    const z = r.numberIn("z", -MAX_Z, MAX_Z);
     const decay = r.numberIn("decay", 0, 1);
-    const upperZero = r.integer("upperZero", -1, last);
-    const lowerZero = r.integer("lowerZero", -1, last);
+    if (count === 0 && z !== 0) r.fail("z", "must be 0 before the first sample");
     const level = readInControlLevel(r, count);
     const test = buildFromSnapshot(EwmaChart.kind, () =>
       new EwmaChart(definedOnly<EwmaChartOptions>({
@@ -303,7 +277,8 @@ export class EwmaChart implements ChangeTest {
     const z = this.#z;
     const spread = 1 - this.#decay;
     const watched = z > 0 ? this.#direction !== "down" : z < 0 ? this.#direction !== "up" : false;
-    const statistic = watched && spread > 0 ? Math.sqrt((z * z) / (this.#variance * spread)) : 0;
+    // |z|/√(σ_z²·spread) rather than √(z²/…): z² may overflow for a far-off sample
+    const statistic = watched && spread > 0 ? Math.abs(z) / Math.sqrt(this.#variance * spread) : 0;
     const change = z * z > (z > 0 ? this.#boundUp : this.#boundDown) * spread;
     const status = change ? "change" : statistic > this.#warningFraction * this.#L ? "warning" : "stable";
     if (!watched) return { index: i, status, statistic, threshold: this.#L, skipped: this.#skipped };
@@ -313,19 +288,24 @@ export class EwmaChart implements ChangeTest {
   }
 }
 
-/** Slots of the state array that {@link ewmaLoop} reads and writes. */
-const LOOP = { mu: 0, inv: 1, lambda: 2, step: 3, bUp: 4, bDown: 5, refuse: 6, z: 7, q: 8, uz: 9, lz: 10, idx: 11, skipped: 12, j: 13, size: 14 } as const;
+/** Slots of the state array that {@link ewmaLoop} reads and writes, after the shared ones (see scan-block.ts). */
+const LOOP = { mu: SCAN.own, inv: SCAN.own + 1, lambda: SCAN.own + 2, step: SCAN.own + 3, bUp: SCAN.own + 4, bDown: SCAN.own + 5, z: SCAN.own + 6, q: SCAN.own + 7, size: SCAN.own + 8 } as const;
+
+// Module-local copies: under the test runner's module loader an imported binding is a getter on a
+// module object, which the loop's engine code would call (and not inline) after every block.
+const findLastNonNegative = lastNonNegative;
+const findLastNonPositive = lastNonPositive;
+const endBlock = closeBlock;
+const accept = acceptSample;
+const LIMIT = MAX_SAMPLE_MAGNITUDE;
+/** The largest |z|: samples and μ₀ within ±10¹⁰⁰, σ ≥ 10⁻¹⁰⁰. */
+const MAX_Z = 2e200;
 
 /**
  * The hot loop of {@link EwmaChart.scan}, outside the class so that the engine optimizes it as a whole
  * function: the same arithmetic as `observe`, the last sign changes found per block.
- * Returns the index of the first alarm or −1; leaves in `s[LOOP.j]` where it stopped.
+ * Returns the index of the first alarm or −1; leaves in `s[SCAN.j]` where it stopped.
  */
-// Module-local copies: under the test runner's module loader an imported function is a getter on a
-// module object, which the loop's engine code would call (and not inline) after every block.
-const findLastNonNegative = lastNonNegative;
-const findLastNonPositive = lastNonPositive;
-
 function ewmaLoop(xs: Float64Array, from: number, s: Float64Array, zs: Float64Array): number {
   const mu = s[LOOP.mu] as number;
   const inv = s[LOOP.inv] as number;
@@ -335,23 +315,18 @@ function ewmaLoop(xs: Float64Array, from: number, s: Float64Array, zs: Float64Ar
   const bUp = s[LOOP.bUp] as number;
   const bDown = s[LOOP.bDown] as number;
   const symmetric = bUp === bDown;
-  const refuse = s[LOOP.refuse] === 1;
   let z = s[LOOP.z] as number;
   let q = s[LOOP.q] as number;
-  let uz = s[LOOP.uz] as number;
-  let lz = s[LOOP.lz] as number;
-  let idx = s[LOOP.idx] as number; // stream index of xs[blockStart]
-  let skipped = s[LOOP.skipped] as number;
   const n = xs.length;
   const block = zs.length;
   let j = from;
   let found = -1;
-  while (j < n) {
+  for (;;) {
     const blockStart = j;
     const end = Math.min(n, j + block);
     for (; j < end; j++) {
       const x = xs[j] as number;
-      if (!(x - x === 0)) break;
+      if (!(Math.abs(x) <= LIMIT)) break; // NaN, ±Infinity or beyond the accepted range
       const u = (x - mu) * inv;
       z = keep * z + lam * u;
       q = q > 1e-20 ? q * step : 0;
@@ -363,34 +338,11 @@ function ewmaLoop(xs: Float64Array, from: number, s: Float64Array, zs: Float64Ar
         break;
       }
     }
-    const length = j - blockStart;
-    const qUp = findLastNonPositive(zs, length);
-    const qLow = findLastNonNegative(zs, length);
-    if (qUp >= 0) uz = idx + qUp;
-    if (qLow >= 0) lz = idx + qLow;
-    idx += length;
-    let done = found >= 0 || j >= n;
-    if (!done && j < end) {
-      // a non-finite sample at xs[j]
-      if (refuse) done = true;
-      else {
-        skipped++;
-        idx++;
-        j++;
-        done = j >= n;
-      }
-    }
-    // The state goes back after every block, not once after the loop: the engine compiles this
-    // function while its first call is still in the loop, and code that had not run by then would
-    // bail out of the compiled code at the end of every later call.
+    // The state goes back after every block (see cusum.ts).
     s[LOOP.z] = z;
     s[LOOP.q] = q;
-    s[LOOP.uz] = uz;
-    s[LOOP.lz] = lz;
-    s[LOOP.idx] = idx;
-    s[LOOP.skipped] = skipped;
-    s[LOOP.j] = j;
-    if (done) return found;
+    const length = j - blockStart;
+    if (endBlock(s, xs, blockStart, j, end, found, findLastNonPositive(zs, length), findLastNonNegative(zs, length))) return found;
+    j = s[SCAN.j] as number;
   }
-  return found;
 }

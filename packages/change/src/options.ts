@@ -1,4 +1,5 @@
-import { integerInRange, numberInRange, oneOf, OptionError } from "@leeway/core";
+import { integerInRange, numberInRange, oneOf } from "@leeway/core";
+import { requireBatch } from "@leeway/stats";
 import type { ChangeSides } from "./change-test.js";
 
 /** The default warning fraction: `"warning"` once the statistic passes half of the threshold. */
@@ -16,8 +17,8 @@ export function sidesOption(component: string, value: unknown, fallback: ChangeS
   return oneOf(component, "direction", value, ["up", "down", "both"] as const);
 }
 
-/** Validates the `from` argument of `scan`. */
+/** Validates the arguments of `scan`: `xs` a Float64Array (else `E_SAMPLE`), `from` an index into it. */
 export function scanStart(component: string, xs: Float64Array, from: number): number {
-  if (!(xs instanceof Float64Array)) throw new OptionError(component, "xs", xs, "a Float64Array");
+  requireBatch(component, xs);
   return integerInRange(component, "from", from, 0, xs.length);
 }

@@ -1,8 +1,6 @@
 import {
   envelope,
-  finiteNumber,
   nonFiniteOption,
-  NonFiniteError,
   nonNegativeInteger,
   nonNegativeNumber,
   numberInRange,
@@ -12,10 +10,11 @@ import {
   type NonFinitePolicy,
   type Snapshot,
 } from "@leeway/core";
+import { acceptSample, MAX_SAMPLE_MAGNITUDE } from "@leeway/stats";
 import type { ChangeDirection, ChangeReading, ChangeSides, ChangeTest } from "./change-test.js";
 import { scanStart, sidesOption, warningFractionOption } from "./options.js";
-import { buildFromSnapshot, definedOnly } from "./restore-support.js";
-import { lastZero, SCAN_BLOCK } from "./scan-block.js";
+import { buildFromSnapshot, definedOnly, readLevelTestFields } from "./restore-support.js";
+import { closeBlock, finishScan, lastZero, openScan, SCAN, SCAN_BLOCK, scanPosition } from "./scan-block.js";
 
 /** Options of {@link PageHinkley}. */
 export interface PageHinkleyOptions {
@@ -108,7 +107,7 @@ export class PageHinkley implements ChangeTest {
     this.#lambdaUp = this.#direction === "down" ? Infinity : this.#threshold;
     this.#lambdaDown = this.#direction === "up" ? Infinity : this.#threshold;
     this.#meanForgetting = o.meanForgetting === undefined ? 1 : numberInRange(NAME, "meanForgetting", o.meanForgetting, { min: 0, max: 1, minExclusive: true });
-    this.#knownMean = o.knownMean === undefined ? null : finiteNumber(NAME, "knownMean", o.knownMean);
+    this.#knownMean = o.knownMean === undefined ? null : numberInRange(NAME, "knownMean", o.knownMean, { min: -MAX_SAMPLE_MAGNITUDE, max: MAX_SAMPLE_MAGNITUDE });
     this.#armAfter = o.armAfter === undefined ? 30 : nonNegativeInteger(NAME, "armAfter", o.armAfter);
     this.#warningFraction = warningFractionOption(NAME, o.warningFraction);
     this.#nonFinite = nonFiniteOption(NAME, o.nonFinite);
@@ -141,8 +140,8 @@ export class PageHinkley implements ChangeTest {
 
   observe(x: number): ChangeReading {
     const i = this.#count + this.#skipped;
-    if (!(x - x === 0)) {
-      if (this.#nonFinite === "refuse") throw new NonFiniteError(NAME, "x", x);
+    if (!(typeof x === "number" && Math.abs(x) <= LIMIT)) {
+      accept(NAME, "x", this.#nonFinite, x, LIMIT); // throws unless a non-finite number to skip
       this.#skipped += 1;
       return this.#reading(i);
     }
@@ -165,37 +164,27 @@ export class PageHinkley implements ChangeTest {
   }
 
   scan(xs: Float64Array, from = 0): number {
-    let j = scanStart(NAME, xs, from);
-    const n = xs.length;
-    const state = (this.#loop ??= new Float64Array(LOOP.size));
-    state[LOOP.alpha] = this.#meanForgetting;
-    state[LOOP.delta] = this.#tolerance;
-    state[LOOP.lamUp] = this.#lambdaUp;
-    state[LOOP.lamDown] = this.#lambdaDown;
-    state[LOOP.armAfter] = this.#armAfter;
-    state[LOOP.known] = this.#knownMean === null ? 0 : 1;
-    state[LOOP.mu0] = this.#knownMean ?? 0;
-    state[LOOP.refuse] = this.#nonFinite === "refuse" ? 1 : 0;
-    state[LOOP.w] = this.#weight;
-    state[LOOP.runMean] = this.#runningMean;
-    state[LOOP.up] = this.#upper;
-    state[LOOP.lo] = this.#lower;
-    state[LOOP.uz] = this.#upperZero;
-    state[LOOP.lz] = this.#lowerZero;
-    state[LOOP.idx] = this.#count + this.#skipped;
-    state[LOOP.skipped] = this.#skipped;
-    const found = pageHinkleyLoop(xs, j, state, (this.#upSums ??= new Float64Array(SCAN_BLOCK)), (this.#lowSums ??= new Float64Array(SCAN_BLOCK)));
-    this.#weight = state[LOOP.w] as number;
-    this.#runningMean = state[LOOP.runMean] as number;
-    this.#upper = state[LOOP.up] as number;
-    this.#lower = state[LOOP.lo] as number;
-    this.#upperZero = state[LOOP.uz] as number;
-    this.#lowerZero = state[LOOP.lz] as number;
-    this.#skipped = state[LOOP.skipped] as number;
-    this.#count = (state[LOOP.idx] as number) - this.#skipped;
-    const stop = state[LOOP.j] as number;
-    if (found < 0 && stop < n) throw new NonFiniteError(NAME, `xs[${stop}]`, xs[stop]);
-    return found;
+    const j = scanStart(NAME, xs, from);
+    const s = (this.#loop ??= new Float64Array(LOOP.size));
+    openScan(s, this.#count, this.#skipped, this.#nonFinite === "refuse", this.#upperZero, this.#lowerZero);
+    s[LOOP.alpha] = this.#meanForgetting;
+    s[LOOP.delta] = this.#tolerance;
+    s[LOOP.lamUp] = this.#lambdaUp;
+    s[LOOP.lamDown] = this.#lambdaDown;
+    s[LOOP.armAfter] = this.#armAfter;
+    s[LOOP.known] = this.#knownMean === null ? 0 : 1;
+    s[LOOP.mu0] = this.#knownMean ?? 0;
+    s[LOOP.w] = this.#weight;
+    s[LOOP.runMean] = this.#runningMean;
+    s[LOOP.up] = this.#upper;
+    s[LOOP.lo] = this.#lower;
+    const found = pageHinkleyLoop(xs, j, s, (this.#upSums ??= new Float64Array(SCAN_BLOCK)), (this.#lowSums ??= new Float64Array(SCAN_BLOCK)));
+    this.#weight = s[LOOP.w] as number;
+    this.#runningMean = s[LOOP.runMean] as number;
+    this.#upper = s[LOOP.up] as number;
+    this.#lower = s[LOOP.lo] as number;
+    ({ count: this.#count, skipped: this.#skipped, upperZero: this.#upperZero, lowerZero: this.#lowerZero } = scanPosition(s));
+    return finishScan(NAME, xs, s, found);
   }
 
   restart(): void {
@@ -232,21 +221,17 @@ export class PageHinkley implements ChangeTest {
     const r = openSnapshot(snapshot, PageHinkley.kind, PageHinkley.version);
     const alarmLevel = r.number("alarmLevel");
     const tolerance = r.number("tolerance");
-    const direction = r.oneOf("direction", ["up", "down", "both"] as const);
     const meanForgetting = r.number("meanForgetting");
     const knownMean = r.numberOrNull("knownMean");
     const armAfter = r.integer("armAfter", 0, 2 ** 31 - 1);
-    const warningFraction = r.number("warningFraction");
-    const nonFinite = r.oneOf("nonFinite", ["refuse", "skip"] as const);
-    const count = r.integer("count", 0, Number.MAX_SAFE_INTEGER);
-    const skipped = r.integer("skipped", 0, Number.MAX_SAFE_INTEGER);
-    const last = count + skipped - 1;
-    const weight = r.numberIn("weight", 0, Math.max(count, 0));
-    const runningMean = r.number("runningMean");
-    const upper = r.numberIn("upper", 0, Number.MAX_VALUE);
-    const lower = r.numberIn("lower", 0, Number.MAX_VALUE);
-    const upperZero = r.integer("upperZero", -1, last);
-    const lowerZero = r.integer("lowerZero", -1, last);
+    const { direction, warningFraction, nonFinite, count, skipped, upperZero, lowerZero } = readLevelTestFields(r);
+    // W = Σ αᵏ over the samples taken: at most the count, and at most 1/(1 − α) when α < 1 (plus rounding)
+    const weight = r.numberIn("weight", 0, Math.min(count, meanForgetting < 1 ? 1 / (1 - meanForgetting) + 1 : Infinity));
+    // a weighted mean of accepted samples; each sample moves a sum by at most 2·10¹⁰⁰ + δ
+    const runningMean = r.numberIn("runningMean", -MAX_SAMPLE_MAGNITUDE, MAX_SAMPLE_MAGNITUDE);
+    const reach = count * (2 * MAX_SAMPLE_MAGNITUDE);
+    const upper = r.numberIn("upper", 0, reach);
+    const lower = r.numberIn("lower", 0, reach);
     if ((count === 0) !== (weight === 0)) r.fail("weight", "must be 0 exactly when no sample was taken");
     const test = buildFromSnapshot(PageHinkley.kind, () =>
       new PageHinkley(definedOnly<PageHinkleyOptions>({
@@ -279,21 +264,24 @@ export class PageHinkley implements ChangeTest {
   }
 }
 
-/** Slots of the state array that {@link pageHinkleyLoop} reads and writes. */
+/** Slots of the state array that {@link pageHinkleyLoop} reads and writes, after the shared ones (see scan-block.ts). */
 const LOOP = {
-  alpha: 0, delta: 1, lamUp: 2, lamDown: 3, armAfter: 4, known: 5, mu0: 6, refuse: 7,
-  w: 8, runMean: 9, up: 10, lo: 11, uz: 12, lz: 13, idx: 14, skipped: 15, j: 16, size: 17,
+  alpha: SCAN.own, delta: SCAN.own + 1, lamUp: SCAN.own + 2, lamDown: SCAN.own + 3, armAfter: SCAN.own + 4, known: SCAN.own + 5,
+  mu0: SCAN.own + 6, w: SCAN.own + 7, runMean: SCAN.own + 8, up: SCAN.own + 9, lo: SCAN.own + 10, size: SCAN.own + 11,
 } as const;
+
+// Module-local copies: under the test runner's module loader an imported binding is a getter on a
+// module object, which the loop's engine code would call (and not inline) after every block.
+const findLastZero = lastZero;
+const endBlock = closeBlock;
+const accept = acceptSample;
+const LIMIT = MAX_SAMPLE_MAGNITUDE;
 
 /**
  * The hot loop of {@link PageHinkley.scan}, outside the class so that the engine optimizes it as a
  * whole function: the same arithmetic as `observe`, the last zeros found per block (see scan-block.ts).
- * Returns the index of the first alarm or −1; leaves in `s[LOOP.j]` where it stopped.
+ * Returns the index of the first alarm or −1; leaves in `s[SCAN.j]` where it stopped.
  */
-// Module-local copies: under the test runner's module loader an imported function is a getter on a
-// module object, which the loop's engine code would call (and not inline) after every block.
-const findLastZero = lastZero;
-
 function pageHinkleyLoop(xs: Float64Array, from: number, s: Float64Array, upSums: Float64Array, lowSums: Float64Array): number {
   const alpha = s[LOOP.alpha] as number;
   const delta = s[LOOP.delta] as number;
@@ -302,27 +290,22 @@ function pageHinkleyLoop(xs: Float64Array, from: number, s: Float64Array, upSums
   const armAfter = s[LOOP.armAfter] as number;
   const known = s[LOOP.known] === 1;
   const mu0 = s[LOOP.mu0] as number;
-  const refuse = s[LOOP.refuse] === 1;
   let w = s[LOOP.w] as number;
   let runMean = s[LOOP.runMean] as number;
   let up = s[LOOP.up] as number;
   let lo = s[LOOP.lo] as number;
-  let uz = s[LOOP.uz] as number;
-  let lz = s[LOOP.lz] as number;
-  let idx = s[LOOP.idx] as number; // stream index of xs[blockStart]
-  let skipped = s[LOOP.skipped] as number;
   const n = xs.length;
   const block = upSums.length;
   let j = from;
   let found = -1;
-  while (j < n) {
+  for (;;) {
     const blockStart = j;
     const end = Math.min(n, j + block);
     // finite samples taken so far, before xs[blockStart]
-    const countBefore = idx - skipped - blockStart;
+    const countBefore = (s[SCAN.idx] as number) - (s[SCAN.skipped] as number) - blockStart;
     for (; j < end; j++) {
       const x = xs[j] as number;
-      if (!(x - x === 0)) break;
+      if (!(Math.abs(x) <= LIMIT)) break; // NaN, ±Infinity or beyond the accepted range
       // Wₜ and 1/Wₜ depend on no sample: the division stays off the running mean's chain.
       w = alpha * w + 1;
       const r = 1 / w;
@@ -340,36 +323,13 @@ function pageHinkleyLoop(xs: Float64Array, from: number, s: Float64Array, upSums
         break;
       }
     }
-    const length = j - blockStart;
-    const qUp = findLastZero(upSums, length);
-    const qLow = findLastZero(lowSums, length);
-    if (qUp >= 0) uz = idx + qUp;
-    if (qLow >= 0) lz = idx + qLow;
-    idx += length;
-    let done = found >= 0 || j >= n;
-    if (!done && j < end) {
-      // a non-finite sample at xs[j]
-      if (refuse) done = true;
-      else {
-        skipped++;
-        idx++;
-        j++;
-        done = j >= n;
-      }
-    }
-    // The state goes back after every block, not once after the loop: the engine compiles this
-    // function while its first call is still in the loop, and code that had not run by then would
-    // bail out of the compiled code at the end of every later call.
+    // The state goes back after every block (see cusum.ts).
     s[LOOP.w] = w;
     s[LOOP.runMean] = runMean;
     s[LOOP.up] = up;
     s[LOOP.lo] = lo;
-    s[LOOP.uz] = uz;
-    s[LOOP.lz] = lz;
-    s[LOOP.idx] = idx;
-    s[LOOP.skipped] = skipped;
-    s[LOOP.j] = j;
-    if (done) return found;
+    const length = j - blockStart;
+    if (endBlock(s, xs, blockStart, j, end, found, findLastZero(upSums, length), findLastZero(lowSums, length))) return found;
+    j = s[SCAN.j] as number;
   }
-  return found;
 }

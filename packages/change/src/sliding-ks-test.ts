@@ -13,7 +13,7 @@ import {
   type NonFinitePolicy,
   type Snapshot,
 } from "@leeway/core";
-import { kolmogorovSurvival } from "@leeway/stats";
+import { acceptSample, kolmogorovSurvival } from "@leeway/stats";
 import type { ChangeDirection, ChangeReading, ChangeTest } from "./change-test.js";
 import { scanStart, warningFractionOption } from "./options.js";
 import { buildFromSnapshot, definedOnly } from "./restore-support.js";
@@ -154,8 +154,8 @@ export class SlidingKsTest implements ChangeTest {
 
   observe(x: number): SlidingKsReading {
     const i = this.#count + this.#skipped;
-    if (!(x - x === 0)) {
-      if (this.#nonFinite === "refuse") throw new NonFiniteError(NAME, "x", x);
+    if (!(typeof x === "number" && x - x === 0)) {
+      acceptSample(NAME, "x", this.#nonFinite, x); // throws unless a non-finite number to skip (order only: no range)
       this.#skipped += 1;
     } else {
       this.#step(x);

@@ -1,4 +1,4 @@
-import { acceptSample, MAX_SAMPLE_MAGNITUDE, runBatch } from "./samples.js";
+import { acceptSample, MAX_SAMPLE_MAGNITUDE, requireBatch, runBatch } from "./samples.js";
 import {
   envelope,
   nonFiniteOption,
@@ -171,7 +171,7 @@ export class EwMoments {
 
   /** Takes one sample; returns the weighted mean and variance so far. */
   observe(x: number): EwMomentsReading {
-    if (Math.abs(x) <= SAMPLE_LIMIT) {
+    if (typeof x === "number" && Math.abs(x) <= SAMPLE_LIMIT) {
       const lambda = this.#lambda;
       const weight = lambda * this.#weight + 1; // W ← λW + 1
       const r = weight === this.#weight ? this.#r : 1 / weight; // W at its fixed point keeps its 1/W
@@ -187,7 +187,7 @@ export class EwMoments {
       this.#count++;
       return { count: this.#count, mean, variance: s * r, skipped: this.#skipped };
     }
-    accept("EwMoments", this.#policy, x, SAMPLE_LIMIT); // throws under "refuse"
+    accept("EwMoments", "x", this.#policy, x, SAMPLE_LIMIT); // throws unless a non-finite number to skip
     this.#skipped++;
     return { count: this.#count, mean: this.mean, variance: this.variance, skipped: this.#skipped };
   }
@@ -200,7 +200,7 @@ export class EwMoments {
    */
   observeMany(xs: Float64Array): void {
     runBatch(
-      xs,
+      requireBatch("EwMoments", xs),
       (rest) => this.#run(rest),
       (x) => this.observe(x),
     );

@@ -11,6 +11,7 @@ export type { MannKendallResult } from "./mann-kendall.js";
 export { ksTwoSample, kolmogorovSurvival } from "./ks-two-sample.js";
 export type { KsResult } from "./ks-two-sample.js";
 export { erfc, normalCdf, normalSurvival } from "./normal-tail.js";
+export { acceptSample, requireBatch, MAX_SAMPLE_MAGNITUDE } from "./samples.js";
 export { P2Quantile } from "./p2-quantile.js";
 export type { P2QuantileOptions, P2QuantileReading, P2QuantileState } from "./p2-quantile.js";
 export { QuantileSketch } from "./quantile-sketch.js";

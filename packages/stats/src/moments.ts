@@ -1,4 +1,4 @@
-import { acceptSample, MAX_SAMPLE_MAGNITUDE } from "./samples.js";
+import { acceptSample, MAX_SAMPLE_MAGNITUDE, requireBatch } from "./samples.js";
 import {
   booleanOption,
   DimensionError,
@@ -6,6 +6,7 @@ import {
   nonFiniteOption,
   NonFiniteError,
   openSnapshot,
+  SampleError,
   OptionError,
   optionsObject,
   SnapshotError,
@@ -55,8 +56,9 @@ export const MAX_WEIGHT = 1e50;
 
 /** The non-finite policy for a weight (the sample itself passed). */
 function acceptWeight(policy: NonFinitePolicy, w: number): boolean {
-  if (Number.isFinite(w) && w <= MAX_WEIGHT) return true;
-  if (policy === "refuse") throw new NonFiniteError("Moments", Number.isFinite(w) ? `weight (<= ${MAX_WEIGHT})` : "weight", w);
+  if (w <= MAX_WEIGHT) return true;
+  if (Number.isFinite(w)) throw new SampleError("Moments", "weight", w, `a finite number in (0, ${MAX_WEIGHT}]`);
+  if (policy === "refuse") throw new NonFiniteError("Moments", "weight", w);
   return false;
 }
 
@@ -181,7 +183,7 @@ export class Moments {
    */
   observe(x: number, weight?: number): MomentsReading {
     // The common case (finite, unweighted) stays small enough to inline; the rest goes the long way.
-    if (weight === undefined && Math.abs(x) <= SAMPLE_LIMIT) this.#take(x, 1);
+    if (weight === undefined && typeof x === "number" && Math.abs(x) <= SAMPLE_LIMIT) this.#take(x, 1);
     else this.#takeChecked(x, weight);
     const count = this.#n + this.#bCount;
     if (count === 0) return { count, mean: Number.NaN, variance: Number.NaN, skipped: this.#skipped };
@@ -192,7 +194,7 @@ export class Moments {
   /** Validates the weight, applies the non-finite policy, then takes the sample. */
   #takeChecked(x: number, weight: number | undefined): void {
     const w = this.#checkWeight(weight);
-    if (accept("Moments", this.#policy, x, SAMPLE_LIMIT) && acceptWeight(this.#policy, w)) this.#take(x, w);
+    if (accept("Moments", "x", this.#policy, x, SAMPLE_LIMIT) && acceptWeight(this.#policy, w)) this.#take(x, w);
     else this.#skipped++;
   }
 
@@ -201,7 +203,9 @@ export class Moments {
    * the same state as `observe` on each element, bit for bit.
    */
   observeMany(xs: Float64Array, weights?: Float64Array): void {
+    requireBatch("Moments", xs);
     if (weights !== undefined) {
+      requireBatch("Moments", weights, "weights");
       if (!this.#weighted) throw new OptionError("Moments", "weights", weights, "omitted unless the option weighted is true");
       if (weights.length !== xs.length) throw new DimensionError("Moments", "weights", xs.length, weights.length);
       for (let i = 0; i < xs.length; i++) this.observe(xs[i] as number, weights[i] as number);
@@ -363,7 +367,8 @@ export class Moments {
   #checkWeight(weight: number | undefined): number {
     if (weight === undefined) return 1;
     if (!this.#weighted) throw new OptionError("Moments", "weight", weight, "omitted unless the option weighted is true");
-    if (typeof weight !== "number" || weight <= 0) throw new OptionError("Moments", "weight", weight, "a finite number > 0");
+    if (typeof weight !== "number") throw new SampleError("Moments", "weight", weight, "a number");
+    if (weight <= 0) throw new OptionError("Moments", "weight", weight, "a finite number > 0");
     return weight;
   }
 

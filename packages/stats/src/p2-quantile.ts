@@ -1,4 +1,4 @@
-import { acceptSample, MAX_SAMPLE_MAGNITUDE, runBatch } from "./samples.js";
+import { acceptSample, MAX_SAMPLE_MAGNITUDE, requireBatch, runBatch } from "./samples.js";
 import {
   envelope,
   nonFiniteOption,
@@ -126,7 +126,7 @@ export class P2Quantile {
 
   /** Takes one sample; returns the estimate. */
   observe(x: number): P2QuantileReading {
-    if (accept("P2Quantile", this.#policy, x, SAMPLE_LIMIT)) {
+    if (accept("P2Quantile", "x", this.#policy, x, SAMPLE_LIMIT)) {
       this.#one[0] = x;
       this.#run(this.#one);
     } else {
@@ -138,7 +138,7 @@ export class P2Quantile {
   /** Takes every sample of `xs`; the same state as `observe` on each, bit for bit (both run the same loop). */
   observeMany(xs: Float64Array): void {
     runBatch(
-      xs,
+      requireBatch("P2Quantile", xs),
       (rest) => this.#run(rest),
       (x) => this.observe(x),
     );

@@ -1,4 +1,4 @@
-import { acceptSample } from "./samples.js";
+import { acceptSample, requireBatch } from "./samples.js";
 import {
   envelope,
   integerInRange,
@@ -148,7 +148,7 @@ export class QuantileSketch {
 
   /** Takes one sample. */
   observe(x: number): QuantileSketchReading {
-    if (acceptSample("QuantileSketch", this.#policy, x)) {
+    if (acceptSample("QuantileSketch", "x", this.#policy, x)) {
       this.#take(x);
     } else {
       this.#skipped++;
@@ -158,7 +158,7 @@ export class QuantileSketch {
 
   /** Takes every sample of `xs`; the same state (coin flips included) as `observe` on each. */
   observeMany(xs: Float64Array): void {
-    const len = xs.length;
+    const len = requireBatch("QuantileSketch", xs).length;
     let i = 0;
     while (i < len) {
       // Copy samples into level 0 up to the point where `observe` would compact.

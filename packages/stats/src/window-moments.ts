@@ -1,4 +1,4 @@
-import { acceptSample, MAX_SAMPLE_MAGNITUDE, runBatch } from "./samples.js";
+import { acceptSample, MAX_SAMPLE_MAGNITUDE, requireBatch, runBatch } from "./samples.js";
 import {
   envelope,
   nonFiniteOption,
@@ -194,7 +194,7 @@ export class WindowMoments {
 
   /** Takes one sample; returns the window's moments. */
   observe(x: number): WindowMomentsReading {
-    if (accept("WindowMoments", this.#policy, x, SAMPLE_LIMIT)) {
+    if (accept("WindowMoments", "x", this.#policy, x, SAMPLE_LIMIT)) {
       this.#one[0] = x;
       this.#run(this.#one);
     } else {
@@ -206,7 +206,7 @@ export class WindowMoments {
   /** Takes every sample of `xs`; the same state as `observe` on each, bit for bit (both run the same loop). */
   observeMany(xs: Float64Array): void {
     runBatch(
-      xs,
+      requireBatch("WindowMoments", xs),
       (rest) => this.#run(rest),
       (x) => this.observe(x),
     );

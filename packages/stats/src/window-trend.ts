@@ -1,4 +1,4 @@
-import { acceptSample } from "./samples.js";
+import { acceptSample, MAX_SAMPLE_MAGNITUDE, requireBatch } from "./samples.js";
 import {
   envelope,
   nonFiniteOption,
@@ -133,7 +133,7 @@ export class WindowTrend {
 
   /** Takes one sample; returns S, its variance, z and the p-value over the window. */
   observe(x: number): WindowTrendReading {
-    if (acceptSample("WindowTrend", this.#policy, x)) {
+    if (acceptSample("WindowTrend", "x", this.#policy, x, MAX_SAMPLE_MAGNITUDE)) {
       this.#push(x);
     } else {
       this.#skipped++;
@@ -145,9 +145,10 @@ export class WindowTrend {
 
   /** Takes every sample of `xs`; the same state as `observe` on each. */
   observeMany(xs: Float64Array): void {
+    requireBatch("WindowTrend", xs);
     for (let i = 0; i < xs.length; i++) {
       const x = xs[i] as number;
-      if (Number.isFinite(x)) this.#push(x);
+      if (Math.abs(x) <= MAX_SAMPLE_MAGNITUDE) this.#push(x);
       else this.observe(x);
     }
   }
