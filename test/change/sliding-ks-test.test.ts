@@ -3,7 +3,7 @@ import { describe, expect, it } from "vitest";
 import { RandomSource } from "@leeway/core";
 import { kolmogorovSurvival, ksTwoSample } from "@leeway/stats";
 import { SlidingKsTest } from "@leeway/change";
-import { expectLeewayError } from "../support/errors.js";
+import { expectLeewayError, throughJson } from "../support/errors.js";
 import { expectRefusesCorruptions } from "../support/snapshot-corruption.js";
 import { expectRestoreContinues, expectScanEqualsObserve } from "./laws.js";
 
@@ -72,5 +72,20 @@ describe("SlidingKsTest", () => {
     const sliding = new SlidingKsTest({ recentSize: 10, referenceSize: 12 });
     sliding.scan(Float64Array.from({ length: 40 }, (_, i) => Math.sin(i)));
     expectRefusesCorruptions(SlidingKsTest.restore, sliding.snapshot(), { variableLengthPaths: [["reference"], ["recent"]] });
+  });
+
+  it("refuses snapshots whose buffers disagree with their counts: a truncated reference, or a statistic before the recent window was full (common practice, no source)", () => {
+    const collecting = new SlidingKsTest({ recentSize: 10, referenceSize: 30 });
+    collecting.scan(Float64Array.from({ length: 20 }, (_, i) => Math.sin(i)));
+    const cut = throughJson(collecting.snapshot());
+    cut.state.reference = cut.state.reference.slice(0, 15);
+    expectLeewayError(() => SlidingKsTest.restore(cut), "E_SNAPSHOT", "reference", "15");
+    const sliding = new SlidingKsTest({ recentSize: 10, referenceSize: 12 });
+    sliding.scan(Float64Array.from({ length: 40 }, (_, i) => Math.sin(i)));
+    const short = throughJson(sliding.snapshot());
+    short.state.recent = short.state.recent.slice(0, 6);
+    expectLeewayError(() => SlidingKsTest.restore(short), "E_SNAPSHOT", "statistic");
+    sliding.restart();
+    expect(() => SlidingKsTest.restore(throughJson(sliding.snapshot()))).not.toThrow();
   });
 });

@@ -235,6 +235,11 @@ export class SlidingKsTest implements ChangeTest {
     const sinceCheck = r.integer("sinceCheck", 0, checkPeriod - 1);
     if (recent.length > 0 && reference.length < referenceSize) r.fail("recent", "must be empty until the reference is complete");
     if (reference.length + recent.length > count) r.fail("count", `must be at least the samples held (${reference.length + recent.length}), got ${count}`);
+    // while the reference is being collected every finite sample goes into it
+    if (reference.length < referenceSize && count !== reference.length) r.fail("reference", `holds ${reference.length} samples, but count says ${count} were taken while it was being collected`);
+    // no test runs before the recent window is full (after the start or a restart)
+    if (recent.length < recentSize && statistic !== 0) r.fail("statistic", `must be 0 while the recent window is not full (${recent.length} of ${recentSize}), got ${statistic}`);
+    if (recent.length < recentSize && sinceCheck !== 0) r.fail("sinceCheck", `must be 0 while the recent window is not full, got ${sinceCheck}`);
     for (let k = 1; k < reference.length && reference.length === referenceSize; k++) {
       if ((reference[k] as number) < (reference[k - 1] as number)) r.fail("reference", "must be sorted once complete");
     }
