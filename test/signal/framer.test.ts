@@ -75,13 +75,52 @@ describe("Framer", () => {
   it("refuses corrupted snapshots whole", () => {
     const mid = new Framer({ size: 6, hop: 4 });
     allFrames(mid, [1, 2, 3, 4, 5, 6, 7, 8, 9]);
-    expectRefusesCorruptions((s) => Framer.restore(s), mid.snapshot(), { sizePaths: [["size"], ["hop"]], variableLengthPaths: [["buffer"]] });
+    expectRefusesCorruptions((s) => Framer.restore(s), mid.snapshot(), { sizePaths: [["size"], ["hop"]] });
     const pending = new Framer({ size: 3, hop: 5 });
     allFrames(pending, [1, 2, 3]);
     expectRefusesCorruptions((s) => Framer.restore(s), pending.snapshot(), { sizePaths: [["size"], ["hop"]] });
     const gap = new Framer({ size: 2, hop: 5 });
     allFrames(gap, [1, 2, 3]);
-    expectRefusesCorruptions((s) => Framer.restore(s), gap.snapshot(), { sizePaths: [["size"], ["hop"]], variableLengthPaths: [["buffer"]] });
+    expectRefusesCorruptions((s) => Framer.restore(s), gap.snapshot(), { sizePaths: [["size"], ["hop"]] });
+  });
+
+  it("refuses a snapshot whose buffer, frames, discard or emitted flag disagree with what its count implies (a truncated buffer among them)", () => {
+    const mid = new Framer({ size: 6, hop: 4 });
+    allFrames(mid, [1, 2, 3, 4, 5, 6, 7, 8, 9]); // one frame out, [5..9] held
+    const good = throughJson(mid.snapshot());
+    expect(good.state.buffer).toEqual([5, 6, 7, 8, 9]);
+    const damaged = [
+      { field: "buffer", state: { ...good.state, buffer: [5, 6, 7, 8] } },
+      { field: "buffer", state: { ...good.state, buffer: [] } },
+      { field: "frames", state: { ...good.state, frames: 0 } },
+      { field: "frames", state: { ...good.state, count: 5 } },
+      { field: "emitted", state: { ...good.state, emitted: true, buffer: [5, 6, 7, 8, 9, 10] } },
+    ];
+    for (const d of damaged) expectLeewayError(() => Framer.restore({ ...good, state: d.state }), "E_SNAPSHOT", `state.${d.field}`);
+    const gap = new Framer({ size: 2, hop: 5 });
+    allFrames(gap, [1, 2, 3]); // one frame out, two of three gap samples still to drop
+    const g = throughJson(gap.snapshot());
+    expect(g.state.discard).toBe(2);
+    expectLeewayError(() => Framer.restore({ ...g, state: { ...g.state, discard: 1 } }), "E_SNAPSHOT", "state.discard", "must be 2");
+  });
+
+  it("refuses non-numbers with E_SAMPLE, also under nonFinite: \"skip\", and changes nothing", () => {
+    for (const nonFinite of ["refuse", "skip"] as const) {
+      const framer = new Framer({ size: 3, nonFinite });
+      framer.observe(1);
+      const before = JSON.stringify(framer.snapshot());
+      for (const bad of ["5", null, [7], true, undefined]) expectLeewayError(() => framer.observe(bad as never), "E_SAMPLE", "Framer: x must be a number");
+      expectLeewayError(() => framer.observeMany([1, "2"] as never, () => undefined), "E_SAMPLE", "xs[1]");
+      expect(JSON.stringify(framer.snapshot())).toBe(before);
+    }
+  });
+
+  it("keeps -0 as 0, so a framer restored from JSON hands out the same frames bit for bit", () => {
+    const framer = new Framer({ size: 2 });
+    framer.observe(-0);
+    const restored = Framer.restore(throughJson(framer.snapshot()));
+    expect(Object.is(framer.observe(1)?.[0], 0)).toBe(true);
+    expect(Object.is(restored.observe(1)?.[0], 0)).toBe(true);
   });
   it("the documented example: size 4, hop 2 gives [1, 2, 3, 4] then [3, 4, 5, 6]", () => {
     const framer = new Framer({ size: 4, hop: 2 });

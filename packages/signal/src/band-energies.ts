@@ -1,4 +1,5 @@
 import { DimensionError, OptionError, finiteArray, optionsObject, positiveNumber, positiveInteger } from "@leeway/core";
+import { frameArgument, refuseNonFiniteResult } from "./sample-checks.js";
 
 /** Options of {@link BandEnergies}. */
 export interface BandEnergiesOptions {
@@ -64,13 +65,16 @@ export class BandEnergies {
 
   /** Band energies of `power` (N/2 + 1 bins) into `out` (one value per band). */
   compute(power: Float64Array, out: Float64Array = new Float64Array(this.bands)): Float64Array {
-    if (power.length !== this.#bins) throw new DimensionError("BandEnergies", "power", this.#bins, power.length);
+    frameArgument("BandEnergies", "power", power, this.#bins);
     if (out.length !== this.bands) throw new DimensionError("BandEnergies", "out", this.bands, out.length);
+    let total = 0;
     for (let b = 0; b < this.bands; b++) {
       let s = 0;
       for (let k = this.#from[b] as number, end = this.#to[b] as number; k < end; k++) s += power[k] as number;
       out[b] = s;
+      total += s - s; // NaN once any band is NaN or ±Infinity
     }
+    if (total !== 0) refuseNonFiniteResult("BandEnergies", "power", power, "band sums");
     return out;
   }
 }

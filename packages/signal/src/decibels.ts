@@ -1,4 +1,5 @@
-import { DimensionError, positiveNumber } from "@leeway/core";
+import { DimensionError, finiteNumber, positiveNumber } from "@leeway/core";
+import { frameArgument, refuseNonFiniteResult } from "./sample-checks.js";
 
 /**
  * Converts spectrum values to decibels relative to `reference`:
@@ -18,14 +19,18 @@ export function toDecibels(
   options: { reference?: number; kind?: "power" | "amplitude"; floor?: number } = {},
   out: Float64Array = new Float64Array(values.length),
 ): Float64Array {
+  frameArgument("toDecibels", "values", values);
   if (out.length !== values.length) throw new DimensionError("toDecibels", "out", values.length, out.length);
   const reference = options.reference === undefined ? 1 : positiveNumber("toDecibels", "reference", options.reference);
   const factor = options.kind === "amplitude" ? 20 : 10;
-  const floor = options.floor ?? -300;
+  const floor = options.floor === undefined ? -300 : finiteNumber("toDecibels", "floor", options.floor);
   const inv = 1 / reference;
+  let check = 0;
   for (let i = 0; i < values.length; i++) {
     const v = (values[i] as number) * inv;
+    check += v - v; // NaN once a value is NaN or ±Infinity (never mapped to the floor)
     out[i] = v > 0 ? Math.max(floor, factor * Math.log10(v)) : floor;
   }
+  if (check !== 0) refuseNonFiniteResult("toDecibels", "values", values, "ratio to the reference");
   return out;
 }

@@ -4,6 +4,8 @@ import {
   envelope,
   nonFiniteOption,
   numberInRange,
+  requireNumber,
+  requireNumbers,
   openSnapshot,
   optionsObject,
   positiveInteger,
@@ -99,10 +101,12 @@ export class Framer {
 
   /**
    * Takes one sample; returns the completed frame (an internal buffer, valid
-   * until the next call: copy it to keep it) or null.
+   * until the next call: copy it to keep it) or null. A non-number is refused
+   * with E_SAMPLE; -0 is kept as 0 (a snapshot, being JSON, cannot tell them apart).
    */
   observe(x: number): Float64Array | null {
     if (!Number.isFinite(x)) {
+      requireNumber("Framer", "x", x);
       if (this.#nonFinite === "skip") {
         this.#skipped++;
         return null;
@@ -115,7 +119,7 @@ export class Framer {
       this.#discard--;
       return null;
     }
-    this.#buffer[this.#filled++] = x;
+    this.#buffer[this.#filled++] = x + 0; // -0 + 0 is 0
     if (this.#filled < this.size) return null;
     this.#emitted = true;
     this.#frames++;
@@ -128,6 +132,7 @@ export class Framer {
    * frames emitted. Reaches the same state as calling observe on each sample.
    */
   observeMany(xs: Float64Array, onFrame: (frame: Float64Array, frameIndex: number) => void): number {
+    requireNumbers("Framer", "xs", xs);
     let emitted = 0;
     for (let i = 0; i < xs.length; i++) {
       const frame = this.observe(xs[i] as number);
@@ -178,10 +183,12 @@ export class Framer {
     const count = r.integer("count", 0, Number.MAX_SAFE_INTEGER);
     const skipped = r.integer("skipped", 0, Number.MAX_SAFE_INTEGER);
     const frames = r.integer("frames", 0, Number.MAX_SAFE_INTEGER);
-    if (emitted && buffer.length !== size) r.fail("buffer", `must hold a whole frame of ${size} samples after an emitted frame, got length ${buffer.length}`);
-    if (!emitted && buffer.length === size) r.fail("buffer", `must hold fewer than ${size} samples while no frame is pending, got length ${buffer.length}`);
-    if (discard > 0 && buffer.length > 0) r.fail("discard", `must be 0 while a frame is being filled, got ${discard}`);
-    if (frames > 0 && count < size + (frames - 1) * hop) r.fail("frames", `${frames} frames need at least ${size + (frames - 1) * hop} samples, count is ${count}`);
+    // count alone fixes where the framer stands: frames emitted, samples held, samples still to drop
+    const expected = framerLayout(count, size, hop);
+    if (frames !== expected.frames) r.fail("frames", `must be ${expected.frames} after ${count} samples (size ${size}, hop ${hop}), got ${frames}`);
+    if (emitted !== expected.emitted) r.fail("emitted", `must be ${expected.emitted} after ${count} samples (size ${size}, hop ${hop})`);
+    if (buffer.length !== expected.filled) r.fail("buffer", `must hold ${expected.filled} samples after ${count} samples (size ${size}, hop ${hop}), got length ${buffer.length}`);
+    if (discard !== expected.discard) r.fail("discard", `must be ${expected.discard} after ${count} samples (size ${size}, hop ${hop}), got ${discard}`);
     const framer = new Framer({ size, hop, nonFinite });
     framer.#buffer.set(buffer);
     framer.#filled = buffer.length;
@@ -192,4 +199,19 @@ export class Framer {
     framer.#frames = frames;
     return framer;
   }
+}
+
+/**
+ * Where a framer stands after `count` samples: frame j covers samples
+ * [j·hop, j·hop + size), so the frames emitted are those that end by `count`;
+ * the last of them is still held (emitted) when it ended exactly at `count`;
+ * otherwise the next frame holds the samples since its start, or, when it has
+ * not started (hop > size), that many samples are still to drop.
+ */
+function framerLayout(count: number, size: number, hop: number): { frames: number; filled: number; discard: number; emitted: boolean } {
+  if (count < size) return { frames: 0, filled: count, discard: 0, emitted: false };
+  const frames = Math.floor((count - size) / hop) + 1;
+  if (count === (frames - 1) * hop + size) return { frames, filled: size, discard: 0, emitted: true };
+  const nextStart = frames * hop;
+  return count < nextStart ? { frames, filled: 0, discard: nextStart - count, emitted: false } : { frames, filled: count - nextStart, discard: 0, emitted: false };
 }

@@ -12,4 +12,5 @@ export { timeFeatures, rms, peak, crestFactor, skewness, kurtosis } from "./time
 export type { TimeFeatures } from "./time-features.js";
 export { velocitySpectrum, velocityRms } from "./velocity.js";
 export { Framer } from "./framer.js";
+export { SIGNAL_SAFE_MAGNITUDE } from "./sample-checks.js";
 export type { FramerOptions, FramerState } from "./framer.js";

@@ -1,4 +1,5 @@
 import { DimensionError, OptionError, integerInRange, oneOf } from "@leeway/core";
+import { frameArgument, refuseNonFiniteResult } from "./sample-checks.js";
 
 /** How {@link reduceBins} combines the values of one group: their mean or their sum. */
 export type BinReduction = "mean" | "sum";
@@ -18,11 +19,12 @@ export type BinReduction = "mean" | "sum";
  * reduceBins(Float64Array.from([1, 3, 5, 7]), 2); // Float64Array [2, 6]
  */
 export function reduceBins(values: Float64Array, bins: number, out: Float64Array = new Float64Array(bins), how: BinReduction = "mean"): Float64Array {
-  const length = values.length;
+  const length = frameArgument("reduceBins", "values", values).length;
   if (length === 0) throw new OptionError("reduceBins", "values", values, "a non-empty Float64Array");
   const b = integerInRange("reduceBins", "bins", bins, 1, length);
   if (out.length !== b) throw new DimensionError("reduceBins", "out", b, out.length);
   const mean = oneOf("reduceBins", "how", how, ["mean", "sum"] as const) === "mean";
+  let check = 0;
   if (length % b === 0) {
     const width = length / b;
     const scale = mean ? 1 / width : 1;
@@ -30,15 +32,18 @@ export function reduceBins(values: Float64Array, bins: number, out: Float64Array
       let s = 0;
       for (let end = i + width; i < end; i++) s += values[i] as number;
       out[g] = s * scale;
+      check += s - s; // NaN once a group's sum is NaN or ±Infinity
     }
-    return out;
+  } else {
+    for (let g = 0; g < b; g++) {
+      const from = Math.floor((g * length) / b);
+      const to = Math.floor(((g + 1) * length) / b);
+      let s = 0;
+      for (let i = from; i < to; i++) s += values[i] as number;
+      out[g] = mean ? s / (to - from) : s;
+      check += s - s;
+    }
   }
-  for (let g = 0; g < b; g++) {
-    const from = Math.floor((g * length) / b);
-    const to = Math.floor(((g + 1) * length) / b);
-    let s = 0;
-    for (let i = from; i < to; i++) s += values[i] as number;
-    out[g] = mean ? s / (to - from) : s;
-  }
+  if (check !== 0) refuseNonFiniteResult("reduceBins", "values", values, "group sums");
   return out;
 }

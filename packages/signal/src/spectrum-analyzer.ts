@@ -1,4 +1,5 @@
-import { DimensionError, NonFiniteError, OptionError, oneOf, optionsObject, positiveNumber } from "@leeway/core";
+import { DimensionError, OptionError, oneOf, optionsObject, positiveNumber } from "@leeway/core";
+import { frameArgument, refuseNonFiniteResult } from "./sample-checks.js";
 import { RealFft, isPowerOfTwo, MAX_FFT_SIZE } from "./real-fft.js";
 import { makeWindow, WINDOW_NAMES, type Window, type WindowName } from "./window.js";
 
@@ -74,13 +75,13 @@ export class SpectrumAnalyzer {
    */
   transform(frame: Float64Array): Float64Array {
     const n = this.size;
-    if (frame.length !== n) throw new DimensionError("SpectrumAnalyzer", "frame", n, frame.length);
+    frameArgument("SpectrumAnalyzer", "frame", frame, n);
     const w = this.window.values;
     const work = this.#work;
     for (let i = 0; i < n; i++) work[i] = (frame[i] as number) * (w[i] as number);
     this.#fft.forward(work);
     const check = (work[0] as number) + (work[1] as number);
-    if (!Number.isFinite(check)) this.#refuseNonFinite(frame);
+    if (!Number.isFinite(check)) refuseNonFiniteResult("SpectrumAnalyzer", "frame", frame, "spectrum");
     return work;
   }
 
@@ -111,7 +112,9 @@ export class SpectrumAnalyzer {
   density(frame: Float64Array, out: Float64Array = new Float64Array(this.bins)): Float64Array {
     this.power(frame, out);
     const inv = 1 / this.binWidth;
-    for (let k = 0; k < out.length; k++) out[k] = (out[k] as number) * inv;
+    let total = 0;
+    for (let k = 0; k < out.length; k++) total += out[k] = (out[k] as number) * inv;
+    if (!(total < Infinity)) refuseNonFiniteResult("SpectrumAnalyzer", "frame", frame, "power spectral density");
     return out;
   }
 
@@ -122,20 +125,16 @@ export class SpectrumAnalyzer {
     const last = this.bins - 1;
     const dc = d[0] as number;
     const nyq = d[1] as number;
+    let total = 0;
     for (let k = 1; k < last; k++) {
       const re = d[2 * k] as number;
       const im = d[2 * k + 1] as number;
-      out[k] = re * re + im * im;
+      total += out[k] = re * re + im * im;
     }
     out[0] = dc * dc;
     out[last] = nyq * nyq;
+    // |X_k|² overflows for samples far beyond SIGNAL_SAFE_MAGNITUDE: refused rather than returned as Infinity
+    if (!(total + out[0] + out[last] < Infinity)) refuseNonFiniteResult("SpectrumAnalyzer", "frame", frame, "squared magnitude spectrum");
     return out;
-  }
-
-  #refuseNonFinite(frame: Float64Array): never {
-    for (let i = 0; i < frame.length; i++) {
-      if (!Number.isFinite(frame[i] as number)) throw new NonFiniteError("SpectrumAnalyzer", `frame[${i}]`, frame[i]);
-    }
-    throw new NonFiniteError("SpectrumAnalyzer", "frame", Infinity);
   }
 }

@@ -1,4 +1,5 @@
 import { DimensionError, OptionError, nonNegativeNumber, positiveNumber } from "@leeway/core";
+import { frameArgument, refuseNonFiniteResult } from "./sample-checks.js";
 
 /**
  * Velocity amplitude spectrum from a one-sided acceleration amplitude
@@ -18,13 +19,18 @@ import { DimensionError, OptionError, nonNegativeNumber, positiveNumber } from "
 export function velocitySpectrum(acceleration: Float64Array, binWidth: number, lowCut: number, out: Float64Array = new Float64Array(acceleration.length)): Float64Array {
   const df = positiveNumber("velocitySpectrum", "binWidth", binWidth);
   const cut = nonNegativeNumber("velocitySpectrum", "lowCut", lowCut);
+  frameArgument("velocitySpectrum", "acceleration", acceleration);
   if (out.length !== acceleration.length) throw new DimensionError("velocitySpectrum", "out", acceleration.length, out.length);
   out[0] = 0;
+  let check = 0;
   for (let k = 1; k < acceleration.length; k++) {
     const f = k * df;
     // v = a / (2πf), m/s → mm/s
-    out[k] = f < cut ? 0 : ((acceleration[k] as number) / (2 * Math.PI * f)) * 1000;
+    const v = f < cut ? 0 : ((acceleration[k] as number) / (2 * Math.PI * f)) * 1000;
+    out[k] = v;
+    check += v - v; // NaN once a value is NaN or ±Infinity
   }
+  if (check !== 0) refuseNonFiniteResult("velocitySpectrum", "acceleration", acceleration, "velocity");
   return out;
 }
 
@@ -44,7 +50,7 @@ export function velocitySpectrum(acceleration: Float64Array, binWidth: number, l
 export function velocityRms(power: Float64Array, binWidth: number, lowCut: number): number {
   const df = positiveNumber("velocityRms", "binWidth", binWidth);
   const cut = nonNegativeNumber("velocityRms", "lowCut", lowCut);
-  if (power.length < 2) throw new OptionError("velocityRms", "power", power, "a Float64Array of at least 2 bins");
+  if (frameArgument("velocityRms", "power", power).length < 2) throw new OptionError("velocityRms", "power", power, "a Float64Array of at least 2 bins");
   let sum = 0;
   for (let k = 1; k < power.length; k++) {
     const f = k * df;
@@ -52,5 +58,7 @@ export function velocityRms(power: Float64Array, binWidth: number, lowCut: numbe
     const w = 2 * Math.PI * f;
     sum += (power[k] as number) / (w * w);
   }
-  return Math.sqrt(sum) * 1000;
+  const vrms = Math.sqrt(sum) * 1000;
+  if (!Number.isFinite(vrms)) refuseNonFiniteResult("velocityRms", "power", power, "velocity RMS");
+  return vrms;
 }
