@@ -65,6 +65,8 @@ export function validateBearing(component: string, option: string, value: unknow
   const ballDiameter = positiveNumber(component, `${option}.ballDiameter`, o.ballDiameter);
   const pitchDiameter = positiveNumber(component, `${option}.pitchDiameter`, o.pitchDiameter);
   if (!(ballDiameter < pitchDiameter)) throw new OptionError(component, `${option}.ballDiameter`, ballDiameter, `smaller than pitchDiameter (${pitchDiameter})`);
+  // keeps the ball-spin order D/(2d)·(1 − ρ²) below 5·10^5, so defect frequencies stay finite
+  if (!(ballDiameter >= pitchDiameter * 1e-6)) throw new OptionError(component, `${option}.ballDiameter`, ballDiameter, `at least pitchDiameter × 1e-6 (${pitchDiameter * 1e-6})`);
   const contactAngle = numberInRange(component, `${option}.contactAngle`, o.contactAngle ?? 0, { min: 0, max: 90, maxExclusive: true });
   return { balls, ballDiameter, pitchDiameter, contactAngle };
 }

@@ -1,6 +1,6 @@
 export { bearingOrders, validateBearing, PS2_DRIVE_END_BEARING } from "./bearing.js";
 export type { BearingGeometry, BearingOrders } from "./bearing.js";
-export { defineScenario, PS2_MACHINE, MAX_SCENARIO_LENGTH } from "./scenario.js";
+export { defineScenario, PS2_MACHINE, MAX_SCENARIO_LENGTH, MAX_SCENARIO_LEVEL } from "./scenario.js";
 export type {
   Scenario,
   ScenarioSpec,

@@ -15,6 +15,16 @@ import { PS2_DRIVE_END_BEARING, validateBearing, type BearingGeometry } from "./
 /** The longest scenario accepted, in samples (10^8). */
 export const MAX_SCENARIO_LENGTH = 100_000_000;
 
+/**
+ * The largest level a scenario takes: every amplitude (m/s²), noise standard
+ * deviation (m/s²), fault gain and noise factor, the speeds in rpm, the speed
+ * gain (rpm / referenceRpm)^speedExponent of every scheduled speed, and the
+ * products of the clog gains and of the noise factors of events that overlap.
+ * Within these bounds (and sampleRate ≥ 1 Hz, reference ≥ 1e-9 m/s²) every
+ * frame and spectrum is finite: frames stay below about 10^21 m/s².
+ */
+export const MAX_SCENARIO_LEVEL = 1e6;
+
 /** The simulated machine: a centrifugal pump on a variable-speed drive. Amplitudes are peak accelerations in m/s². */
 export interface MachineSpec {
   /** Impeller vanes; the vane-pass frequency is vanes × shaft rate. */
@@ -76,7 +86,7 @@ export interface DegradationEvent {
   defect: DefectSite;
   /** s(u) = u (linear) or (e^{rate·u} − 1)/(e^{rate} − 1) (exponential), u = (i − start + 1)/(end − start). */
   growth: "linear" | "exponential";
-  /** r of the exponential law (ignored for linear). */
+  /** r of the exponential law (ignored for linear), in (0, 700]. */
   rate: number;
   /** Peak amplitude of the defect's fundamental at severity 1 and the reference speed, m/s². */
   amplitude: number;
@@ -192,15 +202,16 @@ export function defineScenario(spec: ScenarioSpec): Scenario {
   const length = integerInRange(C, "length", o.length, 1, MAX_SCENARIO_LENGTH);
   const name = o.name === undefined ? "scenario" : nonEmptyString("name", o.name);
   const seed = o.seed === undefined ? 1 : seedOption(C, "seed", o.seed);
-  const sampleRate = o.sampleRate === undefined ? 5000 : positiveNumber(C, "sampleRate", o.sampleRate);
+  const sampleRate = o.sampleRate === undefined ? 5000 : numberInRangeClosed("sampleRate", o.sampleRate, 1, 1e9);
   const frameSize = o.frameSize === undefined ? 1024 : o.frameSize;
   if (!isPowerOfTwo(frameSize) || frameSize < 8 || frameSize > 65536) throw new OptionError(C, "frameSize", frameSize, "a power of two in [8, 65536]");
   const bins = o.bins === undefined ? 256 : integerInRange(C, "bins", o.bins, 1, frameSize / 2);
   const window = o.window === undefined ? "hann" : oneOf(C, "window", o.window, WINDOW_NAMES);
-  const reference = o.reference === undefined ? 0.001 : positiveNumber(C, "reference", o.reference);
+  const reference = o.reference === undefined ? 0.001 : numberInRangeClosed("reference", o.reference, 1e-9, MAX_SCENARIO_LEVEL);
   const machine = validateMachine(o.machine);
   const schedule = validateSchedule(o.schedule, length);
   const events = validateEvents(o.events, length);
+  checkLevels(machine, schedule, events, sampleRate);
   return { name, length, seed, sampleRate, frameSize, bins, window, reference, machine, schedule, events };
 }
 
@@ -212,17 +223,17 @@ function validateMachine(value: Partial<MachineSpec> | undefined): MachineSpec {
     bearing: validateBearing(C, "machine.bearing", m.bearing ?? d.bearing),
     harmonics: amplitudes("machine.harmonics", m.harmonics ?? d.harmonics),
     vanePass: amplitudes("machine.vanePass", m.vanePass ?? d.vanePass),
-    referenceRpm: m.referenceRpm === undefined ? d.referenceRpm : positiveNumber(C, "machine.referenceRpm", m.referenceRpm),
+    referenceRpm: m.referenceRpm === undefined ? d.referenceRpm : level("machine.referenceRpm", m.referenceRpm, true),
     speedExponent: m.speedExponent === undefined ? d.speedExponent : nonNegativeNumber(C, "machine.speedExponent", m.speedExponent),
     jitter: m.jitter === undefined ? d.jitter : numberInRangeClosed("machine.jitter", m.jitter, 0, 0.1),
-    sensorNoise: m.sensorNoise === undefined ? d.sensorNoise : nonNegativeNumber(C, "machine.sensorNoise", m.sensorNoise),
-    floorNoise: m.floorNoise === undefined ? d.floorNoise : nonNegativeNumber(C, "machine.floorNoise", m.floorNoise),
+    sensorNoise: m.sensorNoise === undefined ? d.sensorNoise : level("machine.sensorNoise", m.sensorNoise, false),
+    floorNoise: m.floorNoise === undefined ? d.floorNoise : level("machine.floorNoise", m.floorNoise, false),
   };
 }
 
 function amplitudes(option: string, value: unknown): number[] {
   const xs = finiteArray(C, option, value, { atMost: 32 });
-  xs.forEach((x, i) => nonNegativeNumber(C, `${option}[${i}]`, x));
+  xs.forEach((x, i) => level(`${option}[${i}]`, x, false));
   return Array.from(xs);
 }
 
@@ -239,7 +250,7 @@ function validateSchedule(value: unknown, length: number): ModeSegment[] {
     const previous = out[i - 1];
     if (previous !== undefined && !(start > previous.start)) throw new OptionError(C, `${path}.start`, start, `greater than schedule[${i - 1}].start = ${previous.start} (segments in time order)`);
     const mode = nonEmptyString(`${path}.mode`, s.mode);
-    const rpm = positiveNumber(C, `${path}.rpm`, s.rpm);
+    const rpm = level(`${path}.rpm`, s.rpm, true);
     const known = rpmOf.get(mode);
     if (known !== undefined && known !== rpm) throw new OptionError(C, `${path}.rpm`, rpm, `${known}, the speed mode ${JSON.stringify(mode)} has earlier in the schedule`);
     rpmOf.set(mode, rpm);
@@ -261,10 +272,10 @@ function validateEvent(item: unknown, i: number, length: number): ScenarioEvent 
   if (type === "environment-shift") {
     const e = optionsObject<Extract<EventSpec, { type: "environment-shift" }>>(C, item, ["type", "start", "end", "duration", "noiseFactor", "tones", "label"]);
     const { start, end } = span(path, e, length, length);
-    const noiseFactor = e.noiseFactor === undefined ? 1 : nonNegativeNumber(C, `${path}.noiseFactor`, e.noiseFactor);
+    const noiseFactor = e.noiseFactor === undefined ? 1 : level(`${path}.noiseFactor`, e.noiseFactor, false);
     const tones = (e.tones ?? []).map((t, k) => {
       const tone = optionsObject<InterferenceTone>(C, t, ["frequency", "amplitude"]);
-      return { frequency: positiveNumber(C, `${path}.tones[${k}].frequency`, tone.frequency), amplitude: nonNegativeNumber(C, `${path}.tones[${k}].amplitude`, tone.amplitude) };
+      return { frequency: numberInRangeClosed(`${path}.tones[${k}].frequency`, tone.frequency, Number.MIN_VALUE, 1e9), amplitude: level(`${path}.tones[${k}].amplitude`, tone.amplitude, false) };
     });
     const label = e.label === undefined ? defaultEnvironmentLabel(noiseFactor, tones) : nonEmptyString(`${path}.label`, e.label);
     return { type, start, end, noiseFactor, tones, label };
@@ -274,8 +285,9 @@ function validateEvent(item: unknown, i: number, length: number): ScenarioEvent 
     const { start, end } = span(path, e, length, length);
     const defect = e.defect === undefined ? "outer-race" : oneOf(C, `${path}.defect`, e.defect, ["outer-race", "inner-race", "ball", "cage"] as const);
     const growth = e.growth === undefined ? "exponential" : oneOf(C, `${path}.growth`, e.growth, ["linear", "exponential"] as const);
-    const rate = e.rate === undefined ? 4 : positiveNumber(C, `${path}.rate`, e.rate);
-    const amplitude = e.amplitude === undefined ? 0.4 : positiveNumber(C, `${path}.amplitude`, e.amplitude);
+    // e^r must stay finite (it overflows beyond r ≈ 709.8) and s(u) > 0 from the first sample
+    const rate = e.rate === undefined ? 4 : numberInRangeClosed(`${path}.rate`, e.rate, Number.MIN_VALUE, 700);
+    const amplitude = e.amplitude === undefined ? 0.4 : level(`${path}.amplitude`, e.amplitude, true);
     const harmonics = e.harmonics === undefined ? 3 : positiveInteger(C, `${path}.harmonics`, e.harmonics, 10);
     const modulation = e.modulation === undefined ? 0.5 : numberInRangeClosed(`${path}.modulation`, e.modulation, 0, 1);
     const label = e.label === undefined ? `${defect} defect` : nonEmptyString(`${path}.label`, e.label);
@@ -284,7 +296,7 @@ function validateEvent(item: unknown, i: number, length: number): ScenarioEvent 
   const e = optionsObject<Extract<EventSpec, { type: "fault" }>>(C, item, ["type", "start", "end", "duration", "fault", "gain", "label"]);
   const { start, end } = span(path, e, length, undefined);
   const fault = oneOf(C, `${path}.fault`, e.fault, ["clog", "looseness", "impacts"] as const);
-  const gain = e.gain === undefined ? 4 : positiveNumber(C, `${path}.gain`, e.gain);
+  const gain = e.gain === undefined ? 4 : level(`${path}.gain`, e.gain, true);
   const label = e.label === undefined ? fault : nonEmptyString(`${path}.label`, e.label);
   return { type, start, end, fault, gain, label };
 }
@@ -311,6 +323,54 @@ function span(path: string, e: { start?: unknown; end?: unknown; duration?: unkn
   }
   if (end > length) throw new OptionError(C, `${path}.end`, end, `at most the scenario length ${length}`);
   return { start, end };
+}
+
+/** A level in (0, MAX_SCENARIO_LEVEL] (`positive`) or [0, MAX_SCENARIO_LEVEL]. */
+function level(option: string, value: unknown, positive: boolean): number {
+  if (typeof value !== "number" || !Number.isFinite(value) || value > MAX_SCENARIO_LEVEL || (positive ? !(value > 0) : value < 0)) {
+    throw new OptionError(C, option, value, `a finite number in ${positive ? "(0" : "[0"}, ${MAX_SCENARIO_LEVEL}]`);
+  }
+  return value;
+}
+
+/**
+ * The bounds that span several fields: the speed gain of every scheduled
+ * speed, the products of overlapping clog gains and noise factors, and (with
+ * impacts) a shaft rate below the Nyquist frequency, so that a frame holds at
+ * most one impact per two samples.
+ */
+function checkLevels(machine: MachineSpec, schedule: ModeSegment[], events: ScenarioEvent[], sampleRate: number): void {
+  const impacts = events.some((e) => e.type === "fault" && e.fault === "impacts");
+  schedule.forEach((s, i) => {
+    const gain = Math.pow(s.rpm / machine.referenceRpm, machine.speedExponent);
+    if (!(gain <= MAX_SCENARIO_LEVEL)) throw new OptionError(C, `schedule[${i}].rpm`, s.rpm, `a speed whose gain (rpm / machine.referenceRpm)^machine.speedExponent is at most ${MAX_SCENARIO_LEVEL}`);
+    if (impacts && !(s.rpm / 60 <= sampleRate / 2)) throw new OptionError(C, `schedule[${i}].rpm`, s.rpm, `at most ${sampleRate * 30} rpm: with an impacts fault the shaft rate must stay below the Nyquist frequency`);
+  });
+  const clogs = events.map((e, i) => ({ e, i })).filter((x) => x.e.type === "fault" && x.e.fault === "clog");
+  const clog = largestOverlapProduct(clogs.map(({ e, i }) => ({ start: e.start, end: e.end, factor: (e as FaultEvent).gain, index: i })));
+  if (clog !== null) throw new OptionError(C, `events[${clog.index}].gain`, clog.factor, `a gain whose product with the clog gains overlapping it is at most ${MAX_SCENARIO_LEVEL}`);
+  const shifts = events.map((e, i) => ({ e, i })).filter((x) => x.e.type === "environment-shift");
+  const noise = largestOverlapProduct(shifts.map(({ e, i }) => ({ start: e.start, end: e.end, factor: (e as EnvironmentShiftEvent).noiseFactor, index: i })));
+  if (noise !== null) throw new OptionError(C, `events[${noise.index}].noiseFactor`, noise.factor, `a factor whose product with the noise factors overlapping it is at most ${MAX_SCENARIO_LEVEL}`);
+}
+
+/** The first interval at whose start the product of the factors in force passes MAX_SCENARIO_LEVEL (a sweep over starts and ends in log space), or null. */
+function largestOverlapProduct(spans: { start: number; end: number; factor: number; index: number }[]): { index: number; factor: number } | null {
+  const points = spans.flatMap((s) => [
+    { at: s.start, log: Math.log(s.factor), span: s, isStart: true },
+    { at: s.end, log: -Math.log(s.factor), span: s, isStart: false },
+  ]);
+  // ends before starts at the same sample: an event's end is exclusive
+  points.sort((a, b) => a.at - b.at || Number(a.isStart) - Number(b.isStart));
+  const limit = Math.log(MAX_SCENARIO_LEVEL) + 1e-9;
+  let zeros = 0; // factors of 0 in force make the product 0
+  let sum = 0;
+  for (const p of points) {
+    if (p.span.factor === 0) zeros += p.isStart ? 1 : -1;
+    else sum += p.log;
+    if (p.isStart && zeros === 0 && sum > limit) return { index: p.span.index, factor: p.span.factor };
+  }
+  return null;
 }
 
 function nonEmptyString(option: string, value: unknown): string {
