@@ -1,5 +1,5 @@
 import fc from "fast-check";
-import { Adwin, Cusum, EwmaChart, KsWindow, PageHinkley } from "@leeway/change";
+import { Adwin, ChangePointPosterior, ConformalMartingale, Cusum, EwmaChart, PageHinkley, SlidingKsTest } from "@leeway/change";
 import { given, nonFinite, scalarSubject } from "./streams.js";
 
 const sides = fc.constantFrom(undefined, "up", "down", "both");
@@ -17,7 +17,7 @@ export const changeSubjects = [
   ),
   scalarSubject(
     "PageHinkley",
-    fc.record({ threshold: fc.double({ min: 1, max: 50, noNaN: true }), delta: fc.constantFrom(undefined, 0, 0.1, 1), direction: sides, forgetting: fc.constantFrom(undefined, 1, 0.99), minSamples: fc.constantFrom(undefined, 1, 5), nonFinite }).map(given),
+    fc.record({ alarmLevel: fc.double({ min: 1, max: 50, noNaN: true }), tolerance: fc.constantFrom(undefined, 0, 0.1, 1), direction: sides, meanForgetting: fc.constantFrom(undefined, 1, 0.99), armAfter: fc.constantFrom(undefined, 1, 5), nonFinite }).map(given),
     (o) => new PageHinkley(o),
     PageHinkley.restore,
   ),
@@ -37,9 +37,24 @@ export const changeSubjects = [
     Adwin.restore,
   ),
   scalarSubject(
-    "KsWindow",
-    fc.record({ window: fc.integer({ min: 8, max: 20 }), checkPeriod: fc.constantFrom(undefined, 1, 3), nonFinite }).map(given),
-    (o) => new KsWindow(o),
-    KsWindow.restore,
+    "SlidingKsTest",
+    fc.record({ recentSize: fc.integer({ min: 8, max: 20 }), checkPeriod: fc.constantFrom(undefined, 1, 3), nonFinite }).map(given),
+    (o) => new SlidingKsTest(o),
+    SlidingKsTest.restore,
+  ),
+  scalarSubject(
+    "ConformalMartingale",
+    fc.record({ threshold: fc.constantFrom(undefined, 20, 100), betting: fc.constantFrom(undefined, "jumper", "power", "mixture"), burnIn: fc.constantFrom(undefined, 10, 20), direction: sides, seed: fc.integer({ min: 0, max: 1000 }), nonFinite }).map(given),
+    (o) => new ConformalMartingale(o),
+    ConformalMartingale.restore,
+  ),
+  scalarSubject(
+    "ChangePointPosterior",
+    fc.oneof(
+      fc.record({ scale: fc.constant("linear"), mean: fc.double({ min: -5, max: 5, noNaN: true }), sigma: fc.double({ min: 0.1, max: 5, noNaN: true }), expectedRunLength: fc.constantFrom(undefined, 20, 100), maxHypotheses: fc.constantFrom(undefined, 16), nonFinite }),
+      fc.record({ scale: fc.constant("linear"), burnIn: fc.integer({ min: 3, max: 10 }), nonFinite }),
+    ).map(given),
+    (o) => new ChangePointPosterior(o),
+    ChangePointPosterior.restore,
   ),
 ];

@@ -1,4 +1,5 @@
 import fc from "fast-check";
+import { StateError } from "@leeway/core";
 import { AutoencoderPool, FrozenModel, OselmAutoencoder } from "@leeway/pool";
 import type { FuzzSubject } from "../probe.js";
 import { given, nonFinite, placeInVector, vectorStream } from "./streams.js";
@@ -30,12 +31,26 @@ const withSize = <T>(make: (n: number) => fc.Arbitrary<T>): fc.Arbitrary<T> => f
 
 const placeStep = (s: VectorStep, value: unknown, at: number): unknown => ({ ...s, x: placeInVector(s.x, value, at) });
 
+/** A learn the model refuses as numerically unsafe (E_STATE, state kept) is a reading of its own, not a failure. */
+function refusable(run: () => unknown): unknown {
+  try {
+    return run();
+  } catch (error) {
+    if (error instanceof StateError) return { refused: error.message };
+    throw error;
+  }
+}
+
+/** What a refused update may change: its counters and last reason. */
+const BOOKKEEPING = ["refused", "lastRefusal", "resets"] as const;
+
 /** The OS-ELM autoencoder: learn and score by turns. */
 export const autoencoderSubject: FuzzSubject<OselmAutoencoder, VectorStep> = {
   name: "OselmAutoencoder",
   setup: withSize((n) => fc.record({ options: modelOptions(n), inputs: steps(n) })),
   create: (o) => new OselmAutoencoder(o as never),
-  feed: (c, s) => (s.op === "learn" ? c.learn(s.x) : c.score(s.x)),
+  feed: (c, s) => refusable(() => (s.op === "learn" ? c.learn(s.x) : c.score(s.x))),
+  bookkeeping: BOOKKEEPING,
   snapshot: (c) => c.snapshot(),
   restore: OselmAutoencoder.restore,
   place: placeStep,
@@ -87,11 +102,13 @@ export const poolSubject: FuzzSubject<AutoencoderPool, VectorStep> = {
     p.addMember(rows, "first");
     return p;
   },
-  feed: (c, s) => {
-    if (s.op === "learn") return c.learn(s.x);
-    const r = c.score(s.x);
-    return { member: r.member, loss: r.loss, losses: Array.from(r.losses) };
-  },
+  feed: (c, s) =>
+    refusable(() => {
+      if (s.op === "learn") return c.learn(s.x);
+      const r = c.score(s.x);
+      return { member: r.member, loss: r.loss, losses: Array.from(r.losses) };
+    }),
+  bookkeeping: BOOKKEEPING,
   snapshot: (c) => c.snapshot(),
   restore: AutoencoderPool.restore,
   place: placeStep,
