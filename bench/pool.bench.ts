@@ -1,7 +1,7 @@
 import { it } from "vitest";
 import { Matrix } from "ml-matrix";
 import { RandomSource } from "@leeway/core";
-import { AutoencoderPool, OselmAutoencoder, type AutoencoderPoolOptions, type Dtype } from "@leeway/pool";
+import { AutoencoderPool, OselmAutoencoder, type AutoencoderPoolOptions, type Dtype, type Kernel } from "@leeway/pool";
 import { BenchReport, consume } from "./harness.js";
 import { interleave, ratio, show, spread, type Run, type Timing } from "./pool-timing.js";
 
@@ -98,14 +98,14 @@ class MatrixAutoencoder {
   }
 }
 
-function fitted(dtype: Dtype, data: Float64Array[], seed = 4): OselmAutoencoder {
-  const model = new OselmAutoencoder({ inputs: n, hidden: L, seed, dtype });
+function fitted(dtype: Dtype, data: Float64Array[], kernel: Kernel = "typescript"): OselmAutoencoder {
+  const model = new OselmAutoencoder({ inputs: n, hidden: L, seed: 4, dtype, kernel });
   model.fit(data.slice(0, 64));
   return model;
 }
 
 function pool(data: Float64Array[], options: Partial<AutoencoderPoolOptions> = {}): AutoencoderPool {
-  const p = new AutoencoderPool({ inputs: n, hidden: L, maxMembers: 4, seed: 5, ...options });
+  const p = new AutoencoderPool({ inputs: n, hidden: L, maxMembers: 4, seed: 5, kernel: "typescript", ...options });
   for (let m = 0; m < 4; m++) p.addMember(rows(64, 10 + m));
   void data;
   return p;
@@ -157,6 +157,10 @@ it("pool: OS-ELM autoencoder 256-32-256 and a pool of 4, against dot4 and ml-mat
     matrixLearn: { ops: 8, run: () => { for (let i = 0; i < 8; i++) reference.learn(next()); consume(reference.p.get(0, 0)); } },
     pool4: poolRun(pool(data)),
     pool4shared: poolRun(pool(data, { sharedHiddenLayer: true })),
+    scoreSimd: scoreRun(fitted("float64", data, "wasm-simd")),
+    learnSimd: learnRun(fitted("float64", data, "wasm-simd")),
+    pool4simd: poolRun(pool(data, { kernel: "wasm-simd" })),
+    pool4sharedSimd: poolRun(pool(data, { kernel: "wasm-simd", sharedHiddenLayer: true })),
   };
   for (const k of [1, 4, 8, 16, 64]) runs[`chunk${k}`] = chunkRun(fitted("float64", data), k);
   const times = interleave(runs, ROUNDS, MIN_MS);
@@ -185,5 +189,9 @@ it("pool: OS-ELM autoencoder 256-32-256 and a pool of 4, against dot4 and ml-mat
   }
   line("pool of 4: score all + learn nearest", "pool4", 4 * SCORE_MA + UPDATE_MA, "");
   line("pool of 4, sharedHiddenLayer", "pool4shared", 5 * L * n + UPDATE_MA, `; shared/own (CPU) ${show(ratio(T("pool4shared"), T("pool4"), "cpu"))}`);
+  line("score float64, kernel wasm-simd", "scoreSimd", SCORE_MA, `; typescript/simd (CPU) ${show(ratio(T("score64"), T("scoreSimd"), "cpu"))}`);
+  line("learn float64, kernel wasm-simd", "learnSimd", LEARN_MA, `; typescript/simd (CPU) ${show(ratio(T("learn64"), T("learnSimd"), "cpu"))}`);
+  line("pool of 4, kernel wasm-simd", "pool4simd", 4 * SCORE_MA + UPDATE_MA, `; typescript/simd (CPU) ${show(ratio(T("pool4"), T("pool4simd"), "cpu"))}`);
+  line("pool of 4, wasm-simd + sharedHiddenLayer", "pool4sharedSimd", 5 * L * n + UPDATE_MA, `; typescript own layers/this (CPU) ${show(ratio(T("pool4"), T("pool4sharedSimd"), "cpu"))}`);
   report.write();
 });

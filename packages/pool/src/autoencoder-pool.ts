@@ -9,6 +9,7 @@ import {
   integerInRange,
   MAX_SNAPSHOT_ELEMENTS,
   nonFiniteOption,
+  oneOf,
   openSnapshot,
   optionsObject,
   requireNumbers,
@@ -24,6 +25,7 @@ import { FrozenModel } from "./frozen-model.js";
 import { learningOptions, MAX_HIDDEN, MAX_INPUTS, OselmAutoencoder, SCORE_SHARED, type OselmAutoencoderOptions, type OselmAutoencoderState } from "./oselm-autoencoder.js";
 import { scalingOption, type ScalingOption } from "./scaling.js";
 import { DTYPES, type Dtype } from "./vector.js";
+import { KERNELS, type Kernel } from "./wasm-kernels.js";
 
 const COMPONENT = "AutoencoderPool";
 /** Largest accepted maxMembers. */
@@ -38,7 +40,7 @@ export const MAX_SPAWN_PATIENCE = 10_000;
  * `nonFinite` applies to `learn`; `score` always refuses non-finite values.
  */
 export interface AutoencoderPoolOptions
-  extends Pick<OselmAutoencoderOptions, "activation" | "ridge" | "forgetting" | "traceBound" | "dtype" | "scaling" | "nonFinite"> {
+  extends Pick<OselmAutoencoderOptions, "activation" | "ridge" | "forgetting" | "traceBound" | "dtype" | "scaling" | "nonFinite" | "kernel"> {
   /** n, the input length of every member. */
   inputs: number;
   /** L, the hidden units of every member. */
@@ -122,6 +124,8 @@ export interface AutoencoderPoolState {
   scalingOffset: number[] | null;
   scalingScale: number[] | null;
   nonFinite: NonFinitePolicy;
+  /** The members' kernel, or null for the model's default. */
+  kernel: Kernel | null;
   spawned: number;
   calls: number;
   skipped: number;
@@ -144,7 +148,7 @@ export interface AutoencoderPoolState {
  */
 export class AutoencoderPool {
   static readonly kind = "leeway.pool.autoencoder-pool";
-  static readonly version = 2;
+  static readonly version = 3;
 
   readonly #n: number;
   readonly #L: number;
@@ -165,7 +169,7 @@ export class AutoencoderPool {
 
   constructor(options: AutoencoderPoolOptions) {
     const o = optionsObject<AutoencoderPoolOptions>(COMPONENT, options, [
-      "inputs", "hidden", "maxMembers", "spawnLoss", "spawnPatience", "seed", "activation", "ridge", "forgetting", "traceBound", "dtype", "scaling", "nonFinite", "sharedHiddenLayer",
+      "inputs", "hidden", "maxMembers", "spawnLoss", "spawnPatience", "seed", "activation", "ridge", "forgetting", "traceBound", "dtype", "scaling", "nonFinite", "sharedHiddenLayer", "kernel",
     ]);
     if (o.inputs === undefined) throw new OptionError(COMPONENT, "inputs", undefined, `an integer in [1, ${MAX_INPUTS}]`);
     this.#n = positiveInteger(COMPONENT, "inputs", o.inputs, MAX_INPUTS);
@@ -201,6 +205,10 @@ export class AutoencoderPool {
     if (o.forgetting !== undefined) memberOptions.forgetting = o.forgetting;
     if (o.traceBound !== undefined) memberOptions.traceBound = o.traceBound;
     if (o.dtype !== undefined) memberOptions.dtype = o.dtype;
+    if (o.kernel !== undefined) {
+      memberOptions.kernel = oneOf(COMPONENT, "kernel", o.kernel, KERNELS);
+      if (o.kernel === "wasm-simd" && o.dtype === "float32") throw new OptionError(COMPONENT, "kernel", o.kernel, '"typescript" for float32 state (the SIMD kernels are float64)');
+    }
     this.#memberOptions = memberOptions;
   }
 
@@ -389,6 +397,7 @@ export class AutoencoderPool {
       scalingOffset: given === null ? null : toPlainArray(given.offset),
       scalingScale: given === null ? null : toPlainArray(given.scale),
       nonFinite: this.#nonFinite,
+      kernel: o.kernel ?? null,
       spawned: this.#spawned,
       calls: this.#calls,
       skipped: this.#skipped,
@@ -423,6 +432,8 @@ export class AutoencoderPool {
       if (s.raw("scalingScale") !== null) s.fail("scalingScale", `must be null for scaling ${JSON.stringify(scaling)}`);
     }
     const nonFinite = s.oneOf("nonFinite", ["refuse", "skip"] as const);
+    const kernelRaw = s.raw("kernel");
+    const kernel = kernelRaw === null ? undefined : s.oneOf("kernel", KERNELS);
     const spawned = s.integer("spawned", 0, Number.MAX_SAFE_INTEGER);
     const calls = s.integer("calls", 0, Number.MAX_SAFE_INTEGER);
     const skipped = s.integer("skipped", 0, Number.MAX_SAFE_INTEGER);
@@ -433,6 +444,7 @@ export class AutoencoderPool {
     const pendingRows = s.rawArray("pending", { max: spawnPatience - 1 });
     checkedSize(kind, "state.pending", [pendingRows.length, inputs]);
     const options: AutoencoderPoolOptions = { inputs, hidden, maxMembers, spawnPatience, seed, activation, ridge, forgetting, dtype, scaling: scalingOption, nonFinite, sharedHiddenLayer };
+    if (kernel !== undefined) options.kernel = kernel;
     if (spawnLoss !== null) options.spawnLoss = spawnLoss;
     if (traceBound !== null) options.traceBound = traceBound;
     let pool: AutoencoderPool;
@@ -489,6 +501,7 @@ export class AutoencoderPool {
     if (st.forgetting !== (o.forgetting ?? 1)) return `forgetting ${st.forgetting}`;
     if (o.traceBound !== undefined && st.traceBound !== o.traceBound) return `trace bound ${st.traceBound}`;
     if (st.dtype !== (o.dtype ?? "float64")) return `dtype ${st.dtype}`;
+    if (o.kernel !== undefined && st.kernel !== o.kernel) return `kernel ${st.kernel}`;
     if (st.scaling !== this.#scaling) return `scaling ${st.scaling}`;
     if (this.#shared && st.seed !== `${this.#seed}/shared`) return "no shared hidden layer";
     return null;

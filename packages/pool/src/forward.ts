@@ -38,10 +38,17 @@ export function hiddenForward(layer: HiddenLayer, activation: Activation, z: Flo
     h[i + 1] = (b[i + 1] as number) + (t0 + t1);
   }
   if (i < L) {
+    // the same even/odd partial sums as the rows above (and as the SIMD kernel's two lanes)
     const row = i * n;
-    let s = 0;
-    for (let j = 0; j < n; j++) s += (w[row + j] as number) * (z[j] as number);
-    h[i] = (b[i] as number) + s;
+    let s0 = 0;
+    let s1 = 0;
+    let j = 0;
+    for (; j < n2; j += 2) {
+      s0 += (w[row + j] as number) * (z[j] as number);
+      s1 += (w[row + j + 1] as number) * (z[j + 1] as number);
+    }
+    if (j < n) s0 += (w[row + j] as number) * (z[j] as number);
+    h[i] = (b[i] as number) + (s0 + s1);
   }
   activateInPlace(h, L, activation);
 }

@@ -7,3 +7,4 @@ export { AutoencoderPool, MAX_MEMBERS, MAX_SPAWN_PATIENCE } from "./autoencoder-
 export type { AutoencoderPoolOptions, AutoencoderPoolState, PoolScore, PoolLearnReading, MemberInfo } from "./autoencoder-pool.js";
 export { FrozenModel } from "./frozen-model.js";
 export type { FrozenModelState } from "./frozen-model.js";
+export type { Kernel } from "./wasm-kernels.js";

@@ -1,5 +1,6 @@
 import { gainIsSafe, type NumericLimits } from "./numeric-limits.js";
 import type { Vector } from "./vector.js";
+import type { WasmKernels } from "./wasm-kernels.js";
 
 /**
  * Why an update was refused (null: it was applied).
@@ -75,12 +76,17 @@ export function shermanMorrisonStep(
   limits: NumericLimits,
   betaBound: number,
   ws: UpdateWorkspace,
+  wasm: WasmKernels | null = null,
 ): Refusal {
   // The checks and the two long loops live in separate functions: kept
   // together in one body, V8 compiled the loops about three times slower.
   const refusal = prepareGain(p, h, e, L, n, lambda, traceBound, limits, betaBound, ws);
   if (refusal !== null) return refusal;
-  addOuterProduct(beta, ws.k, e, L, n);
+  if (wasm === null) addOuterProduct(beta, ws.k, e, L, n);
+  else {
+    wasm.k.set(ws.k);
+    wasm.rankOne();
+  }
   symmetricDowndate(p, ws.u, ws.k, L, 1 / ws.appliedForgetting);
   return null;
 }

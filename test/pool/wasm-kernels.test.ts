@@ -1,0 +1,77 @@
+import { readFileSync } from "node:fs";
+import { describe, expect, it } from "vitest";
+import wabtInit from "wabt";
+import { RandomSource } from "@leeway/core";
+import { AutoencoderPool, OselmAutoencoder, type Activation } from "@leeway/pool";
+import { KERNELS_BASE64 } from "../../packages/pool/src/wasm-binary.js";
+import { expectLeewayError, throughJson } from "../support/errors.js";
+
+function rows(seed: number, count: number, n: number): Float64Array[] {
+  const random = new RandomSource(seed);
+  const centre = random.fillNormal(new Float64Array(n));
+  return Array.from({ length: count }, () => Float64Array.from(centre, (c) => c + 0.3 * random.normal()));
+}
+
+describe("WebAssembly SIMD kernels", () => {
+  it("src/wasm-binary.ts holds exactly the bytes that wabt assembles from packages/pool/wasm/kernels.wat", async () => {
+    const wabt = await wabtInit();
+    const source = readFileSync(new URL("../../packages/pool/wasm/kernels.wat", import.meta.url), "utf8");
+    const module = wabt.parseWat("kernels.wat", source, { simd: true, bulk_memory: true });
+    module.validate();
+    const { buffer } = module.toBinary({});
+    module.destroy();
+    expect(Buffer.from(buffer).toString("base64")).toBe(KERNELS_BASE64);
+  });
+
+  it("a wasm-simd model gives the same readings and state as the TypeScript reference, bit for bit (fit, score, learn, learnChunk; odd sizes, every activation)", () => {
+    for (const [n, L, activation] of [[256, 32, "sigmoid"], [13, 7, "tanh"], [9, 5, "identity"], [1, 3, "sigmoid"]] as [number, number, Activation][]) {
+      const data = rows(n, 200, n);
+      const options = { inputs: n, hidden: L, seed: `PS-2/${n}`, activation, forgetting: 0.995 };
+      const reference = new OselmAutoencoder({ ...options, kernel: "typescript" });
+      const simd = new OselmAutoencoder({ ...options, kernel: "wasm-simd" });
+      expect(simd.fit(data.slice(0, 40))).toBe(reference.fit(data.slice(0, 40)));
+      for (const x of data.slice(40, 150)) {
+        expect(simd.score(x)).toBe(reference.score(x));
+        expect(simd.learn(x)).toBe(reference.learn(x));
+      }
+      expect(simd.learnChunk(data.slice(150, 170))).toBe(reference.learnChunk(data.slice(150, 170)));
+      for (const x of data.slice(170)) {
+        reference.score(x);
+        simd.score(x);
+        expect(simd.learnScored()).toBe(reference.learnScored());
+      }
+      expect(simd.outputWeights()).toEqual(reference.outputWeights());
+      expect(simd.inverseGram()).toEqual(reference.inverseGram());
+    }
+  });
+
+  it("the default kernel is wasm-simd for float64 state and typescript for float32", () => {
+    expect(new OselmAutoencoder({ inputs: 4, hidden: 2, seed: 1 }).snapshot().state.kernel).toBe("wasm-simd");
+    expect(new OselmAutoencoder({ inputs: 4, hidden: 2, seed: 1, dtype: "float32" }).snapshot().state.kernel).toBe("typescript");
+  });
+
+  it("the kernel is recorded in the snapshot, a restored model continues on it bit for bit, and float32 state is refused", () => {
+    const data = rows(3, 80, 16);
+    const model = new OselmAutoencoder({ inputs: 16, hidden: 6, seed: 3, kernel: "wasm-simd" });
+    for (const x of data.slice(0, 40)) model.learn(x);
+    const snapshot = throughJson(model.snapshot());
+    expect(snapshot.state.kernel).toBe("wasm-simd");
+    const copy = OselmAutoencoder.restore(snapshot);
+    for (const x of data.slice(40)) expect(copy.learn(x)).toBe(model.learn(x));
+    expect(copy.clone().snapshot()).toEqual(model.snapshot());
+    expectLeewayError(() => new OselmAutoencoder({ inputs: 4, hidden: 2, seed: 1, dtype: "float32", kernel: "wasm-simd" }), "E_OPTION", "kernel", "float32");
+    expectLeewayError(() => new OselmAutoencoder({ inputs: 4, hidden: 2, seed: 1, kernel: "avx" as "wasm-simd" }), "E_OPTION", "kernel");
+  });
+
+  it("a pool with kernel wasm-simd (and a shared hidden layer) learns exactly as the TypeScript pool", () => {
+    const data = [...rows(4, 60, 24), ...rows(5, 60, 24)];
+    for (const sharedHiddenLayer of [false, true]) {
+      const options = { inputs: 24, hidden: 8, maxMembers: 3, seed: 9, spawnLoss: 0.5, spawnPatience: 10, sharedHiddenLayer };
+      const reference = new AutoencoderPool({ ...options, kernel: "typescript" });
+      const simd = new AutoencoderPool({ ...options, kernel: "wasm-simd" });
+      for (const x of data) expect(simd.learn(x)).toEqual(reference.learn(x));
+      const copy = AutoencoderPool.restore(throughJson(simd.snapshot()));
+      for (const x of data.slice(0, 20)) expect(copy.learn(x)).toEqual(reference.learn(x));
+    }
+  });
+});
