@@ -16,6 +16,7 @@ export type {
   FaultKind,
 } from "./scenario.js";
 export { truthEvents } from "./truth.js";
+export { shiftFraction } from "./shift-fraction.js";
 export type { SampleTruth, TruthEvent } from "./truth.js";
 export { MachineSimulator, degradationSeverity } from "./machine-simulator.js";
 export type { SimulatedSpectrum, SimulatedFrame, MachineSimulatorState } from "./machine-simulator.js";

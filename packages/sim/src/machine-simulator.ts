@@ -2,6 +2,7 @@ import { LeewayError, OptionError, RandomSource, SnapshotError, envelope, openSn
 import { SpectrumAnalyzer, reduceBins } from "@leeway/signal";
 import { bearingOrders, type BearingOrders } from "./bearing.js";
 import { defineScenario, type DegradationEvent, type Scenario, type ScenarioEvent, type ScenarioSpec } from "./scenario.js";
+import { shiftFraction } from "./shift-fraction.js";
 import { addModulated, addRinging, addTone } from "./synthesis.js";
 import { truthEvents, type SampleTruth, type TruthEvent } from "./truth.js";
 
@@ -36,14 +37,16 @@ const IMPACT_AMPLITUDE = 1; // m/s² per unit of fault gain, at the reference sp
  *   f_r = rpm/60·(1 + jitter·ε), ε ~ N(0, 1) drawn per frame, and every
  *   amplitude scaled by (rpm / referenceRpm)^speedExponent;
  * - white noise of standard deviation √(σ_sensor² + (κ·σ_floor)²), κ the
- *   product of the active environment shifts' noise factors, plus their tones;
+ *   product of the active environment shifts' noise factors, plus their tones
+ *   (a ramped shift's factors and tones grow in with {@link shiftFraction});
  * - for each active degradation, the defect frequency f_d = order·f_r
  *   (BPFO, BPFI, 2·BSF or FTF from the bearing geometry) and its harmonics,
  *   amplitude A·s/h, modulated at shaft rate (1 + m·cos 2πf_r t);
  * - for each active fault: clog (vane-pass × gain), looseness (2×.. × gain,
  *   plus ½-orders and harmonics up to 8×) or impacts (once per revolution, a
  *   ringing at 1.8 kHz of gain × 1 m/s², decaying with τ = 1 ms).
- * Every tone has a random phase per frame. The noise comes from a bank of
+ * The whole frame is then multiplied by the product of the active shifts'
+ * sensor gains (a re-mounted sensor). Every tone has a random phase per frame. The noise comes from a bank of
  * max(2^16, 4·frameSize) Gaussian deviates drawn once from the seed; each frame mixes two
  * non-overlapping random segments of it, (g_a + g_b)/√2, which keeps the
  * deviates exactly N(0, 1) and makes 10^5-frame runs cheap.
@@ -235,12 +238,17 @@ export class MachineSimulator {
     const toOmega = (2 * Math.PI) / s.sampleRate;
 
     let noiseFactor = 1;
+    let sensorGain = 1;
     let clog = 1;
     let looseness = 0;
     let impacts = 0;
     for (const e of s.events) {
       if (i < e.start || i >= e.end) continue;
-      if (e.type === "environment-shift") noiseFactor *= e.noiseFactor;
+      if (e.type === "environment-shift") {
+        const f = shiftFraction(e, i);
+        noiseFactor *= 1 + (e.noiseFactor - 1) * f;
+        sensorGain *= 1 + (e.gain - 1) * f;
+      }
       else if (e.type === "fault") {
         if (e.fault === "clog") clog *= e.gain;
         else if (e.fault === "looseness") looseness = Math.max(looseness, e.gain);
@@ -273,7 +281,8 @@ export class MachineSimulator {
     for (const e of s.events) {
       if (i < e.start || i >= e.end) continue;
       if (e.type === "environment-shift") {
-        for (const tone of e.tones) addTone(buf, tone.frequency * toOmega, tone.amplitude, phase());
+        const f = shiftFraction(e, i);
+        for (const tone of e.tones) addTone(buf, tone.frequency * toOmega, tone.amplitude * f, phase());
       } else if (e.type === "degradation") {
         const severity = degradationSeverity(e, i);
         if (severity <= 0) continue;
@@ -292,6 +301,7 @@ export class MachineSimulator {
         addRinging(buf, Math.floor(at), IMPACT_AMPLITUDE * impacts * gain * (0.8 + 0.4 * rng.next()), omega, r);
       }
     }
+    if (sensorGain !== 1) for (let t = 0; t < n; t++) buf[t] = (buf[t] as number) * sensorGain;
   }
 
   #defectOrder(e: DegradationEvent): number {

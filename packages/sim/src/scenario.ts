@@ -62,7 +62,13 @@ export interface InterferenceTone {
   amplitude: number;
 }
 
-/** A change of the surroundings: the noise floor scaled and/or tones added, over [start, end). */
+/**
+ * A change of the surroundings or of the measurement over [start, end): the
+ * noise floor scaled, tones added, and/or the sensor's gain changed (a
+ * re-mounted or replaced accelerometer: every acceleration it reports is
+ * multiplied by `gain`). With `ramp` > 0 the change grows in linearly over its
+ * first `ramp` samples (see {@link shiftFraction}); with 0 it is abrupt.
+ */
 export interface EnvironmentShiftEvent {
   type: "environment-shift";
   start: number;
@@ -71,6 +77,10 @@ export interface EnvironmentShiftEvent {
   /** Factor on the machine noise floor (1 = unchanged). */
   noiseFactor: number;
   tones: InterferenceTone[];
+  /** Factor on everything the sensor reports (1 = unchanged; a re-mount). */
+  gain: number;
+  /** Samples over which the shift grows in from nothing to its full size (0 = abrupt). */
+  ramp: number;
   label: string;
 }
 
@@ -139,7 +149,7 @@ export interface Scenario {
 
 /** An event as given to {@link defineScenario}: optional fields take their defaults; give `end` or `duration`. */
 export type EventSpec =
-  | ({ type: "environment-shift"; start: number; end?: number; duration?: number; noiseFactor?: number; tones?: InterferenceTone[]; label?: string })
+  | ({ type: "environment-shift"; start: number; end?: number; duration?: number; noiseFactor?: number; tones?: InterferenceTone[]; gain?: number; ramp?: number; label?: string })
   | ({
       type: "degradation";
       start: number;
@@ -270,15 +280,17 @@ function validateEvent(item: unknown, i: number, length: number): ScenarioEvent 
   if (typeof item !== "object" || item === null) throw new OptionError(C, path, item, "an event object");
   const type = oneOf(C, `${path}.type`, (item as { type?: unknown }).type, ["environment-shift", "degradation", "fault"] as const);
   if (type === "environment-shift") {
-    const e = optionsObject<Extract<EventSpec, { type: "environment-shift" }>>(C, item, ["type", "start", "end", "duration", "noiseFactor", "tones", "label"]);
+    const e = optionsObject<Extract<EventSpec, { type: "environment-shift" }>>(C, item, ["type", "start", "end", "duration", "noiseFactor", "tones", "gain", "ramp", "label"]);
     const { start, end } = span(path, e, length, length);
     const noiseFactor = e.noiseFactor === undefined ? 1 : level(`${path}.noiseFactor`, e.noiseFactor, false);
+    const gain = e.gain === undefined ? 1 : positiveNumber(C, `${path}.gain`, e.gain);
+    const ramp = e.ramp === undefined ? 0 : integerInRange(C, `${path}.ramp`, e.ramp, 0, end - start);
     const tones = (e.tones ?? []).map((t, k) => {
       const tone = optionsObject<InterferenceTone>(C, t, ["frequency", "amplitude"]);
       return { frequency: numberInRangeClosed(`${path}.tones[${k}].frequency`, tone.frequency, Number.MIN_VALUE, 1e9), amplitude: level(`${path}.tones[${k}].amplitude`, tone.amplitude, false) };
     });
-    const label = e.label === undefined ? defaultEnvironmentLabel(noiseFactor, tones) : nonEmptyString(`${path}.label`, e.label);
-    return { type, start, end, noiseFactor, tones, label };
+    const label = e.label === undefined ? defaultEnvironmentLabel(noiseFactor, tones, gain) : nonEmptyString(`${path}.label`, e.label);
+    return { type, start, end, noiseFactor, tones, gain, ramp, label };
   }
   if (type === "degradation") {
     const e = optionsObject<Extract<EventSpec, { type: "degradation" }>>(C, item, ["type", "start", "end", "duration", "defect", "growth", "rate", "amplitude", "harmonics", "modulation", "label"]);
@@ -383,9 +395,10 @@ function numberInRangeClosed(option: string, value: unknown, min: number, max: n
   return value;
 }
 
-function defaultEnvironmentLabel(noiseFactor: number, tones: InterferenceTone[]): string {
+function defaultEnvironmentLabel(noiseFactor: number, tones: InterferenceTone[], gain: number): string {
   const parts: string[] = [];
   if (noiseFactor !== 1) parts.push(`noise floor ×${noiseFactor}`);
+  if (gain !== 1) parts.push(`sensor gain ×${gain}`);
   for (const t of tones) parts.push(`tone ${t.frequency} Hz`);
   return parts.length === 0 ? "environment shift" : parts.join(", ");
 }
