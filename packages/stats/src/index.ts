@@ -22,3 +22,7 @@ export { senSlopeInterval, SEN_INTERVAL_MAX_N, SEN_EXACT_UP_TO } from "./sen-slo
 export type { SenSlopeInterval, SenSlopeIntervalOptions } from "./sen-slope-interval.js";
 export { timeToLimit, TIME_TO_LIMIT_MIN_N } from "./time-to-limit.js";
 export type { TimeToLimit, TimeToLimitOptions, TimeToLimitEstimate, TimeToLimitReached, TimeToLimitRefused, TimeToLimitRefusal, TrendLine } from "./time-to-limit.js";
+export { mannKendallHamedRao } from "./hamed-rao.js";
+export type { HamedRaoOptions, HamedRaoResult } from "./hamed-rao.js";
+export { mannKendallPrewhitened } from "./prewhitened-trend.js";
+export type { PrewhitenedTrendResult } from "./prewhitened-trend.js";

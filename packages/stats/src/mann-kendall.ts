@@ -99,7 +99,8 @@ export function tieSum(xs: Float64Array): number {
   return ties;
 }
 
-function finiteCopy(component: string, values: ArrayLike<number>): Float64Array {
+/** A Float64Array copy of a series; a non-number or non-finite value is refused naming its index. */
+export function finiteCopy(component: string, values: ArrayLike<number>): Float64Array {
   if (values === null || typeof values !== "object" || typeof values.length !== "number") {
     throw new OptionError(component, "values", values, "an array of finite numbers");
   }
