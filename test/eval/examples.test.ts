@@ -1,5 +1,17 @@
 import { describe, expect, it } from "vitest";
 import {
+  checkTargets,
+  defaultQualityEngineOptions,
+  eventSeverity,
+  NaivePolicy,
+  onsetCusumAlarms,
+  qualityMarkdown,
+  qualityScenarios,
+  qualitySubset,
+  qualityTable,
+  runQualityScenario,
+  type QualityEvent,
+  type QualityScenario,
   anomalyMask,
   compare,
   decimate,
@@ -96,5 +108,35 @@ describe("documented examples", () => {
     const out = decimate(new Float64Array(4800).fill(1), 4);
     expect(out.length).toBe(1200);
     for (const y of out) expect(y).toBeCloseTo(1, 12);
+  });
+
+  it("qualityScenarios, qualitySubset, eventSeverity", () => {
+    const suite = qualityScenarios();
+    expect(suite.length).toBe(192);
+    expect(suite[0]?.id).toBe("abrupt-shift/1 s/noise ×1.3/1");
+    const s = suite[0] as QualityScenario;
+    expect(eventSeverity(s, s.events[0] as QualityEvent, (s.events[0] as QualityEvent).start)).toBe(1);
+    expect(qualitySubset().map((q) => q.kind)).toEqual(["abrupt-shift", "gradual-shift", "gain-change", "recurring-modes", "degradation", "degradation", "fault", "fault"]);
+  });
+
+  it("onsetCusumAlarms", () => {
+    const scores = Float64Array.from({ length: 400 }, (_, i) => Math.exp((i >= 300 ? 3 : 0) + 0.1 * Math.sin(i * 12.9898)));
+    const flags = onsetCusumAlarms({ scores, calibrationStart: 0, calibrationEnd: 200, events: [{ start: 300, end: 400 }], targetArl0: 1000 });
+    expect(flags.indexOf(1)).toBe(300);
+  });
+
+  it("NaivePolicy, defaultQualityEngineOptions, qualityTable, checkTargets, qualityMarkdown", () => {
+    const p = new NaivePolicy({ kind: "frozen", inputs: 4, hidden: 2, commissioning: 20, calibration: 20, run: 5, forgetting: 1, seed: "1" });
+    expect(p.observe(Float64Array.of(1, 2, 3, 4)).phase).toBe("commissioning");
+    expect(defaultQualityEngineOptions(1, 64)).toEqual({ inputs: 64, hidden: 8, members: 3, seed: 1 });
+    expect(qualityTable([])).toEqual([]);
+    expect(checkTargets([])).toEqual([]);
+    expect(qualityMarkdown([], [], { title: "t", scenarios: 0, samples: 0, preamble: "", plot: null }).split("\n")[0]).toBe("# Decision quality: t");
+  });
+
+  it("runQualityScenario", () => {
+    const s = qualityScenarios().find((q) => q.kind === "fault") as QualityScenario;
+    const outcome = runQualityScenario(s, { operator: () => ({ after: () => {} }) });
+    expect(outcome.policies.map((p) => p.policy)).toEqual(["engine, operator", "engine, unattended", "frozen only", "always adapt", "onset CUSUM"]);
   });
 });

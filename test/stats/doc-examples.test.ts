@@ -1,5 +1,7 @@
 import { describe, expect, it } from "vitest";
 import {
+  mannKendallHamedRao,
+  mannKendallPrewhitened,
   erfc,
   EwMoments,
   kolmogorovSurvival,
@@ -66,5 +68,15 @@ describe("the @example of every export", () => {
   it("erfc, normalSurvival", () => {
     expect(erfc(0)).toBe(1);
     expect(normalSurvival(1.959963984540054).toFixed(4)).toBe("0.0250");
+  });
+
+  it("mannKendallHamedRao", () => {
+    const r = mannKendallHamedRao([3, 1, 4, 1, 5, 9, 2, 6, 5, 3, 5, 8]);
+    expect([r.s, r.lagsUsed]).toEqual([25, []]);
+  });
+
+  it("mannKendallPrewhitened", () => {
+    const r = mannKendallPrewhitened([1.0, 1.2, 0.9, 1.4, 1.6, 1.3, 1.9, 2.1, 1.8, 2.4]);
+    expect([r.n, r.s > 0, r.phi > 0]).toEqual([10, true, true]);
   });
 });

@@ -3,6 +3,7 @@ import { helpText, parseArguments, type CommandSpec, type ParsedArguments } from
 import { calibrateSpec, runCalibrate } from "./commands/calibrate.js";
 import { demoSpec, runDemo } from "./commands/demo.js";
 import { fleetSpec, runFleet } from "./commands/fleet.js";
+import { qualitySpec, runQuality } from "./commands/quality.js";
 import { replaySpec, runReplay } from "./commands/replay.js";
 import { reportSpec, runReport } from "./commands/report.js";
 import { CliError, EXIT_INPUT, EXIT_INTERNAL, EXIT_OK, EXIT_USAGE } from "./exit-codes.js";
@@ -24,6 +25,7 @@ const COMMANDS: readonly Command[] = [
   { spec: calibrateSpec, run: runCalibrate },
   { spec: reportSpec, run: runReport },
   { spec: fleetSpec, run: () => Promise.resolve(EXIT_USAGE), dispatch: runFleet },
+  { spec: qualitySpec, run: runQuality },
 ];
 
 /** The top-level `leeway --help`. */

@@ -75,7 +75,7 @@ const MIN_FACTOR = 1e-3;
  * {@link mannKendallPrewhitened}. Needs at least 4 points. O(n²) time.
  * @example
  * const r = mannKendallHamedRao([3, 1, 4, 1, 5, 9, 2, 6, 5, 3, 5, 8]);
- * [r.s, r.lagsUsed]; // [20, []]: no significant autocorrelation, so z is the plain test's
+ * [r.s, r.lagsUsed]; // [25, []]: no significant autocorrelation, so z is the plain test's
  */
 export function mannKendallHamedRao(values: ArrayLike<number>, options: HamedRaoOptions = {}): HamedRaoResult {
   const xs = finiteCopy(NAME, values);

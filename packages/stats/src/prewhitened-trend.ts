@@ -46,7 +46,7 @@ const MAX_PHI = 0.99;
  * the noise is found. Needs at least 5 points. O(n²) time.
  * @example
  * const r = mannKendallPrewhitened([1.0, 1.2, 0.9, 1.4, 1.6, 1.3, 1.9, 2.1, 1.8, 2.4]);
- * [r.s > 0, r.phi]; // [true, 0]: no autocorrelation is left after detrending, so nothing is removed
+ * [r.n, r.s > 0, r.phi > 0]; // [10, true, true]: the rise itself raises r1, so part of it is whitened away
  */
 export function mannKendallPrewhitened(values: ArrayLike<number>): PrewhitenedTrendResult {
   const xs = finiteCopy(NAME, values);
