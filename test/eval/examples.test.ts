@@ -116,7 +116,7 @@ describe("documented examples", () => {
     expect(suite[0]?.id).toBe("abrupt-shift/1 s/noise ×1.3/1");
     const s = suite[0] as QualityScenario;
     expect(eventSeverity(s, s.events[0] as QualityEvent, (s.events[0] as QualityEvent).start)).toBe(1);
-    expect(qualitySubset().map((q) => q.kind)).toEqual(["abrupt-shift", "gradual-shift", "gain-change", "recurring-modes", "degradation", "degradation", "fault", "fault"]);
+    expect(qualitySubset().map((q) => q.kind)).toEqual(["abrupt-shift", "gradual-shift", "gain-change", "recurring-modes", "degradation", "fault", "fault", "degradation"]);
   });
 
   it("onsetCusumAlarms", () => {

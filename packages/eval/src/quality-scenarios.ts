@@ -250,7 +250,7 @@ export const QUALITY_SUBSET_IDS: readonly string[] = Object.freeze([
  * scenario of every event kind but the long quiet streams, mostly at one
  * sample per second; about 75 000 samples), for a check that runs in seconds.
  * @example
- * qualitySubset().map((s) => s.kind); // ["abrupt-shift", "gradual-shift", "gain-change", "recurring-modes", "degradation", "degradation", "fault", "fault"]
+ * qualitySubset().map((s) => s.kind); // ["abrupt-shift", "gradual-shift", "gain-change", "recurring-modes", "degradation", "fault", "fault", "degradation"]
  */
 export function qualitySubset(): QualityScenario[] {
   const one = Object.fromEntries(QUALITY_KINDS.map((k) => [k, 1])) as QualitySeeds;
