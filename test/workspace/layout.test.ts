@@ -14,7 +14,8 @@ const allowed: Record<string, string[]> = {
   signal: ["@leeway/core"],
   sim: ["@leeway/core", "@leeway/signal"],
   policy: ["@leeway/core", "@leeway/stats", "@leeway/change", "@leeway/pool"],
-  eval: ["@leeway/core", "@leeway/stats", "@leeway/change", "@leeway/policy"],
+  // eval also reads sim (the decision-quality suite's scenarios) and pool (its naive baselines); see DEVELOPERS.md
+  eval: ["@leeway/core", "@leeway/stats", "@leeway/change", "@leeway/pool", "@leeway/sim", "@leeway/policy"],
   // The fleet package does I/O (sockets, clocks) like the CLI; the CLI's `fleet` command runs it.
   fleet: ["@leeway/core", "@leeway/policy", "@leeway/pool", "ioredis"],
   cli: ["@leeway/core", "@leeway/stats", "@leeway/change", "@leeway/pool", "@leeway/signal", "@leeway/sim", "@leeway/policy", "@leeway/eval", "@leeway/fleet"],
