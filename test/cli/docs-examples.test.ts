@@ -1,12 +1,11 @@
 import { describe, expect, it } from "vitest";
 import { replay, scoreOnly } from "@leeway/eval";
-import { DecisionEngine } from "@leeway/policy";
+import { DecisionEngine, ModeRouter } from "@leeway/policy";
 import { collect, harbourLane } from "@leeway/sim";
 import { demoEngineOptions } from "../../packages/cli/src/commands/demo.js";
 import { FIGURE_STYLE } from "../../packages/cli/src/report/html.js";
 import { eventStrip, groupSeries, linePlot } from "../../packages/cli/src/report/plots.js";
 import { TimelineCollector } from "../../packages/cli/src/report/timeline.js";
-import { ModeRouter } from "../../packages/cli/src/mode-router.js";
 
 // The worked examples of docs/notebook.md and docs/embedding.md, run as written
 // (imports from "leeway" point at the package's sources here).

@@ -19,7 +19,3 @@ export { axisOf, linePlot, eventStrip, groupSeries } from "./report/plots.js";
 export type { AxisSpan, LinePlotOptions, ReportEvent, Trace } from "./report/plots.js";
 export { SAFETY_CAUTION } from "./report/safety.js";
 export { demoEngineOptions } from "./commands/demo.js";
-// The mode router and the scripted operator move to @leeway/policy; import them from there once they are.
-export { ModeRouter } from "./mode-router.js";
-export { ScriptedOperator } from "./operator.js";
-export type { OperatorAction } from "./operator.js";

@@ -12,3 +12,6 @@ export type { TrendEvidence, BlockTrendState } from "./block-trend.js";
 export { SettlingWindow } from "./settling-window.js";
 export type { SettlingCheck, SettlingWindowState } from "./settling-window.js";
 export type { ScoreLevel } from "./calibration.js";
+export { ModeRouter } from "./mode-router.js";
+export { ScriptedOperator } from "./scripted-operator.js";
+export type { OperatorAction } from "./scripted-operator.js";

@@ -1,14 +1,13 @@
 import { closeSync, openSync, renameSync, writeSync } from "node:fs";
 import { resolve } from "node:path";
 import { anomalyMask, replay, type Pipeline } from "@leeway/eval";
-import { DecisionEngine, type Decision, type DecisionEngineOptions } from "@leeway/policy";
+import { DecisionEngine, ModeRouter, type Decision, type DecisionEngineOptions } from "@leeway/policy";
 import { reduceBins, SpectrumAnalyzer } from "@leeway/signal";
 import { harbourLane, MachineSimulator, type TruthEvent } from "@leeway/sim";
 import { numberFlag, stringFlag, type CommandSpec, type ParsedArguments } from "../args.js";
 import { UsageError } from "../exit-codes.js";
 import { prepareOutputFolder, writeWholeFile, type CliStreams } from "../io.js";
 import { logFormat, type LogForm } from "../log/compact-log.js";
-import { ModeRouter } from "../mode-router.js";
 import { ProgressBar } from "../progress.js";
 import { renderReport } from "../report/html.js";
 import { ReportCollector } from "../report/lanes.js";

@@ -1,7 +1,7 @@
 import { resolve } from "node:path";
 import { LeewayError } from "@leeway/core";
 import { Timeline } from "@leeway/eval";
-import type { Decision, DecisionEngine } from "@leeway/policy";
+import { ModeRouter, ScriptedOperator, type Decision, type DecisionEngine } from "@leeway/policy";
 import { numberFlag, stringFlag, type CommandSpec, type ParsedArguments } from "../args.js";
 import { buildEngine, defaultConfig, parseConfig, type PipelineConfig } from "../config.js";
 import { CliError, InputError, InterruptedError } from "../exit-codes.js";
@@ -9,8 +9,6 @@ import { openInput, PartialFile, prepareOutputFolder, readTextFile, TextSink, wr
 import { logFormat, type LogForm } from "../log/compact-log.js";
 import { readLines } from "../input/lines.js";
 import { readSamples, type SampleBatch, type SampleRow, type StreamLayout } from "../input/samples.js";
-import { ModeRouter } from "../mode-router.js";
-import { ScriptedOperator } from "../operator.js";
 import { ProgressBar } from "../progress.js";
 import { renderReport } from "../report/html.js";
 import { ReportCollector } from "../report/lanes.js";

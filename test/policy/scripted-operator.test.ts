@@ -1,7 +1,7 @@
 import { describe, expect, it } from "vitest";
 import { DecisionEngine } from "@leeway/policy";
-import { ScriptedOperator } from "../../packages/cli/src/operator.js";
-import { scoreRows, SHORT_ENGINE } from "./streams.js";
+import { ScriptedOperator } from "@leeway/policy";
+import { scoreRows, SHORT_ENGINE } from "../cli/streams.js";
 
 describe("ScriptedOperator", () => {
   it("acknowledges an alarm after it stayed latched for the given number of samples", () => {

@@ -1,7 +1,6 @@
 import { describe, expect, it } from "vitest";
 import { RandomSource } from "@leeway/core";
-import { DecisionEngine, type DecisionEngineOptions } from "@leeway/policy";
-import { ModeRouter } from "../../packages/cli/src/mode-router.js";
+import { DecisionEngine, ModeRouter, type DecisionEngineOptions } from "@leeway/policy";
 
 const options = (mode: string): DecisionEngineOptions => ({ inputs: 4, hidden: 3, members: 2, commissioning: 40, calibration: 40, targetArl0: 500, calibrationReplicates: 10, seed: `t/${mode}` });
 

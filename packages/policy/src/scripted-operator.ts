@@ -1,4 +1,5 @@
-import type { Decision, DecisionEngine } from "@leeway/policy";
+import type { Decision } from "./decision.js";
+import type { DecisionEngine } from "./engine.js";
 
 /** What the simulated operator did, and when (after which sample). */
 export interface OperatorAction {

@@ -1,5 +1,6 @@
-import type { Decision, DecisionEngine } from "@leeway/policy";
-import { ScriptedOperator } from "./operator.js";
+import type { Decision } from "./decision.js";
+import type { DecisionEngine } from "./engine.js";
+import { ScriptedOperator } from "./scripted-operator.js";
 
 /**
  * One decision engine per operating mode, for hosts that know the mode of
