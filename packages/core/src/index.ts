@@ -26,3 +26,6 @@ export type { Snapshot } from "./snapshot.js";
 export { RandomSource } from "./random.js";
 export type { RandomSourceState } from "./random.js";
 export type { Snapshotable, SampleCounts } from "./types.js";
+export { optionTable, OptionTable } from "./option-table.js";
+export type { OptionRow, OptionRows, ResolvedOptions, ResolvedValue, OptionDescription, SpanContext } from "./option-table.js";
+export { parseDuration, samplePeriodOption } from "./duration.js";
