@@ -1,7 +1,8 @@
 import { it } from "vitest";
 import { RandomSource } from "@leeway/core";
-import { EVENT_CAUSES, anomalyMask, decimate, evaluate, prAuc, replay, rocAuc, type EventCause, type LabelledEvent, type Pipeline } from "@leeway/eval";
+import { EVENT_CAUSES, anomalyMask, evaluate, prAuc, replay, rocAuc, type EventCause, type LabelledEvent, type Pipeline } from "@leeway/eval";
 import type { Decision } from "@leeway/policy";
+import { decimate } from "@leeway/signal";
 import { BenchReport, consume, nsPerOp, sumBaselineNs } from "./harness.js";
 
 // The cheapest possible pipeline: one reused decision, its scores overwritten per sample.

@@ -14,9 +14,7 @@ import {
   type QualityScenario,
   anomalyMask,
   compare,
-  decimate,
   evaluate,
-  lowPassKernel,
   mannWhitney,
   poissonInterval,
   prAuc,
@@ -29,6 +27,7 @@ import {
   type Pipeline,
 } from "@leeway/eval";
 import type { Action, Cause, Decision } from "@leeway/policy";
+import { decimate, lowPassKernel } from "@leeway/signal";
 
 // The @example of every export, run as written in its doc comment.
 describe("documented examples", () => {
@@ -102,7 +101,7 @@ describe("documented examples", () => {
     expect(table.markdown.split("\n")[0]).toMatch(/^\| policy \| events \| detected \| right cause \| revised \| missed d\/g\/a \| /);
   });
 
-  it("sortFloat64, lowPassKernel, decimate", () => {
+  it("sortFloat64; lowPassKernel and decimate (now in @leeway/signal)", () => {
     expect(Array.from(sortFloat64(Float64Array.of(3, -1, 2.5, -0, 0)), (x) => (Object.is(x, -0) ? "-0" : x))).toEqual([-1, "-0", 0, 2.5, 3]);
     expect(lowPassKernel(0.1, 101).reduce((s, x) => s + x, 0)).toBeCloseTo(1, 14);
     const out = decimate(new Float64Array(4800).fill(1), 4);

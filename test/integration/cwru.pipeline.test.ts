@@ -7,11 +7,11 @@ import { readFileSync } from "node:fs";
 import { fileURLToPath } from "node:url";
 import { describe, expect } from "vitest";
 import { withDataset } from "../support/real-data.js";
-import { decimate, mannWhitney, prAuc, replay, type Pipeline } from "@leeway/eval";
+import { mannWhitney, prAuc, replay, type Pipeline } from "@leeway/eval";
 import type { Decision } from "@leeway/policy";
 import { DecisionEngine } from "@leeway/policy";
 import { AutoencoderPool } from "@leeway/pool";
-import { Framer, SpectrumAnalyzer, reduceBins } from "@leeway/signal";
+import { Framer, SpectrumAnalyzer, decimate, reduceBins } from "@leeway/signal";
 
 const dataDir = fileURLToPath(new URL("../../../shared/data/cwru-bearing/", import.meta.url));
 const dataIt = withDataset("cwru-bearing (Case Western Reserve University Bearing Data Center)", `${dataDir}1797_Normal_DE.csv`);

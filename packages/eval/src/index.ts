@@ -29,8 +29,6 @@ export { compare, comparisonRow } from "./compare.js";
 export type { Comparison, ComparisonRow, PolicyUnderTest, SuiteScenario } from "./compare.js";
 export { comparisonMarkdown } from "./comparison-table.js";
 export { sortFloat64 } from "./sort-float64.js";
-export { decimate, lowPassKernel } from "./decimate.js";
-export type { DecimateOptions } from "./decimate.js";
 export { qualityScenarios, qualitySubset, QUALITY_SUBSET_IDS, eventSeverity, QUALITY_KINDS, QUALITY_RATES, QUALITY_SPECTRUM, FULL_SUITE_SEEDS } from "./quality-scenarios.js";
 export type { QualityKind, QualityRate, QualityEvent, QualityScenario, QualitySeeds } from "./quality-scenarios.js";
 export { NaivePolicy } from "./naive-policies.js";

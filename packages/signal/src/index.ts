@@ -14,3 +14,5 @@ export { velocitySpectrum, velocityRms } from "./velocity.js";
 export { Framer } from "./framer.js";
 export { SIGNAL_SAFE_MAGNITUDE } from "./sample-checks.js";
 export type { FramerOptions, FramerState } from "./framer.js";
+export { decimate, lowPassKernel } from "./decimate.js";
+export type { DecimateOptions } from "./decimate.js";

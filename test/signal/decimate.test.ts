@@ -1,6 +1,6 @@
 import fc from "fast-check";
 import { describe, expect, it } from "vitest";
-import { decimate, lowPassKernel } from "@leeway/eval";
+import { decimate, lowPassKernel } from "@leeway/signal";
 import { expectLeewayError } from "../support/errors.js";
 
 // |H(f)| of a centred FIR kernel, f in cycles per sample.
