@@ -21,3 +21,5 @@ export type { ConformalMartingaleOptions, ConformalMartingaleState, ConformalRea
 export type { ConformalBetting } from "./conformal-betting.js";
 export { ChangePointPosterior, POSTERIOR_MAX_HYPOTHESES } from "./change-point-posterior.js";
 export type { ChangePointPosteriorOptions, ChangePointPosteriorState, ChangePointReading } from "./change-point-posterior.js";
+export { correlatedCusumThreshold, gaussianThreshold, batchMeansSpread, batchMeansSpreadUpper } from "./correlated-threshold.js";
+export type { CorrelatedThresholdOptions } from "./correlated-threshold.js";

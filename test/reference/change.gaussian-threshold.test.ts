@@ -1,7 +1,7 @@
 import { describe, expect, it } from "vitest";
-import { gaussianThreshold } from "../../packages/policy/src/change-factory.js";
+import { gaussianThreshold } from "@leeway/change";
 
-describe("policy change-test calibration against published run lengths", () => {
+describe("gaussianThreshold against published run lengths", () => {
   it("two-sided CUSUM k = 0.5, ARL0 465 → h ≈ 5 (Montgomery, Introduction to Statistical Quality Control, tabular CUSUM ARL table, k = 1/2, h = 5)", () => {
     expect(gaussianThreshold(465)).toBeGreaterThan(4.9);
     expect(gaussianThreshold(465)).toBeLessThan(5.1);

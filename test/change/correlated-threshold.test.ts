@@ -1,7 +1,7 @@
 import { describe, expect, it } from "vitest";
-import { cusumArl, Cusum, PageHinkley } from "@leeway/change";
+import { batchMeansSpread, batchMeansSpreadUpper, correlatedCusumThreshold, cusumArl, Cusum, gaussianThreshold, PageHinkley } from "@leeway/change";
 import { RandomSource } from "@leeway/core";
-import { batchMeansSpread, batchMeansSpreadUpper, calibratedThreshold, gaussianThreshold, makeChangeTest } from "../../packages/policy/src/change-factory.js";
+import { calibratedThreshold, makeChangeTest } from "../../packages/policy/src/change-factory.js";
 
 function ar1(n: number, rho: number, seed: number): Float64Array {
   const r = new RandomSource(seed);
@@ -61,5 +61,13 @@ describe("change test factory and calibration", () => {
     }
     // the mean of 40 exponential-like run lengths is within ±35 % of the true ARL with high probability
     expect(total / Math.max(1, runs)).toBeGreaterThan(0.65 * 2000);
+  });
+});
+
+describe("correlatedCusumThreshold", () => {
+  it("its doc example: a correlated stream never gets a threshold below the white-noise one", () => {
+    const z = Float64Array.from({ length: 600 }, (_, i) => Math.sin(i * 1.3) + Math.sin(i * 0.7));
+    const h = correlatedCusumThreshold((t) => new Cusum({ k: 0.5, h: t, mean: 0, sigma: 1, direction: "both" }), z, { targetArl0: 20000, replicates: 20, seed: 1, k: 0.5 });
+    expect(h).toBeGreaterThanOrEqual(gaussianThreshold(20000));
   });
 });
