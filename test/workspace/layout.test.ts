@@ -65,6 +65,20 @@ describe("workspace layout", () => {
     });
   }
 
+  for (const pkg of Object.keys(allowed)) {
+    it(`packages/${pkg}'s manifest lists exactly the packages its sources import`, () => {
+      const manifest = JSON.parse(readFileSync(join(root, "packages", pkg, "package.json"), "utf8")) as { dependencies?: Record<string, string> };
+      const imported = new Set<string>();
+      for (const file of sourceFiles(join(root, "packages", pkg, "src"))) {
+        for (const spec of importsOf(readFileSync(file, "utf8"))) {
+          if (spec.startsWith(".") || spec.startsWith("node:")) continue;
+          imported.add(spec.startsWith("@") ? spec.split("/").slice(0, 2).join("/") : (spec.split("/")[0] as string));
+        }
+      }
+      expect(Object.keys(manifest.dependencies ?? {}).sort()).toEqual([...imported].sort());
+    });
+  }
+
   it("core packages read no clock, no environment and no global randomness, and print nothing", () => {
     for (const pkg of Object.keys(allowed).filter((p) => !doesIo.includes(p))) {
       for (const file of sourceFiles(join(root, "packages", pkg, "src"))) {

@@ -1,4 +1,42 @@
-import type { ComparisonRow } from "./compare.js";
+import type { EventCause } from "./labels.js";
+import type { ResponseClass } from "./metrics.js";
+
+/** The metrics of one policy over some scenarios, pooled (one row of the table). */
+export interface ComparisonRow {
+  policy: string;
+  /** Scenario names pooled into the row (one for a per-scenario row). */
+  scenarios: string[];
+  samples: number;
+  events: number;
+  detected: number;
+  /** Detected events whose response claimed the true cause. */
+  correctCause: number;
+  missed: number;
+  /** Missed events by true cause (a silently absorbed drift may be fine; a missed fault never is). */
+  missedByCause: Record<EventCause, number>;
+  /** Detected events whose wrong first claim was later revised to the true cause. */
+  revisions: number;
+  /** Over every detected event of the pooled scenarios, in samples; null with none detected. */
+  meanDelay: number | null;
+  medianDelay: number | null;
+  falseAlarms: number;
+  /** In-control samples, pooled. */
+  exposure: number;
+  falseAlarmsPer10k: number | null;
+  /** Pooled in-control ARL, exposure / false alarms; null with no false alarm. */
+  arl: number | null;
+  arlLower: number;
+  /** Null when unbounded (no false alarm). */
+  arlUpper: number | null;
+  retrains: number;
+  retrainsByTruth: Record<ResponseClass, number>;
+  modeSwitches: number;
+  /** Samples learnt during degradation and anomaly events. */
+  learnedDuringFaults: number;
+  /** Mean over the scenarios that have anomaly labels of both classes, of the reference score's area (the live score's when no reference was given); null when none. */
+  rocAuc: number | null;
+  prAuc: number | null;
+}
 
 interface Column {
   header: string;
