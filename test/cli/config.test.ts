@@ -3,7 +3,7 @@ import { describe, expect, it } from "vitest";
 import { schemaKeys } from "../../packages/cli/src/config-schema.js";
 import { buildEngine, CONFIG_FIELDS, defaultConfig, ENGINE_FIELDS, parseConfig } from "../../packages/cli/src/config.js";
 import { InputError } from "../../packages/cli/src/exit-codes.js";
-import { CORE_DEFAULTS, CORE_OPTION_NAMES, FEATURE_OPTION_NAMES } from "@leeway/policy";
+import { CORE_OPTIONS, FEATURE_OPTIONS } from "@leeway/policy";
 
 describe("pipeline config", () => {
   it("defaults: auto mode and time column, no engine options (the engine's defaults apply)", () => {
@@ -31,18 +31,20 @@ describe("pipeline config", () => {
     expect(() => buildEngine(config, null)).toThrow(/p\.json:1:13: engine\.hidden: .*score-only/);
     expect(buildEngine(config, 8).mode).toBe("features");
   });
-  it("docs/cli.md documents every config key", () => {
+  it("docs/cli.md documents every config key (the engine's in the policy guide's option table)", () => {
     const doc = readFileSync(new URL("../../docs/cli.md", import.meta.url), "utf8");
+    const policy = readFileSync(new URL("../../docs/policy.md", import.meta.url), "utf8");
     for (const { key, field } of schemaKeys(CONFIG_FIELDS)) {
       if (field.kind === "section") continue;
-      expect(doc, key).toContain(`\`${key}\``);
+      if (key.startsWith("engine.")) expect(policy, key).toContain(`| \`${key.slice("engine.".length)}\` |`);
+      else expect(doc, key).toContain(`\`${key}\``);
     }
   });
   it("the engine section lists exactly the engine's options, with the engine's own defaults", () => {
-    expect(Object.keys(ENGINE_FIELDS).sort()).toEqual([...CORE_OPTION_NAMES, ...FEATURE_OPTION_NAMES].sort());
-    for (const key of CORE_OPTION_NAMES) {
-      const field = ENGINE_FIELDS[key]!;
-      expect(field.kind !== "section" && field.default, key).toEqual(CORE_DEFAULTS[key]);
+    expect(Object.keys(ENGINE_FIELDS).sort()).toEqual(["samplePeriod", ...CORE_OPTIONS.names, ...FEATURE_OPTIONS.names].sort());
+    for (const row of [...CORE_OPTIONS.describe(), ...FEATURE_OPTIONS.describe()]) {
+      const field = ENGINE_FIELDS[row.name]!;
+      expect(field.kind !== "section" && field.default, row.name).toEqual(row.default);
     }
   });
   it("a string seed is accepted and a wrong-typed one refused", () => {

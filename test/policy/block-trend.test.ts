@@ -1,7 +1,7 @@
 import fc from "fast-check";
 import { describe, expect, it } from "vitest";
 import { WindowTrend } from "@leeway/stats";
-import { BlockTrend } from "@leeway/policy";
+import { BlockTrend } from "../../packages/policy/src/block-trend.js";
 import { throughJson } from "../support/errors.js";
 import { expectRefusesCorruptions } from "../support/snapshot-corruption.js";
 

@@ -160,7 +160,7 @@ describe("DecisionEngine in feature mode (small)", () => {
     expect(engine.phase).not.toBe("commissioning");
     expectRefusesCorruptions((s) => DecisionEngine.restore(s), engine.snapshot(), {
       sizePaths: [["core", "state", "settings", "settling"], ["core", "state", "settings", "calibration"], ["model", "state", "inputs"]],
-      variableLengthPaths: [["core", "state", "retrainLog"]],
+      variableLengthPaths: [["core", "state", "gate", "state", "log"]],
       numRuns: 120,
     });
   });
@@ -389,22 +389,24 @@ describe("DecisionEngine snapshots: cross-checks between fields", () => {
     expect(snapshotWhileAsked).not.toBeNull();
     const asked = snapshotWhileAsked as unknown as Snapshot;
     const core = ["state", "core", "state"];
-    const cases: [string, unknown, string][] = [
-      ["phase", "watching", "anomalySettling"], // held after an anomaly, but not settling
-      ["pending", false, "confirmed"],
-      ["latchCause", "anomaly", "latchCause"],
-      ["anomalyAlarmAt", 10 ** 9, "anomalyAlarmAt"],
-      ["askAfter", -1, "askAfter"],
-      ["anomalySettling", "yes", "anomalySettling"],
+    const gate = [...core, "gate", "state"];
+    const settling = [...core, "settling", "state"];
+    const cases: [string[], unknown, string][] = [
+      [[...core, "phase"], "watching", "settling"], // held after an anomaly, but not settling
+      [[...gate, "pending"], false, "confirmed"],
+      [[...core, "latchCause"], "anomaly", "latchCause"],
+      [[...core, "anomalyAlarmAt"], 10 ** 9, "anomalyAlarmAt"],
+      [[...gate, "askAfter"], -1, "askAfter"],
+      [[...settling, "afterAnomaly"], "yes", "afterAnomaly"],
     ];
-    const withConfirmed = mutated(asked, [...core, "confirmed"], true);
-    for (const [field, value, named] of cases) {
-      const base = field === "pending" ? withConfirmed : asked;
-      expectLeewayError(() => DecisionEngine.restore(mutated(base, [...core, field], value)), "E_SNAPSHOT", named);
+    const withConfirmed = mutated(asked, [...gate, "confirmed"], true);
+    for (const [path, value, named] of cases) {
+      const base = path[path.length - 1] === "pending" ? withConfirmed : asked;
+      expectLeewayError(() => DecisionEngine.restore(mutated(base, path, value)), "E_SNAPSHOT", named);
     }
     expectRefusesCorruptions((s) => DecisionEngine.restore(s), asked, {
       sizePaths: [["core", "state", "settings", "settling"], ["core", "state", "settings", "calibration"]],
-      variableLengthPaths: [["core", "state", "retrainLog"]],
+      variableLengthPaths: [["core", "state", "gate", "state", "log"]],
       numRuns: 80,
     });
   });
@@ -456,7 +458,7 @@ describe("DecisionEngine snapshots in score-only mode", () => {
     runHost(engine, new ScoreHost(3), (t): World => ({ mode: t >= 900 ? 0.2 : 0, degradation: 0, fault: 0 }), 1000, { acknowledgeAfter: 10 });
     expectRefusesCorruptions((s) => DecisionEngine.restore(s), engine.snapshot(), {
       sizePaths: [["core", "state", "settings", "settling"], ["core", "state", "settings", "trendWindow"]],
-      variableLengthPaths: [["core", "state", "retrainLog"]],
+      variableLengthPaths: [["core", "state", "gate", "state", "log"]],
       numRuns: 150,
     });
   });

@@ -1,5 +1,7 @@
 import { describe, expect, it } from "vitest";
-import { BlockTrend, DecisionEngine, SettlingWindow } from "@leeway/policy";
+import { DecisionEngine } from "@leeway/policy";
+import { BlockTrend } from "../../packages/policy/src/block-trend.js";
+import { SettlingWindow } from "../../packages/policy/src/settling-window.js";
 
 // The @example of every exported class, run as written.
 describe("doc examples", () => {

@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { SettlingWindow } from "@leeway/policy";
+import { SettlingWindow } from "../../packages/policy/src/settling-window.js";
 import { throughJson } from "../support/errors.js";
 import { expectRefusesCorruptions } from "../support/snapshot-corruption.js";
 

@@ -8,6 +8,8 @@ export type ConfigField =
   | { kind: "strings"; default: readonly string[] | null; doc: string }
   | { kind: "boolean"; default: boolean; doc: string }
   | { kind: "seed"; default: number | string; doc: string }
+  /** A span of the stream: an integer count of samples or a duration string such as "15m" (checked by the component that takes it). */
+  | { kind: "span"; default: number | string; min: number; max: number; doc: string }
   | { kind: "section"; fields: Readonly<Record<string, ConfigField>>; doc: string };
 
 /** A validated config value: numbers, strings, booleans, string lists and nested sections, defaults filled in. */
@@ -89,6 +91,9 @@ function checkValue(v: unknown, field: Exclude<ConfigField, { kind: "section" }>
     case "seed":
       if ((typeof v === "number" && Number.isFinite(v)) || (typeof v === "string" && v.length > 0)) return v;
       return fail("a finite number or a non-empty string");
+    case "span":
+      if ((typeof v === "number" && Number.isInteger(v) && v >= field.min && v <= field.max) || (typeof v === "string" && v.length > 0)) return v;
+      return fail(`an integer count of samples in [${field.min}, ${field.max}] or a duration such as "15m"`);
   }
 }
 

@@ -1,62 +1,36 @@
-import { LeewayError, OptionError } from "@leeway/core";
-import { CORE_DEFAULTS, DecisionEngine, type DecisionEngineOptions } from "@leeway/policy";
+import { LeewayError, OptionError, type OptionDescription } from "@leeway/core";
+import { DecisionEngine, describeEngineOptions, type DecisionEngineOptions } from "@leeway/policy";
 import { locateJsonKey, parseConfigText, validateConfig, type ConfigField, type ConfigObject } from "./config-schema.js";
 import { InputError } from "./exit-codes.js";
 import type { StreamMode } from "./input/samples.js";
 
 const n = (unit: string, def: number | null, doc: string, extra: { min?: number; max?: number; integer?: boolean } = {}): ConfigField => ({ kind: "number", unit, default: def, doc, ...extra });
-const d = CORE_DEFAULTS;
-const count = (key: keyof typeof CORE_DEFAULTS, doc: string): ConfigField => n("samples", d[key] as number, doc, { integer: true, min: 0 });
-const level = (key: keyof typeof CORE_DEFAULTS, unit: string, doc: string, extra: { integer?: boolean } = {}): ConfigField => n(unit, d[key] as number, doc, extra.integer === true ? { integer: true, min: 0 } : {});
-const choice = (key: keyof typeof CORE_DEFAULTS, choices: readonly string[], doc: string): ConfigField => ({ kind: "string", default: d[key] as string, choices, doc });
+
+/** The config field of one engine option, from the engine's option tables. */
+function engineField(o: OptionDescription): ConfigField {
+  switch (o.kind) {
+    case "span":
+      return { kind: "span", default: o.default as number | string, min: o.min ?? 0, max: o.max ?? 2 ** 31 - 1, doc: o.doc };
+    case "choice":
+      return { kind: "string", default: o.default as string, choices: o.choices ?? [], doc: o.doc };
+    case "seed":
+      return { kind: "seed", default: o.default as number | string, doc: o.doc };
+    case "boolean":
+      return { kind: "boolean", default: o.default as boolean, doc: o.doc };
+    default:
+      // samplePeriod also takes a duration string; the engine checks it.
+      if (o.name === "samplePeriod") return { kind: "span", default: o.default as number, min: 0, max: 2 ** 31 - 1, doc: o.doc };
+      return { kind: "number", unit: o.unit, default: o.default as number, doc: o.doc, ...(o.kind === "integer" ? { integer: true } : {}), ...(o.min !== null ? { min: o.min } : {}), ...(o.max !== null ? { max: o.max } : {}) };
+  }
+}
 
 /**
  * The keys of the `engine` section: the options of the decision engine
- * (`@leeway/policy`), passed on unchanged; the engine checks their ranges.
- * Defaults are the engine's own (`CORE_DEFAULTS`), tuned for 256-bin spectra
- * at one sample per second; the feature-mode defaults are those of its pool.
+ * (`@leeway/policy`), derived from its option tables and passed on unchanged;
+ * the engine checks their ranges. Defaults are the engine's own: spans as
+ * durations at the sample period (one second unless `samplePeriod` says otherwise).
  */
-export const ENGINE_FIELDS: Readonly<Record<string, ConfigField>> = {
-  commissioning: count("commissioning", "Samples of the commissioning window, all learnt as normal, before the commissioning reference is frozen."),
-  calibration: count("calibration", "Samples after a reference is frozen whose scores calibrate its normal level, its spread and the anomaly threshold."),
-  scoreFloor: level("scoreFloor", "score units", "Added to every score before its logarithm is taken (keeps ln finite for a score of 0)."),
-  anomalyQuantile: level("anomalyQuantile", "probability", "Quantile of the calibration scores (log scale) the anomaly threshold starts from, in (0.5, 1)."),
-  anomalyMargin: level("anomalyMargin", "σ of ln score", "Margin added to that quantile to enter the anomaly state."),
-  anomalyExitMargin: level("anomalyExitMargin", "σ of ln score", "Margin below which the anomaly state is left again (hysteresis); at most anomalyMargin."),
-  anomalyRun: count("anomalyRun", "Consecutive anomalous samples that raise an alarm with cause anomaly."),
-  changeTest: choice("changeTest", ["cusum", "page-hinkley"], "The change test on the active reference's normalised score (two-sided, reference value 0.5 σ)."),
-  targetArl0: level("targetArl0", "samples", "Target in-control average run length of the change test; its threshold is calibrated to it at the end of commissioning."),
-  calibrationReplicates: count("calibrationReplicates", "Bootstrap replicates of that calibration (cost grows with replicates × targetArl0)."),
-  baselineHalfLife: count("baselineHalfLife", "Half-life of the slowly following baseline the change test measures from."),
-  scoreClip: level("scoreClip", "σ", "Normalised scores are clipped to ± this before the change test, so one wild sample cannot fire it."),
-  settling: count("settling", "Samples the post-change stream must stay stationary before the engine acts."),
-  settlingLimit: count("settlingLimit", "Longest settling before an unsettled change raises an alarm."),
-  settlingTrendZ: level("settlingTrendZ", "z", "|Mann-Kendall z| over the settling window above which the stream counts as trending."),
-  settlingShift: level("settlingShift", "σ", "Largest difference of the settling window's half means still called stationary."),
-  settlingOutlier: level("settlingOutlier", "σ of the window", "While settling, a sample whose normalised score lies more than this above the window's level is an anomaly (held, left out of a retrain)."),
-  confirmShift: level("confirmShift", "σ", "Smallest settled level shift of the active reference that confirms a change; below it the alarm was a false one."),
-  knownModeLevel: level("knownModeLevel", "σ", "A reference whose mean settled score is within this of its own normal level scores the new data as normal (a known mode)."),
-  trendBlock: count("trendBlock", "Samples averaged into one point of the long trend windows (decimation)."),
-  trendWindow: level("trendWindow", "blocks", "Points (blocks) in the long trend windows.", { integer: true }),
-  trendZ: level("trendZ", "z", "One-sided Mann-Kendall z that raises a degradation alarm (p 0.001)."),
-  trendWarnZ: level("trendWarnZ", "z", "One-sided Mann-Kendall z at which learning stops and retraining is refused (degradation warning)."),
-  trendClearZ: level("trendClearZ", "z", "z below which standing degradation evidence clears (hysteresis)."),
-  trendMinRise: level("trendMinRise", "σ", "Smallest rise over the window (Theil-Sen slope × window span) that counts as degradation."),
-  trendMinBlocks: level("trendMinBlocks", "blocks", "Smallest window filling before a trend can raise anything.", { integer: true }),
-  retrain: choice("retrain", ["auto", "confirm", "never"], "What a confirmed drift that no known mode explains leads to: retrain at once, ask an operator (see operator.confirmAfter), or never (a concept-drift alarm instead)."),
-  persistentAnomaly: choice("persistentAnomaly", ["confirm", "as-drift"], "After an acknowledged anomaly alarm whose level persists through settling: confirm asks the operator even under retrain auto; as-drift retrains on it like on any drift (it would learn an hour-long clog acknowledged while it lasts as normal)."),
-  retrainBudget: level("retrainBudget", "retrains", "Retrain attempts (failed candidates included) allowed per horizon.", { integer: true }),
-  retrainHorizon: count("retrainHorizon", "The horizon of that budget."),
-  coolDown: count("coolDown", "Samples after a retrain or a switch in which no further retrain may start."),
-  seed: { kind: "seed", default: d.seed, doc: "Seed of the engine's random source (threshold calibration, candidate models): a number or a non-empty string." },
-  nonFinite: choice("nonFinite", ["refuse", "skip"], "NaN or ±Infinity in a sample: refuse (the replay stops with an input error naming the line) or skip (counted; decided hold)."),
-  hidden: n("units", 32, "Features mode only: hidden units of every autoencoder.", { integer: true, min: 1 }),
-  members: n("members", 4, "Features mode only: members of the live pool, one per operating mode.", { integer: true, min: 1 }),
-  ridge: n("—", 0.01, "Features mode only: ridge δ of the OS-ELM autoencoders (P₀ = I/δ)."),
-  forgetting: n("—", 1, "Features mode only: forgetting factor λ in (0, 1] of the live members."),
-  validationShare: n("fraction", 0.2, "Features mode only: share of the settled samples held out to validate a retrained candidate, in (0, 0.5]."),
-  validationTolerance: n("ratio", 2, "Features mode only: a candidate passes when its held-out loss is at most this multiple of its training loss (and below the active reference's)."),
-};
+export const ENGINE_FIELDS: Readonly<Record<string, ConfigField>> = Object.fromEntries(describeEngineOptions().map((o) => [o.name, engineField(o)]));
 
 /** Every key of a pipeline config file. */
 export const CONFIG_FIELDS: Readonly<Record<string, ConfigField>> = {

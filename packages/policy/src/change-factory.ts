@@ -1,4 +1,4 @@
-import { calibrateThreshold, cusumArl, Cusum, PageHinkley, restoreChangeTest, type ChangeTest } from "@leeway/change";
+import { correlatedCusumThreshold, Cusum, PageHinkley, type ChangeTest } from "@leeway/change";
 import type { ChangeTestChoice } from "./options.js";
 
 /** Reference value k of the default CUSUM (and tolerance δ of Page-Hinkley), in σ: tuned to a 1σ shift. */
@@ -15,107 +15,11 @@ export function makeChangeTest(choice: ChangeTestChoice, threshold: number): Cha
   return new Cusum({ k: CHANGE_REFERENCE_VALUE, h: threshold, mean: 0, sigma: 1, direction: "both" });
 }
 
-/** The in-control run length the bootstrap calibration works at before scaling to the target, in samples. */
-export const PILOT_ARL0 = 1000;
-
 /**
  * The threshold that gives the chosen test an in-control average run length
- * of `targetArl0` samples on streams like `normalScores`.
- *
- * Method: the change package's `calibrateThreshold` finds, by moving-block
- * bootstrap of the normal scores (blocks of {@link CALIBRATION_BLOCK}, which
- * keeps their short-range correlation and their shape), the threshold h_b
- * for a pilot ARL0 of min(target, {@link PILOT_ARL0}). A correlated stream
- * behaves like independent normal scores whose standard deviation is the
- * long-run one, ν (Brownian approximation): the CUSUM (k, h) on it runs like
- * (k/ν, h/ν) on N(0, 1). ν is solved from ARL_S(k/ν, h_b/ν) = pilot with
- * Siegmund's approximation ARL_S, and the result is ν·h' with
- * ARL_S(k/ν, h') = target. ν is kept ≥ 1 (a few hundred calibration samples
- * can understate correlation; no stream is better behaved than white noise).
- * A direct bootstrap at a target of 10⁴–10⁵ samples would cost seconds at
- * every commissioning; this costs milliseconds.
+ * of `targetArl0` samples on streams like `normalScores` (see
+ * `correlatedCusumThreshold` of @leeway/change).
  */
 export function calibratedThreshold(choice: ChangeTestChoice, normalScores: Float64Array, targetArl0: number, replicates: number, seed: string): number {
-  const k = CHANGE_REFERENCE_VALUE;
-  const pilot = Math.min(targetArl0, PILOT_ARL0);
-  const gaussianPilot = gaussianThreshold(pilot);
-  const result = calibrateThreshold((threshold: number) => makeChangeTest(choice, threshold), normalScores, {
-    targetArl0: pilot,
-    seed,
-    replicates,
-    blockLength: Math.min(CALIBRATION_BLOCK, Math.max(1, normalScores.length >> 2)),
-    initial: gaussianPilot,
-    tolerance: 0.005,
-  });
-  const hb = result.threshold;
-  // ν: ARL_S(k/ν, h_b/ν) falls as ν grows; bisection on [1, 10].
-  let lo = 1;
-  let hi = 10;
-  if (cusumArl(k, hb, 0, { sides: 2 }) <= pilot) hi = 1;
-  for (let i = 0; i < 50 && hi > lo; i++) {
-    const nu = 0.5 * (lo + hi);
-    if (cusumArl(k / nu, hb / nu, 0, { sides: 2 }) > pilot) lo = nu;
-    else hi = nu;
-  }
-  const nu = Math.max(1, 0.5 * (lo + hi), batchMeansSpreadUpper(normalScores, CALIBRATION_BLOCK));
-  return nu * gaussianThreshold(targetArl0, k / nu);
-}
-
-/**
- * The long-run standard deviation ν of a stream by non-overlapping batch
- * means of length m: ν² ≈ m · var(batch means) (common practice in
- * simulation output analysis). 1 when there are fewer than 5 batches.
- */
-export function batchMeansSpread(xs: Float64Array, m: number): number {
-  const batches = Math.floor(xs.length / m);
-  if (batches < 5) return 1;
-  let sum = 0;
-  let sumSquares = 0;
-  for (let b = 0; b < batches; b++) {
-    let mean = 0;
-    for (let i = b * m; i < (b + 1) * m; i++) mean += xs[i] as number;
-    mean /= m;
-    sum += mean;
-    sumSquares += mean * mean;
-  }
-  const grand = sum / batches;
-  const variance = (sumSquares - batches * grand * grand) / (batches - 1);
-  return Math.sqrt(Math.max(0, m * variance));
-}
-
-/**
- * An upper 90 % confidence bound of the long-run standard deviation by batch
- * means: ν·√((B − 1)/χ²₀.₁(B − 1)) for B batches, with the Wilson-Hilferty
- * approximation of the chi-square quantile (Wilson & Hilferty, 1931). A
- * calibration window of a few hundred samples pins ν down only to ±15 %, and
- * the in-control run length of a CUSUM is steep in ν: the bound keeps the
- * threshold on the safe side.
- */
-export function batchMeansSpreadUpper(xs: Float64Array, m: number): number {
-  const batches = Math.floor(xs.length / m);
-  if (batches < 5) return 1;
-  const df = batches - 1;
-  const c = 2 / (9 * df);
-  const chi = df * (1 - c - 1.2815515655446004 * Math.sqrt(c)) ** 3; // χ² quantile at 0.1
-  return batchMeansSpread(xs, m) * Math.sqrt(df / chi);
-}
-
-/** Restores a change test written by {@link makeChangeTest}'s tests (any change test, by its kind). */
-export function restoreTest(snapshot: unknown): ChangeTest {
-  return restoreChangeTest(snapshot);
-}
-
-/** Block length of the calibration bootstrap, in samples. */
-export const CALIBRATION_BLOCK = 20;
-
-/** The two-sided CUSUM decision interval h (reference value k, default 0.5) whose ARL0 on independent N(0, 1) scores is `targetArl0` (Siegmund, 1985), by bisection. */
-export function gaussianThreshold(targetArl0: number, k = CHANGE_REFERENCE_VALUE): number {
-  let lo = 0.01;
-  let hi = 200;
-  for (let i = 0; i < 60; i++) {
-    const mid = 0.5 * (lo + hi);
-    if (cusumArl(k, mid, 0, { sides: 2 }) < targetArl0) lo = mid;
-    else hi = mid;
-  }
-  return hi;
+  return correlatedCusumThreshold((threshold: number) => makeChangeTest(choice, threshold), normalScores, { targetArl0, replicates, seed, k: CHANGE_REFERENCE_VALUE });
 }

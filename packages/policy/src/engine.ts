@@ -10,9 +10,10 @@ import {
   type Snapshot,
 } from "@leeway/core";
 import type { Decision, Phase } from "./decision.js";
-import { CORE_OPTION_NAMES, coreOptionsOf, resolveCoreSettings, type DecisionCoreOptions } from "./options.js";
-import { DecisionCore } from "./core.js";
-import { FEATURE_OPTION_NAMES, FeatureModel, resolveFeatureSettings, type FeatureModelOptions } from "./feature-model.js";
+import { CORE_OPTIONS, FEATURE_OPTIONS, resolveCoreSettings, resolveSamplePeriod, type DecisionCoreOptions, type FeatureModelOptions } from "./options.js";
+import { DecisionCore, type SampleScores } from "./decision-core.js";
+import { FeatureModel, resolveFeatureSettings } from "./feature-model.js";
+import type { Step } from "./effects.js";
 
 /**
  * Options of {@link DecisionEngine}. Give `inputs` for feature mode (the
@@ -20,10 +21,13 @@ import { FEATURE_OPTION_NAMES, FeatureModel, resolveFeatureSettings, type Featur
  * for score-only mode (the host scores with its own model and calls
  * {@link DecisionEngine.observeScores}).
  */
-export interface DecisionEngineOptions extends DecisionCoreOptions, FeatureModelOptions {
-  /** Length of a feature vector (for example 256 spectrum bins). Absent: score-only mode. */
-  inputs?: number;
-}
+export type DecisionEngineOptions = DecisionCoreOptions &
+  FeatureModelOptions & {
+    /** Length of a feature vector (for example 256 spectrum bins). Absent: score-only mode. */
+    inputs?: number;
+    /** Seconds between samples, or a duration such as "10m" (default 1); spans given as durations, and the default spans, are turned into samples with it. */
+    samplePeriod?: number | string;
+  };
 
 /** The plain state of a {@link DecisionEngine}. */
 export interface DecisionEngineState {
@@ -41,7 +45,7 @@ class RestoredParts {
     readonly model: FeatureModel | null,
   ) {}
 }
-const KNOWN = ["inputs", ...CORE_OPTION_NAMES, ...FEATURE_OPTION_NAMES] as const;
+const KNOWN = ["inputs", "samplePeriod", ...CORE_OPTIONS.names, ...FEATURE_OPTIONS.names] as const;
 
 /**
  * The decision engine: one explained {@link Decision} per sample — learn it,
@@ -83,16 +87,16 @@ export class DecisionEngine {
       return;
     }
     const o = optionsObject<DecisionEngineOptions>(NAME, options, KNOWN);
-    const settings = resolveCoreSettings(NAME, coreOptionsOf(o as Record<string, unknown>));
+    const settings = resolveCoreSettings(NAME, o as Record<string, unknown>, resolveSamplePeriod(NAME, o.samplePeriod));
     this.#core = new DecisionCore(NAME, settings);
     if (o.inputs === undefined) {
-      for (const key of FEATURE_OPTION_NAMES) {
+      for (const key of FEATURE_OPTIONS.names) {
         if (o[key] !== undefined) throw new OptionError(NAME, key, o[key], "absent in score-only mode (give inputs for feature mode)");
       }
       this.#model = null;
     } else {
       const inputs = integerInRange(NAME, "inputs", o.inputs, 1, 1 << 20);
-      this.#model = new FeatureModel(resolveFeatureSettings(NAME, inputs, o, settings));
+      this.#model = new FeatureModel(resolveFeatureSettings(NAME, inputs, o as Record<string, unknown>, settings));
     }
   }
 
@@ -148,11 +152,22 @@ export class DecisionEngine {
     if (x.length !== model.inputs) throw new DimensionError(NAME, "x", model.inputs, x.length);
     for (let i = 0; i < x.length; i++) {
       if (!Number.isFinite(x[i] as number)) {
-        if (this.#core.settings.nonFinite === "skip") return this.#core.skip();
+        if (this.#core.settings.nonFinite === "skip") return this.#core.skip().decision;
         throw new NonFiniteError(NAME, `x[${i}]`, x[i]);
       }
     }
-    return model.decide(this.#core, x);
+    const core = this.#core;
+    let step: Step = core.step(model.score(x, core.activeId, core.newestId));
+    // The model carries out the effects in order; one whose result the decision depends on
+    // (a refused learn, a retrain attempt, a member put in service) goes back to the core.
+    const queue = step.effects;
+    for (let i = 0; i < queue.length; i++) {
+      const outcome = model.carryOut(queue[i] as Step["effects"][number], x);
+      if (outcome === null) continue;
+      step = core.conclude(step.decision, outcome);
+      queue.push(...step.effects);
+    }
+    return step.decision;
   }
 
   /** Feature mode, many samples: the same decisions and state as calling {@link DecisionEngine.observe} on each. */
@@ -174,15 +189,15 @@ export class DecisionEngine {
     const n = references === undefined ? 0 : references.length;
     if (references !== undefined && !Array.isArray(references)) throw new OptionError(NAME, "references", references, "an array of 0, 1 or 2 scores");
     if (n > 2) throw new DimensionError(NAME, "references", 2, n);
-    if (!this.#scoreOk(live, "live")) return this.#core.skip();
+    if (!this.#scoreOk(live, "live")) return this.#core.skip().decision;
     for (let i = 0; i < n; i++) {
-      if (!this.#scoreOk((references as readonly number[])[i], `references[${i}]`)) return this.#core.skip();
+      if (!this.#scoreOk((references as readonly number[])[i], `references[${i}]`)) return this.#core.skip().decision;
     }
     refs[0] = n > 0 ? ((references as readonly number[])[0] as number) : live;
     refs[1] = n > 1 ? ((references as readonly number[])[1] as number) : refs[0];
     const core = this.#core;
-    const active = core.activeId === 0 ? refs[0] : refs[1];
-    return core.step(live, refs[0], refs[1], active);
+    const scores: SampleScores = { live, commissioning: refs[0], newest: refs[1], active: core.activeId === 0 ? refs[0] : refs[1] };
+    return core.step(scores).decision; // the host reads the action; effects are for feature mode
   }
 
   /** Score-only mode, many samples: `live[i]` with `references[i]` (or none), as repeated {@link DecisionEngine.observeScores}. */

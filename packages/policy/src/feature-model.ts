@@ -1,7 +1,5 @@
 import {
-  integerInRange,
   OptionError,
-  numberInRange,
   openSnapshot,
   envelope,
   toPlainArray,
@@ -11,80 +9,35 @@ import {
   type SnapshotReader,
 } from "@leeway/core";
 import { AutoencoderPool, FrozenModel, OselmAutoencoder } from "@leeway/pool";
-import type { Decision, Evidence } from "./decision.js";
-import type { DecisionCore } from "./core.js";
 import type { CoreSettings } from "./options.js";
+import { FEATURE_OPTIONS, type FeatureOptionSettings } from "./options.js";
+import type { DecisionCore, SampleScores } from "./decision-core.js";
+import type { CandidateValidation, Effect, EffectOutcome } from "./effects.js";
 import { normalised } from "./calibration.js";
 
-/** Options of the feature mode (ignored keys are refused in score-only mode). */
-export interface FeatureModelOptions {
-  /** Hidden units of every autoencoder (live members and candidates). Default 32. */
-  hidden?: number;
-  /** Members of the live pool, one per operating mode. Default 4. */
-  members?: number;
-  /** Ridge δ of the OS-ELM autoencoders (P₀ = I/δ). Default 0.01. */
-  ridge?: number;
-  /** Forgetting factor λ in (0, 1] of the live members (1: remember every learnt sample equally). Default 1. */
-  forgetting?: number;
-  /** Share of the settled samples held out to validate a candidate, in (0, 0.5]. Default 0.2. */
-  validationShare?: number;
-  /** A candidate passes when its held-out loss is at most this multiple of its training loss (and below the active reference's). Default 2. */
-  validationTolerance?: number;
-}
-
-/** The validated feature-mode settings. */
-export interface FeatureSettings {
+/** The validated feature-mode settings, with the core's spans the models need. */
+export interface FeatureSettings extends FeatureOptionSettings {
   inputs: number;
-  hidden: number;
-  members: number;
-  ridge: number;
-  forgetting: number;
-  validationShare: number;
-  validationTolerance: number;
   settling: number;
   commissioning: number;
   seed: string;
 }
 
-/** The feature-mode option names. */
-export const FEATURE_OPTION_NAMES = ["hidden", "members", "ridge", "forgetting", "validationShare", "validationTolerance"] as const;
-
 /** Validates the feature-mode options. */
-export function resolveFeatureSettings(component: string, inputs: number, o: FeatureModelOptions, core: CoreSettings): FeatureSettings {
-  const settings: FeatureSettings = {
-    inputs,
-    hidden: integerInRange(component, "hidden", o.hidden ?? 32, 1, 4096),
-    members: integerInRange(component, "members", o.members ?? 4, 1, 64),
-    ridge: numberInRange(component, "ridge", o.ridge ?? 0.01, { min: 0, minExclusive: true }),
-    forgetting: numberInRange(component, "forgetting", o.forgetting ?? 1, { min: 0, max: 1, minExclusive: true }),
-    validationShare: numberInRange(component, "validationShare", o.validationShare ?? 0.2, { min: 0, max: 0.5, minExclusive: true }),
-    validationTolerance: numberInRange(component, "validationTolerance", o.validationTolerance ?? 2, { min: 1 }),
-    settling: core.settling,
-    commissioning: core.commissioning,
-    seed: String(core.seed),
-  };
+export function resolveFeatureSettings(component: string, inputs: number, o: Readonly<Record<string, unknown>>, core: CoreSettings): FeatureSettings {
+  const settings: FeatureSettings = { inputs, ...FEATURE_OPTIONS.resolve(o), settling: core.settling, commissioning: core.commissioning, seed: String(core.seed) };
   // The empty pool fits its first member on `hidden` rows; the commissioning reference needs that member.
   if (core.commissioning <= settings.hidden) throw new OptionError(component, "commissioning", core.commissioning, `an integer > hidden = ${settings.hidden} in feature mode`);
   return settings;
-}
-
-/** How a candidate fared on the held-out settled samples (score units: mean squared reconstruction error). */
-export interface CandidateValidation {
-  trainingSamples: number;
-  heldOutSamples: number;
-  trainingLoss: number;
-  heldOutLoss: number;
-  /** The active reference's mean loss on the same held-out samples. */
-  referenceLoss: number;
-  passed: boolean;
 }
 
 /**
  * Feature mode's models: the live {@link AutoencoderPool} (OS-ELM
  * autoencoders, one member per operating mode), the lineage of frozen
  * references (the commissioning one, then one per accepted retrain), and the
- * rows kept while a change settles. It scores each sample, asks the
- * {@link DecisionCore}, and carries the decision out.
+ * rows kept while a change settles. The engine asks it for each sample's
+ * scores, and it carries out the effects of the core's decision
+ * ({@link FeatureModel.carryOut}).
  *
  * Each pool member remembers the lineage reference it serves (the one frozen
  * from it, or the one it was thawed from). A retrain adds the candidate's
@@ -109,6 +62,7 @@ export class FeatureModel {
   #served: number[] = []; // per pool member: the lineage id of the reference it serves, or −1
   readonly #kept: Float64Array; // settling × inputs, ring positions as in the core's settling window
   #candidates = 0;
+  #nearest = -1; // the member nearest to the sample being decided, or −1
 
   constructor(settings: FeatureSettings) {
     this.settings = settings;
@@ -136,51 +90,61 @@ export class FeatureModel {
     return this.#lineage[id];
   }
 
-  /** Scores `x`, asks the core, and carries out its decision. */
-  decide(core: DecisionCore, x: Float64Array): Decision {
+  /**
+   * Scores `x` with the live pool and with the references the core watches
+   * (lineage ids `activeId` and `newestId`); the nearest member is remembered
+   * for a learn effect of the same sample.
+   */
+  score(x: Float64Array, activeId: number, newestId: number): SampleScores {
     this.#syncServed();
     const scored = this.#pool.size > 0 ? this.#pool.score(x) : null;
     const live = scored === null ? 0 : finiteLoss(scored.loss);
-    const member = scored === null ? -1 : scored.member;
+    this.#nearest = scored === null ? -1 : scored.member;
     const lineage = this.#lineage;
-    let commissioning = live;
-    let newest = live;
-    let active = live;
-    if (lineage.length > 0) {
-      commissioning = finiteLoss((lineage[0] as FrozenModel).score(x));
-      const newestId = core.newestId;
-      newest = newestId === 0 ? commissioning : finiteLoss((lineage[newestId] as FrozenModel).score(x));
-      const activeId = core.activeId;
-      active = activeId === 0 ? commissioning : activeId === newestId ? newest : finiteLoss((lineage[activeId] as FrozenModel).score(x));
+    if (lineage.length === 0) return { live, commissioning: live, newest: live, active: live };
+    const commissioning = finiteLoss((lineage[0] as FrozenModel).score(x));
+    const newest = newestId === 0 ? commissioning : finiteLoss((lineage[newestId] as FrozenModel).score(x));
+    const active = activeId === 0 ? commissioning : activeId === newestId ? newest : finiteLoss((lineage[activeId] as FrozenModel).score(x));
+    return { live, commissioning, newest, active };
+  }
+
+  /** Carries out one effect of the core's step on sample `x`; returns what the decision depends on, or null. */
+  carryOut(effect: Effect, x: Float64Array): EffectOutcome | null {
+    switch (effect.kind) {
+      case "learn":
+        return this.#learn(x);
+      case "freeze-commissioning": {
+        const frozen = this.#nearest >= 0 ? this.#nearest : 0;
+        this.#lineage = [this.#pool.freeze(frozen)];
+        this.#served = this.#served.map((_, i) => (i === frozen ? 0 : -1));
+        return null;
+      }
+      case "keep":
+        this.#kept.set(x, effect.position * this.settings.inputs);
+        return null;
+      case "retrain":
+        return this.#retrain(effect);
+      case "serve":
+        return this.#serve(effect.reference);
     }
-    const decision = core.step(live, commissioning, newest, active);
-    if (decision.action === "learn") this.#learn(x, member, decision);
-    if (core.freezeNow) {
-      const frozen = member >= 0 ? member : 0;
-      this.#lineage = [this.#pool.freeze(frozen)];
-      this.#served = this.#served.map((_, i) => (i === frozen ? 0 : -1));
-    }
-    if (core.keptAt >= 0) this.#kept.set(x, core.keptAt * this.settings.inputs);
-    if (decision.action === "retrain") this.#retrain(core, decision);
-    if (decision.action === "switch-mode") this.#serve(core.switchedTo, decision.evidence);
-    return decision;
   }
 
   /**
    * Learns x by the nearest member (or, in an empty pool, adds it to the run
    * that starts the first member). An update the autoencoder refuses as
-   * numerically unsafe leaves the model as it was; the sample is then held
-   * and the refusal is reported in the evidence (`learning`).
+   * numerically unsafe leaves the model as it was and is reported.
    */
-  #learn(x: Float64Array, member: number, decision: Decision): void {
+  #learn(x: Float64Array): EffectOutcome | null {
+    const member = this.#nearest;
     try {
       this.#pool.learn(x, member >= 0 ? member : undefined);
     } catch (error) {
       if (!(error instanceof StateError)) throw error;
-      decision.action = "hold";
-      decision.evidence.learning = { refused: true, reason: error.message };
+      return { kind: "learn-refused", reason: error.message };
+    } finally {
+      this.#syncServed();
     }
-    while (this.#served.length < this.#pool.size) this.#served.push(-1);
+    return null;
   }
 
   /** Members added to the pool from outside (through {@link FeatureModel.pool}) serve no reference. */
@@ -191,92 +155,63 @@ export class FeatureModel {
   /**
    * Makes sure a pool member serves lineage reference `id` (after a switch to
    * it): when none does, a learning copy of the reference replaces the least
-   * recently used member. Reported in the evidence as `member`.
+   * recently used member.
    */
-  #serve(id: number, evidence: Evidence): void {
-    if (id < 0 || this.#served.includes(id)) return;
+  #serve(id: number): EffectOutcome | null {
+    if (id < 0 || this.#served.includes(id)) return null;
     const reference = this.#lineage[id];
-    if (reference === undefined) return;
+    if (reference === undefined) return null;
     const label = reference.label ?? (id === 0 ? "commissioning" : `reference-${id}`);
     const full = this.#pool.size >= this.#pool.maxMembers;
     const slot = full ? this.#pool.replaceMember(this.#pool.leastRecentlyUsed(), reference, label) : this.#pool.addMember(reference, label);
-    while (this.#served.length < this.#pool.size) this.#served.push(-1);
+    this.#syncServed();
     const replaced = full ? (this.#served[slot] as number) : null;
     this.#served[slot] = id;
-    evidence.member = { member: slot, servesReference: id, replacedReference: replaced };
+    return { kind: "served", member: { member: slot, servesReference: id, replacedReference: replaced } };
   }
 
-  /** The kept settled rows (oldest first) and their normalised active scores. */
-  #settledRows(core: DecisionCore): Float64Array[] {
-    const window = core.settlingWindow;
-    const positions = window.positions();
-    const check = window.check();
-    const limit = check.activeLevel + core.settings.settlingOutlier * Math.max(check.activeSpread, 1e-9);
+  /**
+   * A retrain attempt on the kept rows: an older reference that knows the
+   * mode is switched to; otherwise a candidate is trained on all but a
+   * held-out share and validated, and when it passes the pool gains a member
+   * fitted on every row (a full pool gives up its least recently used
+   * member; that mode lives on as its frozen reference), frozen as the
+   * newest lineage reference.
+   */
+  #retrain(effect: Extract<Effect, { kind: "retrain" }>): EffectOutcome {
     const n = this.settings.inputs;
-    const rows: Float64Array[] = [];
-    for (const p of positions) {
-      if (window.activeAt(p) > limit) continue; // an outlier of the settled stream: held, never learnt
-      rows.push(this.#kept.subarray(p * n, (p + 1) * n));
-    }
-    return rows;
-  }
-
-  #retrain(core: DecisionCore, decision: Decision): void {
-    const rows = this.#settledRows(core);
-    const evidence = decision.evidence;
-    // A reference older than the two the core watches may already know this mode.
-    const known = this.#olderKnownMode(core, rows);
-    if (known >= 0) {
-      core.retrainFailed();
-      const switched = core.switchTo(known, evidence);
-      decision.action = switched.action;
-      decision.cause = switched.cause;
-      decision.phase = switched.phase;
-      return;
-    }
+    const rows = effect.positions.map((p) => this.#kept.subarray(p * n, (p + 1) * n));
+    const known = this.#olderKnownMode(effect, rows);
+    if (known >= 0) return { kind: "known-mode", reference: known };
     const every = Math.max(2, Math.round(1 / this.settings.validationShare));
     const training: Float64Array[] = [];
     const heldOut: Float64Array[] = [];
     rows.forEach((row, i) => ((i + 1) % every === 0 ? heldOut : training).push(row));
     let validation: CandidateValidation | null = null;
-    let member = -1;
-    let replaced: number | null = null;
     try {
-      validation = this.#validate(core, training, heldOut);
-      if (validation.passed) {
-        const label = `retrain-${core.retrains + 1}`;
-        // A full pool gives up its least recently used member; that mode lives on as its frozen reference.
-        const full = this.#pool.size >= this.#pool.maxMembers;
-        member = full ? this.#pool.replaceMember(this.#pool.leastRecentlyUsed(), rows, label) : this.#pool.addMember(rows, label);
-        if (full) replaced = this.#served[member] as number;
-      }
+      validation = this.#validate(effect.activeId, training, heldOut);
+      if (!validation.passed) return { kind: "candidate-failed", validation, error: null };
+      const full = this.#pool.size >= this.#pool.maxMembers;
+      const member = full ? this.#pool.replaceMember(this.#pool.leastRecentlyUsed(), rows, effect.label) : this.#pool.addMember(rows, effect.label);
+      const replaced = full ? (this.#served[member] as number) : null;
+      this.#lineage.push(this.#pool.freeze(member));
+      this.#syncServed();
+      this.#served[member] = this.#lineage.length - 1;
+      return { kind: "adopted", validation, member: { member, servesReference: this.#lineage.length - 1, replacedReference: replaced } };
     } catch (error) {
       // The least-squares fit can be refused as numerically unsafe: the candidate failed.
       if (!(error instanceof StateError)) throw error;
-      evidence.outcome = `candidate refused: ${error.message}`;
-      member = -1;
+      return { kind: "candidate-failed", validation, error: error.message };
     }
-    if (validation !== null) evidence.candidate = validation;
-    if (member < 0) {
-      core.retrainFailed();
-      decision.action = "hold";
-      decision.phase = core.phase;
-      return;
-    }
-    this.#lineage.push(this.#pool.freeze(member));
-    while (this.#served.length < this.#pool.size) this.#served.push(-1);
-    this.#served[member] = this.#lineage.length - 1;
-    evidence.member = { member, servesReference: this.#lineage.length - 1, replacedReference: replaced };
-    core.modelReplaced();
   }
 
-  #validate(core: DecisionCore, training: Float64Array[], heldOut: Float64Array[]): CandidateValidation {
+  #validate(activeId: number, training: Float64Array[], heldOut: Float64Array[]): CandidateValidation {
     const s = this.settings;
     if (training.length === 0) return { trainingSamples: 0, heldOutSamples: heldOut.length, trainingLoss: Number.NaN, heldOutLoss: Number.NaN, referenceLoss: Number.NaN, passed: false };
     const candidate = new OselmAutoencoder({ inputs: s.inputs, hidden: s.hidden, ridge: s.ridge, seed: `${s.seed}/candidate/${this.#candidates}` });
     this.#candidates += 1;
     candidate.fit(training);
-    const reference = this.#lineage[core.activeId] as FrozenModel;
+    const reference = this.#lineage[activeId] as FrozenModel;
     const trainingLoss = meanScore(training, (x) => candidate.score(x));
     const heldOutLoss = meanScore(heldOut, (x) => candidate.score(x));
     const referenceLoss = meanScore(heldOut, (x) => reference.score(x));
@@ -285,18 +220,16 @@ export class FeatureModel {
   }
 
   /** A lineage reference other than the commissioning, newest and active ones that scores the settled rows as normal, or −1. */
-  #olderKnownMode(core: DecisionCore, rows: Float64Array[]): number {
-    const limit = core.settings.knownModeLevel;
-    const floor = core.settings.scoreFloor;
+  #olderKnownMode(effect: Extract<Effect, { kind: "retrain" }>, rows: Float64Array[]): number {
     let best = -1;
-    let bestLevel = limit;
-    for (let id = 1; id < core.newestId; id++) {
-      if (id === core.activeId) continue;
-      const level = core.levelOf(id);
+    let bestLevel = effect.knownModeLevel;
+    for (let id = 1; id < effect.newestId; id++) {
+      if (id === effect.activeId) continue;
+      const level = effect.levels[id] ?? null;
       const model = this.#lineage[id];
       if (level === null || model === undefined || rows.length === 0) continue;
       let sum = 0;
-      for (const row of rows) sum += normalised(Math.log(model.score(row) + floor), level, core.settings.scoreClip);
+      for (const row of rows) sum += normalised(Math.log(model.score(row) + effect.scoreFloor), level, effect.scoreClip);
       const mean = Math.abs(sum / rows.length);
       if (mean < bestLevel) {
         best = id;
@@ -325,10 +258,10 @@ export class FeatureModel {
     const inputs = r.integer("inputs", 1, 1 << 20);
     const o = r.object("options");
     const raw: Record<string, unknown> = {};
-    for (const key of FEATURE_OPTION_NAMES) raw[key] = o.raw(key);
+    for (const key of FEATURE_OPTIONS.names) raw[key] = o.raw(key);
     let settings: FeatureSettings;
     try {
-      settings = resolveFeatureSettings("DecisionEngine", inputs, raw as FeatureModelOptions, core.settings);
+      settings = resolveFeatureSettings("DecisionEngine", inputs, raw, core.settings);
     } catch (error) {
       r.fail("options", `are not valid options: ${(error as Error).message}`);
     }

@@ -1,13 +1,5 @@
-import {
-  integerInRange,
-  nonFiniteOption,
-  numberInRange,
-  oneOf,
-  OptionError,
-  positiveNumber,
-  seedOption,
-  type NonFinitePolicy,
-} from "@leeway/core";
+import { OptionError, optionTable, samplePeriodOption, type OptionDescription, type ResolvedOptions } from "@leeway/core";
+import { MAX_HIDDEN, MAX_MEMBERS } from "@leeway/pool";
 
 /** How the engine answers a confirmed concept drift that no known mode explains. */
 export type RetrainMode = "auto" | "confirm" | "never";
@@ -23,243 +15,99 @@ export type PersistentAnomalyMode = "confirm" | "as-drift";
 /** Which change test watches the active reference's normalised score. */
 export type ChangeTestChoice = "cusum" | "page-hinkley";
 
-/**
- * Options of the decision core, shared by both feeding modes. Every count is in
- * samples (at one sample per second, seconds); every level written "σ" is in
- * standard deviations of the natural log of a score, measured during calibration.
- */
-export interface DecisionCoreOptions {
-  /** Samples of a new engine's commissioning window, all learnt as normal, before the commissioning reference is frozen. Default 600 (10 min at 1 Hz). */
-  commissioning?: number;
-  /** Samples after a reference is frozen whose scores calibrate its normal level, spread and the anomaly threshold. Default 600 (10 min at 1 Hz). */
-  calibration?: number;
-  /** Added to every score before its logarithm is taken, in score units (keeps ln finite for a score of 0). Default 1e-12. */
-  scoreFloor?: number;
-  /** Quantile of the calibration live scores (log scale) the anomaly threshold starts from, in (0.5, 1). Default 0.99. */
-  anomalyQuantile?: number;
-  /** Margin added to that quantile to enter the anomaly state, in σ. Default 1. */
-  anomalyMargin?: number;
-  /** Margin below which the anomaly state is left again (hysteresis), in σ; at most `anomalyMargin`. Default 0 (the quantile itself). */
-  anomalyExitMargin?: number;
-  /** Consecutive anomalous samples that raise an alarm with cause "anomaly". Default 5. */
-  anomalyRun?: number;
-  /** The change test on the active reference's normalised score. Default "cusum" (two-sided, reference value 0.5 σ). */
-  changeTest?: ChangeTestChoice;
-  /** Target in-control average run length of the change test, in samples; the threshold is calibrated to it at the end of commissioning. Default 20000. */
-  targetArl0?: number;
-  /** Bootstrap replicates of that calibration, 10 to 10000 (cost grows with replicates). Default 100. */
-  calibrationReplicates?: number;
-  /** Half-life of the slowly following baseline the change test measures from, in samples. Default 1800 (30 min at 1 Hz). */
-  baselineHalfLife?: number;
-  /** Normalised scores are clipped to ±this before the change test, in σ, so that one wild sample cannot fire it. Default 6. */
-  scoreClip?: number;
-  /** Samples the post-change stream must stay stationary before the engine acts. Default 900 (15 min at 1 Hz: longer than the transients that must not be learnt). */
-  settling?: number;
-  /** Longest settling before an unsettled change raises an alarm, in samples. Default 3600. */
-  settlingLimit?: number;
-  /** |Mann-Kendall z| over the settling window above which the stream counts as trending. Default 2.58 (two-sided p 0.01). */
-  settlingTrendZ?: number;
-  /** Largest difference of the settling window's half means still called stationary, in σ. Default 0.5. */
-  settlingShift?: number;
-  /** While settling, a sample whose normalised active score lies more than this above the window's level is an anomaly (held, left out), in σ of the window. Default 4. */
-  settlingOutlier?: number;
-  /** Smallest settled level shift of the active reference that confirms a change, in σ; below it the alarm was a false one. Default 1. */
-  confirmShift?: number;
-  /** A reference whose mean settled score is within this of its own normal level scores the new data as normal (a known mode), in σ. Default 1. */
-  knownModeLevel?: number;
-  /** Samples averaged into one point of the long trend windows (decimation). Default 60. */
-  trendBlock?: number;
-  /** Points (blocks) in the long trend windows. Default 240 (4 h at 1 Hz with blocks of 60). */
-  trendWindow?: number;
-  /** One-sided Mann-Kendall z that raises a degradation alarm. Default 3.09 (p 0.001). */
-  trendZ?: number;
-  /** One-sided Mann-Kendall z at which learning stops and retraining is refused (degradation warning). Default 2.33 (p 0.01). */
-  trendWarnZ?: number;
-  /** z below which standing degradation evidence clears (hysteresis). Default 1.64. */
-  trendClearZ?: number;
-  /** Smallest rise over the window (Theil-Sen slope × window span) that counts as degradation, in σ. Default 0.5. */
-  trendMinRise?: number;
-  /** Smallest window filling, in blocks, before a trend can raise anything. Default 20. */
-  trendMinBlocks?: number;
-  /** What a confirmed drift that no known mode explains leads to. Default "auto". */
-  retrain?: RetrainMode;
-  /**
-   * After an acknowledged anomaly alarm whose level persists through settling (the settled level of the
-   * active reference at or above the anomaly exit threshold): "confirm" (default) asks the operator even
-   * when `retrain` is "auto"; "as-drift" retrains on it like on any drift. "as-drift" learns a fault that
-   * is acknowledged while it lasts (an hour-long clog) as the new normal: use it only where every
-   * acknowledged alarm has been inspected and cleared. Default "confirm".
-   */
-  persistentAnomaly?: PersistentAnomalyMode;
-  /** Retrain attempts (a candidate that fails validation counts too) allowed per horizon. Default 3. */
-  retrainBudget?: number;
-  /** The horizon of that budget, in samples. Default 86400 (a day at 1 Hz). */
-  retrainHorizon?: number;
-  /** Samples after a retrain or a switch in which no further retrain may start. Default 1800. */
-  coolDown?: number;
-  /** Seed of the engine's random source (threshold calibration, candidate models). Default 0. */
-  seed?: number | string;
-  /** NaN or ±Infinity in a sample: "refuse" (default) throws E_NON_FINITE, "skip" counts it and decides "hold". */
-  nonFinite?: NonFinitePolicy;
-}
-
-/** The validated, complete option set of the core (plain data; it travels in snapshots). */
-export interface CoreSettings {
-  commissioning: number;
-  calibration: number;
-  scoreFloor: number;
-  anomalyQuantile: number;
-  anomalyMargin: number;
-  anomalyExitMargin: number;
-  anomalyRun: number;
-  changeTest: ChangeTestChoice;
-  targetArl0: number;
-  calibrationReplicates: number;
-  baselineHalfLife: number;
-  scoreClip: number;
-  settling: number;
-  settlingLimit: number;
-  settlingTrendZ: number;
-  settlingShift: number;
-  settlingOutlier: number;
-  confirmShift: number;
-  knownModeLevel: number;
-  trendBlock: number;
-  trendWindow: number;
-  trendZ: number;
-  trendWarnZ: number;
-  trendClearZ: number;
-  trendMinRise: number;
-  trendMinBlocks: number;
-  retrain: RetrainMode;
-  persistentAnomaly: PersistentAnomalyMode;
-  retrainBudget: number;
-  retrainHorizon: number;
-  coolDown: number;
-  seed: number | string;
-  nonFinite: NonFinitePolicy;
-}
-
-/** The option names of the core, in a fixed order. */
-export const CORE_OPTION_NAMES = [
-  "commissioning",
-  "calibration",
-  "scoreFloor",
-  "anomalyQuantile",
-  "anomalyMargin",
-  "anomalyExitMargin",
-  "anomalyRun",
-  "changeTest",
-  "targetArl0",
-  "calibrationReplicates",
-  "baselineHalfLife",
-  "scoreClip",
-  "settling",
-  "settlingLimit",
-  "settlingTrendZ",
-  "settlingShift",
-  "settlingOutlier",
-  "confirmShift",
-  "knownModeLevel",
-  "trendBlock",
-  "trendWindow",
-  "trendZ",
-  "trendWarnZ",
-  "trendClearZ",
-  "trendMinRise",
-  "trendMinBlocks",
-  "retrain",
-  "persistentAnomaly",
-  "retrainBudget",
-  "retrainHorizon",
-  "coolDown",
-  "seed",
-  "nonFinite",
-] as const;
-
-/** The defaults, tuned for 256-bin spectra at one sample per second. */
-export const CORE_DEFAULTS: Readonly<CoreSettings> = Object.freeze({
-  commissioning: 600,
-  calibration: 600,
-  scoreFloor: 1e-12,
-  anomalyQuantile: 0.99,
-  anomalyMargin: 1,
-  anomalyExitMargin: 0,
-  anomalyRun: 5,
-  changeTest: "cusum",
-  targetArl0: 20000,
-  calibrationReplicates: 100,
-  baselineHalfLife: 1800,
-  scoreClip: 6,
-  settling: 900,
-  settlingLimit: 3600,
-  settlingTrendZ: 2.58,
-  settlingShift: 0.5,
-  settlingOutlier: 4,
-  confirmShift: 1,
-  knownModeLevel: 1,
-  trendBlock: 60,
-  trendWindow: 240,
-  trendZ: 3.09,
-  trendWarnZ: 2.33,
-  trendClearZ: 1.64,
-  trendMinRise: 0.5,
-  trendMinBlocks: 20,
-  retrain: "auto",
-  persistentAnomaly: "confirm",
-  retrainBudget: 3,
-  retrainHorizon: 86400,
-  coolDown: 1800,
-  seed: 0,
-  nonFinite: "refuse",
-});
-
 const MAX_SAMPLES = 2 ** 31 - 1;
 
-/** Validates the core's options (missing ones take {@link CORE_DEFAULTS}); throws OptionError naming the option. */
-export function resolveCoreSettings(component: string, options: DecisionCoreOptions): CoreSettings {
-  const d = CORE_DEFAULTS;
-  const pick = <K extends keyof CoreSettings>(key: K): unknown => (options[key] === undefined ? d[key] : options[key]);
-  const count = (key: keyof CoreSettings, min: number, max = MAX_SAMPLES): number => integerInRange(component, key, pick(key), min, max);
-  const level = (key: keyof CoreSettings): number => positiveNumber(component, key, pick(key));
-  const s: CoreSettings = {
-    commissioning: count("commissioning", 10),
-    calibration: count("calibration", 20, 100_000),
-    scoreFloor: level("scoreFloor"),
-    anomalyQuantile: numberInRange(component, "anomalyQuantile", pick("anomalyQuantile"), { min: 0.5, max: 1, minExclusive: true, maxExclusive: true }),
-    anomalyMargin: level("anomalyMargin"),
-    anomalyExitMargin: numberInRange(component, "anomalyExitMargin", pick("anomalyExitMargin"), { min: 0 }),
-    anomalyRun: count("anomalyRun", 1, 100_000),
-    changeTest: oneOf(component, "changeTest", pick("changeTest"), ["cusum", "page-hinkley"] as const),
-    targetArl0: numberInRange(component, "targetArl0", pick("targetArl0"), { min: 100, max: 1e7 }),
-    calibrationReplicates: count("calibrationReplicates", 10, 10_000), // calibrateThreshold needs at least 10
-    baselineHalfLife: positiveNumber(component, "baselineHalfLife", pick("baselineHalfLife")),
-    scoreClip: level("scoreClip"),
-    settling: count("settling", 20, 100_000),
-    settlingLimit: count("settlingLimit", 20),
-    settlingTrendZ: level("settlingTrendZ"),
-    settlingShift: level("settlingShift"),
-    settlingOutlier: level("settlingOutlier"),
-    confirmShift: level("confirmShift"),
-    knownModeLevel: level("knownModeLevel"),
-    trendBlock: count("trendBlock", 1, 1_000_000),
-    trendWindow: count("trendWindow", 10, 100_000),
-    trendZ: level("trendZ"),
-    trendWarnZ: level("trendWarnZ"),
-    trendClearZ: numberInRange(component, "trendClearZ", pick("trendClearZ"), { min: 0 }),
-    trendMinRise: numberInRange(component, "trendMinRise", pick("trendMinRise"), { min: 0 }),
-    trendMinBlocks: count("trendMinBlocks", 3),
-    retrain: oneOf(component, "retrain", pick("retrain"), ["auto", "confirm", "never"] as const),
-    persistentAnomaly: oneOf(component, "persistentAnomaly", pick("persistentAnomaly"), ["confirm", "as-drift"] as const),
-    retrainBudget: count("retrainBudget", 0, 1_000_000),
-    retrainHorizon: count("retrainHorizon", 1),
-    coolDown: count("coolDown", 0),
-    seed: seedOption(component, "seed", pick("seed")),
-    nonFinite: nonFiniteOption(component, options.nonFinite),
-  };
-  if (s.anomalyExitMargin > s.anomalyMargin) {
-    throw new OptionError(component, "anomalyExitMargin", s.anomalyExitMargin, `a number in [0, anomalyMargin = ${s.anomalyMargin}]`);
-  }
+/**
+ * The options of the decision core, shared by both feeding modes, declared
+ * once: defaults, bounds, units and docs (the CLI's config schema and the
+ * policy guide are derived from this table). Spans take a count of samples
+ * or a duration ("15m", "4h") turned into samples by `samplePeriod`; the
+ * defaults are durations with a floor in samples. Every level written "σ" is
+ * in standard deviations of the natural log of a score, measured during
+ * calibration.
+ */
+export const CORE_OPTIONS = optionTable("DecisionEngine", {
+  commissioning: { kind: "span", default: "10m", atLeast: 100, min: 10, max: MAX_SAMPLES, doc: "Span of a new engine's commissioning window, all learnt as normal, before the commissioning reference is frozen." },
+  calibration: { kind: "span", default: "10m", atLeast: 100, min: 20, max: 100_000, doc: "Span after a reference is frozen whose scores calibrate its normal level, its spread and the anomaly threshold." },
+  scoreFloor: { kind: "number", default: 1e-12, min: 0, minExclusive: true, unit: "score units", doc: "Added to every score before its logarithm is taken (keeps ln finite for a score of 0)." },
+  anomalyQuantile: { kind: "number", default: 0.99, min: 0.5, max: 1, minExclusive: true, maxExclusive: true, unit: "probability", doc: "Quantile of the calibration live scores (log scale) the anomaly threshold starts from." },
+  anomalyMargin: { kind: "number", default: 1, min: 0, minExclusive: true, unit: "σ", doc: "Margin added to that quantile to enter the anomaly state." },
+  anomalyExitMargin: { kind: "number", default: 0, min: 0, unit: "σ", doc: "Margin below which the anomaly state is left again (hysteresis); at most anomalyMargin." },
+  anomalyRun: { kind: "integer", default: 5, min: 1, max: 100_000, unit: "samples", doc: "Consecutive anomalous samples that raise an alarm with cause anomaly." },
+  changeTest: { kind: "choice", default: "cusum", choices: ["cusum", "page-hinkley"], doc: "The change test on the active reference's normalised score (two-sided, reference value 0.5 σ)." },
+  targetArl0: { kind: "number", default: 20000, min: 100, max: 1e7, unit: "samples", doc: "Target in-control average run length of the change test; its threshold is calibrated to it at the end of commissioning." },
+  calibrationReplicates: { kind: "integer", default: 100, min: 10, max: 10_000, unit: "replicates", doc: "Bootstrap replicates of that calibration (cost grows with replicates)." },
+  baselineHalfLife: { kind: "span", default: "30m", atLeast: 30, min: 1, max: MAX_SAMPLES, doc: "Half-life of the slowly following baseline the change test measures from." },
+  scoreClip: { kind: "number", default: 6, min: 0, minExclusive: true, unit: "σ", doc: "Normalised scores are clipped to ± this before the change test, so one wild sample cannot fire it." },
+  settling: { kind: "span", default: "15m", atLeast: 30, min: 20, max: 100_000, doc: "Span the post-change stream must stay stationary before the engine acts (longer than the transients that must not be learnt)." },
+  settlingLimit: { kind: "span", default: "1h", atLeast: 120, min: 20, max: MAX_SAMPLES, doc: "Longest settling before an unsettled change raises an alarm; at least settling." },
+  settlingTrendZ: { kind: "number", default: 2.58, min: 0, minExclusive: true, unit: "z", doc: "|Mann-Kendall z| over the settling window above which the stream counts as trending (two-sided p 0.01)." },
+  settlingShift: { kind: "number", default: 0.5, min: 0, minExclusive: true, unit: "σ", doc: "Largest difference of the settling window's half means still called stationary." },
+  settlingOutlier: { kind: "number", default: 4, min: 0, minExclusive: true, unit: "σ of the window", doc: "While settling, a sample whose normalised score lies more than this above the window's level is an anomaly (held, left out of a retrain)." },
+  confirmShift: { kind: "number", default: 1, min: 0, minExclusive: true, unit: "σ", doc: "Smallest settled level shift of the active reference that confirms a change; below it the alarm was a false one." },
+  knownModeLevel: { kind: "number", default: 1, min: 0, minExclusive: true, unit: "σ", doc: "A reference whose mean settled score is within this of its own normal level scores the new data as normal (a known mode)." },
+  trendBlock: { kind: "span", default: "1m", atLeast: 1, min: 1, max: 1_000_000, doc: "Span averaged into one point of the long trend windows (decimation)." },
+  trendWindow: { kind: "integer", default: 240, min: 10, max: 100_000, unit: "blocks", doc: "Points (blocks) in the long trend windows (4 h at 1 Hz with blocks of 1 min)." },
+  trendZ: { kind: "number", default: 3.09, min: 0, minExclusive: true, unit: "z", doc: "One-sided Mann-Kendall z that raises a degradation alarm (p 0.001)." },
+  trendWarnZ: { kind: "number", default: 2.33, min: 0, minExclusive: true, unit: "z", doc: "One-sided Mann-Kendall z at which learning stops and retraining is refused (degradation warning, p 0.01); at most trendZ." },
+  trendClearZ: { kind: "number", default: 1.64, min: 0, unit: "z", doc: "z below which standing degradation evidence clears (hysteresis); at most trendWarnZ." },
+  trendMinRise: { kind: "number", default: 0.5, min: 0, unit: "σ", doc: "Smallest rise over the window (Theil-Sen slope × window span) that counts as degradation." },
+  trendMinBlocks: { kind: "integer", default: 20, min: 3, max: MAX_SAMPLES, unit: "blocks", doc: "Smallest window filling before a trend can raise anything; at most trendWindow." },
+  retrain: { kind: "choice", default: "auto", choices: ["auto", "confirm", "never"], doc: "What a confirmed drift that no known mode explains leads to: retrain at once, ask an operator, or never (a concept-drift alarm instead)." },
+  persistentAnomaly: { kind: "choice", default: "confirm", choices: ["confirm", "as-drift"], doc: "After an acknowledged anomaly alarm whose level persists through settling: confirm asks the operator even under retrain auto; as-drift retrains on it like on any drift (it would learn an hour-long clog acknowledged while it lasts as normal)." },
+  retrainBudget: { kind: "integer", default: 3, min: 0, max: 1_000_000, unit: "retrains", doc: "Retrain attempts (failed candidates included) allowed per horizon." },
+  retrainHorizon: { kind: "span", default: "1d", atLeast: 144, min: 1, max: MAX_SAMPLES, doc: "The horizon of that budget." },
+  coolDown: { kind: "span", default: "30m", atLeast: 10, min: 0, max: MAX_SAMPLES, doc: "Span after a retrain or a switch in which no further retrain may start." },
+  seed: { kind: "seed", default: 0, doc: "Seed of the engine's random source (threshold calibration, candidate models): a number or a non-empty string." },
+  nonFinite: { kind: "choice", default: "refuse", choices: ["refuse", "skip"], doc: "NaN or ±Infinity in a sample: refuse (E_NON_FINITE) or skip (counted; decided hold)." },
+});
+
+/**
+ * The options of feature mode (the engine's own autoencoder pool), declared
+ * once; refused in score-only mode. Bounds follow the pool's own limits.
+ */
+export const FEATURE_OPTIONS = optionTable("DecisionEngine", {
+  hidden: { kind: "integer", default: 32, min: 1, max: MAX_HIDDEN, unit: "units", doc: "Feature mode only: hidden units of every autoencoder (live members and candidates)." },
+  members: { kind: "integer", default: 4, min: 1, max: MAX_MEMBERS, unit: "members", doc: "Feature mode only: members of the live pool, one per operating mode." },
+  ridge: { kind: "number", default: 0.01, min: 0, minExclusive: true, unit: "—", doc: "Feature mode only: ridge δ of the OS-ELM autoencoders (P₀ = I/δ)." },
+  forgetting: { kind: "number", default: 1, min: 0, max: 1, minExclusive: true, unit: "—", doc: "Feature mode only: forgetting factor λ in (0, 1] of the live members (1: remember every learnt sample equally)." },
+  validationShare: { kind: "number", default: 0.2, min: 0, max: 0.5, minExclusive: true, unit: "fraction", doc: "Feature mode only: share of the settled samples held out to validate a retrained candidate." },
+  validationTolerance: { kind: "number", default: 2, min: 1, unit: "ratio", doc: "Feature mode only: a candidate passes when its held-out loss is at most this multiple of its training loss (and below the active reference's)." },
+});
+
+/** The validated, complete option set of the core (plain data; it travels in snapshots); spans in samples. */
+export type CoreSettings = ResolvedOptions<typeof CORE_OPTIONS.rows> & { changeTest: ChangeTestChoice; retrain: RetrainMode; persistentAnomaly: PersistentAnomalyMode; nonFinite: "refuse" | "skip" };
+
+/** The options the core accepts: each as in {@link CORE_OPTIONS}; spans as a count of samples or a duration such as "15m". */
+export type DecisionCoreOptions = { [K in keyof CoreSettings]?: CoreSettings[K] | (K extends SpanName ? string : never) };
+
+type SpanName = { [K in keyof typeof CORE_OPTIONS.rows]: (typeof CORE_OPTIONS.rows)[K] extends { kind: "span" } ? K : never }[keyof typeof CORE_OPTIONS.rows];
+
+/** The validated feature-mode options. */
+export type FeatureOptionSettings = ResolvedOptions<typeof FEATURE_OPTIONS.rows>;
+
+/** Options of the feature mode (ignored keys are refused in score-only mode); see {@link FEATURE_OPTIONS}. */
+export type FeatureModelOptions = Partial<FeatureOptionSettings>;
+
+/** The option names of the core, in table order. */
+export const CORE_OPTION_NAMES = CORE_OPTIONS.names;
+
+/** The core's defaults at one sample per second. */
+export const CORE_DEFAULTS: Readonly<CoreSettings> = Object.freeze(CORE_OPTIONS.defaults() as CoreSettings);
+
+/** Every engine option as plain rows (the two tables and `inputs`, `samplePeriod`), for docs and config schemas. */
+export function describeEngineOptions(): OptionDescription[] {
+  return [
+    { name: "samplePeriod", kind: "number", default: 1, min: null, max: null, choices: null, unit: "s", allowed: 'a number of seconds > 0, or a duration such as "10m"', doc: 'Seconds between samples, or a duration such as "10m"; spans given as durations are turned into samples with it.' },
+    ...CORE_OPTIONS.describe(),
+    ...FEATURE_OPTIONS.describe(),
+  ];
+}
+
+/** Validates the core's options (missing ones take their defaults at `samplePeriod`); throws OptionError naming the option. */
+export function resolveCoreSettings(component: string, options: Readonly<Record<string, unknown>>, samplePeriod: number): CoreSettings {
+  const s = CORE_OPTIONS.resolve(options, { samplePeriod }) as CoreSettings;
+  if (s.anomalyExitMargin > s.anomalyMargin) throw new OptionError(component, "anomalyExitMargin", s.anomalyExitMargin, `a number in [0, anomalyMargin = ${s.anomalyMargin}]`);
   if (s.settlingLimit < s.settling) throw new OptionError(component, "settlingLimit", s.settlingLimit, `an integer >= settling = ${s.settling}`);
   if (s.trendWarnZ > s.trendZ) throw new OptionError(component, "trendWarnZ", s.trendWarnZ, `a number in (0, trendZ = ${s.trendZ}]`);
   if (s.trendClearZ > s.trendWarnZ) throw new OptionError(component, "trendClearZ", s.trendClearZ, `a number in [0, trendWarnZ = ${s.trendWarnZ}]`);
@@ -267,10 +115,7 @@ export function resolveCoreSettings(component: string, options: DecisionCoreOpti
   return s;
 }
 
-/** Reads the core options out of a larger options object (used by the engine). */
-export function coreOptionsOf(options: Record<string, unknown>): DecisionCoreOptions {
-  const out: Record<string, unknown> = {};
-  for (const key of CORE_OPTION_NAMES) if (options[key] !== undefined) out[key] = options[key];
-  return out as DecisionCoreOptions;
+/** Reads `samplePeriod` (seconds or a duration; default 1). */
+export function resolveSamplePeriod(component: string, value: unknown): number {
+  return value === undefined ? 1 : samplePeriodOption(component, "samplePeriod", value);
 }
-

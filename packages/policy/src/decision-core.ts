@@ -1,0 +1,582 @@
+import { StateError, type Snapshot } from "@leeway/core";
+import { readCoreSnapshot, writeCoreSnapshot, type CoreSnapshotState } from "./core-snapshot.js";
+import type { Action, Cause, Decision, Evidence, Phase } from "./decision.js";
+import type { CoreSettings } from "./options.js";
+import { normalised, type ScoreLevel } from "./calibration.js";
+import type { Effect, EffectOutcome, Step } from "./effects.js";
+import { AnomalyEpisode } from "./anomaly-episode.js";
+import { DegradationMonitor } from "./degradation-monitor.js";
+import { ChangeWatch } from "./change-watch.js";
+import { CalibrationSpan } from "./calibration-span.js";
+import { RetrainGate } from "./retrain-gate.js";
+import { Settling } from "./settling.js";
+import type { SettlingCheck } from "./settling-window.js";
+
+/** Samples a settling window needs before its own level judges anomalies. */
+const SETTLING_WARM_UP = 20;
+/** The smallest window spread used in that judgement, in σ. */
+const MIN_WINDOW_SPREAD = 0.05;
+
+/** The scores of one sample (score units, ≥ 0): live model, commissioning, newest and active references. */
+export interface SampleScores {
+  live: number;
+  commissioning: number;
+  newest: number;
+  active: number;
+}
+
+/** The parts a core is made of; {@link DecisionCore} owns them, its snapshot holds theirs. */
+export interface CoreParts {
+  anomaly: AnomalyEpisode;
+  degradation: DegradationMonitor;
+  change: ChangeWatch;
+  calibration: CalibrationSpan;
+  gate: RetrainGate;
+  settling: Settling;
+}
+
+/** The core's own counters and lineage bookkeeping (plain data). */
+export interface CoreLedger {
+  index: number;
+  skipped: number;
+  phase: Phase;
+  latchCause: Cause | null;
+  commissioningLength: number;
+  commissioningLeft: number;
+  levels: ScoreLevel[];
+  liveLevel: ScoreLevel | null;
+  activeId: number;
+  newestId: number;
+  retrains: number;
+  switches: number;
+  alarms: number;
+  /** Index of the last anomaly alarm, or −1. */
+  anomalyAlarmAt: number;
+}
+
+/**
+ * The decision core that both feeding modes share: per sample it sees the
+ * live model's score and the scores under the frozen references and returns
+ * the decision with the effects the model side must carry out ({@link Step}).
+ *
+ * Method (one sample, read {@link DecisionCore.step} top-down): scores go to
+ * the log scale and are normalised by the levels measured while calibrating
+ * each model, z = (ln(s + floor) − μ)/σ.
+ * 1. Anomaly ({@link AnomalyEpisode}): the live log score above the
+ *    calibrated threshold → hold; a run of them → alarm "anomaly".
+ * 2. Degradation ({@link DegradationMonitor}): long Mann-Kendall windows of
+ *    the active reference's z and of the gap z_reference − z_live; a
+ *    significant rise → alarm "degradation"; a weaker one stops learning.
+ * 3. Concept drift ({@link ChangeWatch}): a calibrated change test on the
+ *    active reference's z fires → settling ({@link Settling}): nothing learnt
+ *    until the post-change window is stationary. Then a shift below
+ *    `confirmShift` σ was a false alarm; a reference that scores the window as
+ *    normal is a known mode (switch-mode); otherwise retrain (auto, confirm or
+ *    never) through the {@link RetrainGate} (budget, cool-down, operator).
+ * 4. After an acknowledged anomaly alarm the engine settles too; a settled
+ *    level still at the anomaly's height waits for the operator.
+ *
+ * The operator calls are the methods at the end of this file; the snapshot
+ * format lives in `core-snapshot.ts`.
+ */
+export class DecisionCore {
+  readonly settings: CoreSettings;
+  readonly component: string;
+  readonly #ledger: CoreLedger;
+  readonly #parts: CoreParts;
+
+  constructor(component: string, settings: CoreSettings, restored?: { ledger: CoreLedger; parts: CoreParts }) {
+    this.component = component;
+    this.settings = settings;
+    this.#ledger = restored?.ledger ?? {
+      index: -1,
+      skipped: 0,
+      phase: "commissioning",
+      latchCause: null,
+      commissioningLength: settings.commissioning,
+      commissioningLeft: settings.commissioning,
+      levels: [],
+      liveLevel: null,
+      activeId: 0,
+      newestId: 0,
+      retrains: 0,
+      switches: 0,
+      alarms: 0,
+      anomalyAlarmAt: -1,
+    };
+    this.#parts = restored?.parts ?? {
+      anomaly: new AnomalyEpisode(),
+      degradation: new DegradationMonitor(settings),
+      change: new ChangeWatch(settings),
+      calibration: new CalibrationSpan(settings.calibration),
+      gate: new RetrainGate(settings),
+      settling: new Settling(settings.settling),
+    };
+  }
+
+  get index(): number {
+    return this.#ledger.index;
+  }
+  get phase(): Phase {
+    return this.#ledger.phase;
+  }
+  /** Lineage id of the reference the change and trend tests watch. */
+  get activeId(): number {
+    return this.#ledger.activeId;
+  }
+  /** Lineage id of the newest reference. */
+  get newestId(): number {
+    return this.#ledger.newestId;
+  }
+  /** True while a retrain waits for the operator's confirmation. */
+  get pending(): boolean {
+    return this.#parts.gate.pending;
+  }
+  /** The anomaly entry threshold in score units, or null before calibration. */
+  get anomalyThreshold(): number | null {
+    return this.#parts.anomaly.threshold(this.settings.scoreFloor);
+  }
+
+  /** Retrains accepted so far. */
+  get retrains(): number {
+    return this.#ledger.retrains;
+  }
+  /** Switches to a known mode so far. */
+  get switches(): number {
+    return this.#ledger.switches;
+  }
+  /** Alarms raised so far. */
+  get alarms(): number {
+    return this.#ledger.alarms;
+  }
+  /** Non-finite samples skipped. */
+  get skipped(): number {
+    return this.#ledger.skipped;
+  }
+
+  /** The whole core as plain data. */
+  snapshot(): Snapshot<CoreSnapshotState> {
+    return writeCoreSnapshot(this.settings, this.#ledger, this.#parts);
+  }
+
+  /** Rebuilds a core from {@link DecisionCore.snapshot}; `component` names it in errors. */
+  static restore(snapshot: unknown, component: string): DecisionCore {
+    const { settings, ledger, parts } = readCoreSnapshot(snapshot, component);
+    return new DecisionCore(component, settings, { ledger, parts });
+  }
+
+  /** A non-finite sample skipped under nonFinite "skip": counted, nothing else changes. */
+  skip(): Step {
+    const l = this.#ledger;
+    l.index += 1;
+    l.skipped += 1;
+    return this.#step("hold", l.phase === "latched" ? (l.latchCause ?? "normal") : "normal", { liveScore: Number.NaN, referenceScores: [], skipped: l.skipped });
+  }
+
+  /** Decides on one sample from its scores. */
+  step(scores: SampleScores): Step {
+    const l = this.#ledger;
+    const p = this.#parts;
+    const s = this.settings;
+    l.index += 1;
+    const evidence: Evidence = {
+      liveScore: scores.live,
+      referenceScores: l.newestId === 0 ? [scores.commissioning] : [scores.commissioning, scores.newest],
+      activeReference: l.activeId,
+    };
+    if (l.phase === "commissioning") return this.#commissioningStep(scores, evidence);
+    if (l.phase === "retraining") return this.#step("hold", "concept-drift", evidence);
+    const uLive = Math.log(scores.live + s.scoreFloor);
+    const uActive = Math.log(scores.active + s.scoreFloor);
+    if (p.calibration.purpose !== null) return this.#calibrationStep(uLive, uActive, evidence, "concept-drift", "hold");
+    const zLive = normalised(uLive, l.liveLevel as ScoreLevel, s.scoreClip);
+    const zActive = normalised(uActive, l.levels[l.activeId] as ScoreLevel, s.scoreClip);
+    if (l.phase === "settling") {
+      const zCommissioning = normalised(Math.log(scores.commissioning + s.scoreFloor), l.levels[0] as ScoreLevel, s.scoreClip);
+      const zNewest = normalised(Math.log(scores.newest + s.scoreFloor), l.levels[l.newestId] as ScoreLevel, s.scoreClip);
+      return this.#settlingStep(zActive, zCommissioning, zNewest, evidence);
+    }
+
+    // 1. Anomaly: every sample of an episode is held; `anomalyRun` samples above raise the alarm.
+    if (p.anomaly.observe(uLive, s.anomalyRun)) {
+      evidence.anomaly = { threshold: this.anomalyThreshold, run: p.anomaly.run, needed: s.anomalyRun, above: p.anomaly.above };
+      if (l.phase !== "latched" && p.anomaly.run >= s.anomalyRun) return this.#latch("anomaly", evidence);
+      return this.#step("hold", l.phase === "latched" ? (l.latchCause as Cause) : "anomaly", evidence);
+    }
+
+    // 2. Degradation: long decimated trends of the active reference's score and of the reference-minus-live gap.
+    p.degradation.observe(zActive, zLive);
+    if (l.phase === "latched") {
+      Object.assign(evidence, p.degradation.evidence(zActive, zLive));
+      return this.#step("hold", l.latchCause as Cause, evidence);
+    }
+    const strength = p.degradation.strength();
+    Object.assign(evidence, p.degradation.evidence(zActive, zLive));
+    if (strength === 2 && !p.degradation.episodeAlarmed) return this.#latch("degradation", evidence);
+    p.degradation.carry(strength, l.index);
+
+    // 3. Concept drift: the change test on the active reference's normalised score.
+    const reading = p.change.observe(zActive);
+    evidence.change = p.change.evidence(reading);
+    if (reading.status === "change") {
+      p.change.restart();
+      if (p.degradation.episodeAlarmed) return this.#step("hold", "degradation", evidence);
+      // A change point on top of a rising trend: the level crept up before it jumped. Reported as
+      // degradation; it refuses retrains only while the warning stands (a full trend alarm refuses them
+      // until the next commissioning).
+      if (strength >= 1) return this.#latch("degradation", evidence, strength === 2);
+      l.phase = "settling";
+      p.settling.begin(l.index);
+      return this.#step("hold", "concept-drift", evidence);
+    }
+    if (p.degradation.standing) return this.#step("hold", "degradation", evidence);
+    return this.#step("learn", "normal", evidence, [{ kind: "learn" }]);
+  }
+
+  #commissioningStep(scores: SampleScores, evidence: Evidence): Step {
+    const l = this.#ledger;
+    if (l.commissioningLeft > 0) {
+      l.commissioningLeft -= 1;
+      evidence.commissioning = { progress: (l.commissioningLength - l.commissioningLeft) / l.commissioningLength };
+      const effects: Effect[] = [{ kind: "learn" }];
+      if (l.commissioningLeft === 0) {
+        effects.push({ kind: "freeze-commissioning" });
+        this.#parts.calibration.begin("commissioning");
+      }
+      return this.#step("learn", "commissioning", evidence, effects);
+    }
+    const floor = this.settings.scoreFloor;
+    return this.#calibrationStep(Math.log(scores.live + floor), Math.log(scores.commissioning + floor), evidence, "commissioning", "learn");
+  }
+
+  #calibrationStep(uLive: number, uActive: number, evidence: Evidence, cause: Cause, action: Action): Step {
+    const p = this.#parts;
+    const l = this.#ledger;
+    const s = this.settings;
+    p.calibration.push(uLive, uActive);
+    const calibration: Record<string, unknown> = { progress: p.calibration.progress };
+    evidence.calibration = calibration;
+    const step = this.#step(action, cause, evidence, action === "learn" ? [{ kind: "learn" }] : []);
+    if (!p.calibration.full) return step;
+    const result = p.calibration.finish(s.anomalyQuantile, s.scoreClip);
+    l.levels[l.activeId] = result.active;
+    l.liveLevel = result.live;
+    p.anomaly.calibrate(result.liveQuantile, result.live, s.anomalyMargin, s.anomalyExitMargin);
+    const fallback = p.change.arm(result.activeZ, `${String(s.seed)}/change/${l.index}`, result.purpose === "commissioning");
+    if (fallback !== null) calibration.changeThresholdFallback = fallback;
+    l.phase = "watching";
+    p.degradation.newLevel();
+    return step;
+  }
+
+  #settlingStep(zActive: number, zCommissioning: number, zNewest: number, evidence: Evidence): Step {
+    const s = this.settings;
+    const p = this.#parts;
+    const l = this.#ledger;
+    if (p.gate.waiting) return this.#step("hold", p.settling.afterAnomaly ? "anomaly" : "concept-drift", evidence);
+    if (p.gate.confirmed) {
+      evidence.confirmed = true;
+      return this.#beginRetrain(evidence);
+    }
+    // Anomalies while settling are judged against the post-change stream itself: far above the window's level.
+    const window = p.settling.window;
+    if (window.count >= SETTLING_WARM_UP) {
+      const level = window.check();
+      const limit = level.activeLevel + s.settlingOutlier * Math.max(level.activeSpread, MIN_WINDOW_SPREAD);
+      if (zActive > limit) {
+        p.anomaly.countOutlier();
+        evidence.anomaly = { level: level.activeLevel, limit, run: p.anomaly.run, needed: s.anomalyRun };
+        if (p.anomaly.run >= s.anomalyRun) return this.#latch("anomaly", evidence);
+        return this.#step("hold", "anomaly", evidence);
+      }
+    }
+    p.anomaly.clear();
+    const position = window.push(zActive, zCommissioning, zNewest);
+    const keep: Effect[] = [{ kind: "keep", position }];
+    const elapsed = l.index - p.settling.start;
+    const settling: Record<string, unknown> = { samples: window.count, needed: s.settling, elapsed, progress: Math.min(1, window.count / s.settling) };
+    evidence.settling = settling;
+    if (!window.full) {
+      if (elapsed >= s.settlingLimit) return this.#latch("concept-drift", evidence, true, keep);
+      return this.#step("hold", "concept-drift", evidence, keep);
+    }
+    const check = window.check();
+    Object.assign(settling, check);
+    const stationary = Math.abs(check.trendZ) < s.settlingTrendZ && Math.abs(check.shift) < s.settlingShift;
+    if (!stationary) {
+      // A step inside the window leaves it after `settling` samples; a window still rising after that is a ramp.
+      settling.risingRun = p.settling.countRising(check.trendZ >= s.settlingTrendZ && check.shift > 0);
+      if (p.settling.risingRun >= s.settling) return this.#latch("degradation", evidence, true, keep);
+      if (elapsed >= s.settlingLimit) return this.#latch(check.trendZ > 0 ? "degradation" : "concept-drift", evidence, true, keep);
+      return this.#step("hold", "concept-drift", evidence, keep);
+    }
+    const settled = this.#settled(check, evidence);
+    settled.effects.unshift(...keep);
+    return settled;
+  }
+
+  #settled(check: SettlingCheck, evidence: Evidence): Step {
+    const s = this.settings;
+    const p = this.#parts;
+    const l = this.#ledger;
+    if (Math.abs(check.activeLevel) < s.confirmShift) {
+      // The active reference still scores the stream as normal: the change was not confirmed.
+      evidence.outcome = p.settling.afterAnomaly ? "returned to normal" : "unconfirmed";
+      this.#toWatching();
+      return this.#step("learn", "normal", evidence, [{ kind: "learn" }]);
+    }
+    const known = this.#knownMode(check);
+    if (known >= 0) return this.#switchTo(known, evidence);
+    if (p.degradation.alarmed) {
+      // A change on a machine with a degradation alarm behind it is not learnt: it is reported.
+      evidence.outcome = "retrain refused: degradation evidence stands";
+      return this.#latch("degradation", evidence);
+    }
+    if (p.degradation.standing) {
+      // A degradation warning refuses the retrain as well, without an alarm of its own.
+      evidence.outcome = "retrain refused: a degradation warning stands";
+      this.#toWatching();
+      return this.#step("hold", "degradation", evidence);
+    }
+    if (p.gate.exhausted(l.index)) {
+      evidence.budget = { used: p.gate.used, allowed: s.retrainBudget, horizon: s.retrainHorizon };
+      return this.#latch("concept-drift", evidence);
+    }
+    if (p.gate.coolingDown(l.index)) {
+      evidence.coolDown = { until: p.gate.coolDownUntil };
+      return this.#step("hold", "concept-drift", evidence);
+    }
+    // An acknowledged anomaly whose level persisted through settling is not learnt without the operator:
+    // a clog acknowledged while it lasts must not become the new normal on its own.
+    const exitLevel = p.anomaly.exitLevel(l.liveLevel, s.scoreClip);
+    const persisting = p.settling.afterAnomaly && s.persistentAnomaly === "confirm" && check.activeLevel >= exitLevel;
+    if (persisting) evidence.persistentAnomaly = { alarmAt: l.anomalyAlarmAt, settledLevel: check.activeLevel, exitLevel };
+    if (s.retrain === "never") return this.#latch("concept-drift", evidence);
+    if (persisting && p.gate.silenced(l.index)) {
+      evidence.outcome = "held: the operator rejected this level as the new normal";
+      return this.#step("hold", "anomaly", evidence);
+    }
+    if (persisting) {
+      p.gate.ask();
+      evidence.outcome = "confirmation needed: the level of an acknowledged anomaly persisted through settling";
+      return this.#step("await-confirmation", "anomaly", evidence);
+    }
+    if (s.retrain === "confirm") {
+      p.gate.ask();
+      return this.#step("await-confirmation", "concept-drift", evidence);
+    }
+    return this.#beginRetrain(evidence);
+  }
+
+  /** The reference (commissioning or newest) that scores the settled window as normal, or −1. */
+  #knownMode(check: SettlingCheck): number {
+    const l = this.#ledger;
+    const limit = this.settings.knownModeLevel;
+    let best = -1;
+    let bestLevel = Infinity;
+    if (l.activeId !== 0 && l.levels[0] !== undefined && Math.abs(check.commissioningLevel) < limit) {
+      best = 0;
+      bestLevel = Math.abs(check.commissioningLevel);
+    }
+    if (l.activeId !== l.newestId && l.levels[l.newestId] !== undefined && Math.abs(check.newestLevel) < Math.min(limit, bestLevel)) best = l.newestId;
+    return best;
+  }
+
+  /**
+   * Starts a retrain: a score-only host retrains on its side and answers with
+   * {@link DecisionCore.modelReplaced}; feature mode carries out the "retrain"
+   * effect on the settled samples (outliers left out) and reports back.
+   */
+  #beginRetrain(evidence: Evidence): Step {
+    const p = this.#parts;
+    const l = this.#ledger;
+    const s = this.settings;
+    const window = p.settling.window;
+    const check = window.check();
+    const limit = check.activeLevel + s.settlingOutlier * Math.max(check.activeSpread, 1e-9);
+    const positions = window.positions().filter((at) => window.activeAt(at) <= limit); // an outlier of the settled stream is never learnt
+    p.settling.end();
+    p.gate.start(l.index);
+    l.phase = "retraining";
+    const effect: Effect = { kind: "retrain", positions, activeId: l.activeId, newestId: l.newestId, levels: l.levels.map((level) => level ?? null), knownModeLevel: s.knownModeLevel, scoreFloor: s.scoreFloor, scoreClip: s.scoreClip, label: `retrain-${l.retrains + 1}` };
+    return this.#step("retrain", "concept-drift", evidence, [effect]);
+  }
+
+  /**
+   * Concludes a decision from an effect's outcome (feature mode): a refused
+   * learn becomes a hold; a retrain attempt becomes a retrain, a switch to an
+   * older known mode, or a failed candidate (settle again); a member put in
+   * service is reported. Returns the concluded decision and any new effects.
+   */
+  conclude(decision: Decision, outcome: EffectOutcome): Step {
+    const evidence = decision.evidence;
+    switch (outcome.kind) {
+      case "learn-refused":
+        return { decision: { ...decision, action: "hold", evidence: { ...evidence, learning: { refused: true, reason: outcome.reason } } }, effects: [] };
+      case "served":
+        return { decision: { ...decision, evidence: { ...evidence, member: outcome.member } }, effects: [] };
+      case "known-mode":
+        this.#settleAgain();
+        return this.#switchTo(outcome.reference, evidence);
+      case "candidate-failed": {
+        if (outcome.error !== null) evidence.outcome = `candidate refused: ${outcome.error}`;
+        if (outcome.validation !== null) evidence.candidate = outcome.validation;
+        this.#settleAgain();
+        return { decision: { ...decision, action: "hold", phase: this.#ledger.phase, evidence }, effects: [] };
+      }
+      case "adopted":
+        evidence.candidate = outcome.validation;
+        evidence.member = outcome.member;
+        this.modelReplaced();
+        return { decision: { ...decision, evidence }, effects: [] };
+    }
+  }
+
+  /** The retrain could not be carried out: settle again from this sample. */
+  #settleAgain(): void {
+    this.#ledger.phase = "settling";
+    this.#parts.settling.begin(this.#ledger.index);
+  }
+
+  #switchTo(id: number, evidence: Evidence): Step {
+    const l = this.#ledger;
+    const p = this.#parts;
+    if (l.levels[id] === undefined) throw new StateError(this.component, `reference ${id} has no calibrated level`);
+    l.activeId = id;
+    p.change.resetBaseline();
+    l.switches += 1;
+    p.gate.drop();
+    p.gate.coolDownFrom(l.index);
+    this.#toWatching();
+    p.degradation.newLevel();
+    evidence.switchedTo = id;
+    return this.#step("switch-mode", "known-mode", evidence, [{ kind: "serve", reference: id }]);
+  }
+
+  #toWatching(): void {
+    this.#ledger.phase = "watching";
+    this.#parts.settling.end();
+    this.#parts.change.restart();
+  }
+
+  #latch(cause: Cause, evidence: Evidence, lasting = true, effects: Effect[] = []): Step {
+    const l = this.#ledger;
+    const p = this.#parts;
+    if (cause === "degradation") p.degradation.alarm(lasting);
+    l.phase = "latched";
+    l.latchCause = cause;
+    l.alarms += 1;
+    if (cause === "anomaly") l.anomalyAlarmAt = l.index;
+    p.gate.drop();
+    p.settling.end();
+    return this.#step("alarm", cause, evidence, effects);
+  }
+
+  #step(action: Action, cause: Cause, evidence: Evidence, effects: Effect[] = []): Step {
+    return { decision: { index: this.#ledger.index, action, cause, phase: this.#ledger.phase, evidence }, effects };
+  }
+
+  #refuse(call: string, allowed: string): never {
+    throw new StateError(this.component, `${call}() is allowed only ${allowed}; the engine is ${this.#parts.gate.pending ? "awaiting confirmation" : `in phase "${this.#ledger.phase}"`}`);
+  }
+
+  /** The host's new model is in service (answer to a "retrain" decision): calibrate it as the newest reference. */
+  modelReplaced(): void {
+    const l = this.#ledger;
+    if (l.phase !== "retraining") this.#refuse("modelReplaced", 'after a "retrain" decision');
+    l.newestId += 1;
+    l.activeId = l.newestId;
+    l.retrains += 1;
+    this.#parts.gate.coolDownFrom(l.index);
+    l.phase = "watching";
+    this.#parts.settling.end();
+    this.#beginRecalibration();
+  }
+
+  /** Score-only host: the retrain could not be carried out; settle again. */
+  retrainFailed(): void {
+    if (this.#ledger.phase !== "retraining") this.#refuse("retrainFailed", 'after a "retrain" decision');
+    this.#settleAgain();
+  }
+
+  #beginRecalibration(): void {
+    this.#parts.calibration.begin("recalibration");
+    this.#parts.anomaly.clear();
+  }
+
+  /** Operator: go ahead with the retrain the engine awaits confirmation for (it starts with the next sample). */
+  confirmRetrain(): void {
+    if (!this.#parts.gate.waiting) this.#refuse("confirmRetrain", 'while a retrain awaits confirmation (after "await-confirmation")');
+    this.#parts.gate.confirm();
+  }
+
+  /**
+   * Operator: refuse the pending retrain. After a drift the new level is
+   * accepted without retraining: the active reference is calibrated again on
+   * the next samples. After an anomaly whose level persisted, the engine keeps
+   * holding: it settles again, goes back to watching when the scores return
+   * to normal, and asks again only after `settlingLimit` samples.
+   * In score-only mode it also answers a "retrain" the host could not carry out.
+   */
+  rejectRetrain(): void {
+    const p = this.#parts;
+    const l = this.#ledger;
+    const waiting = p.gate.waiting;
+    if (!waiting && l.phase !== "retraining") this.#refuse("rejectRetrain", "while a retrain awaits confirmation or is in progress");
+    if (waiting && p.settling.afterAnomaly) {
+      p.gate.silenceUntil(l.index + 1 + this.settings.settlingLimit);
+      p.settling.begin(l.index);
+      return;
+    }
+    p.gate.drop();
+    this.#toWatching();
+    this.#beginRecalibration();
+  }
+
+  /** Operator: clear the alarm latch. */
+  acknowledge(): void {
+    const l = this.#ledger;
+    const p = this.#parts;
+    if (l.phase !== "latched") this.#refuse("acknowledge", "while an alarm is latched");
+    const cause = l.latchCause;
+    l.latchCause = null;
+    this.#toWatching();
+    p.anomaly.clear();
+    if (cause === "anomaly") {
+      // Whatever follows an acknowledged anomaly settles first: a level that returns to normal is not
+      // confirmed, a known mode is switched to, and a level that persists at the anomaly's height waits for
+      // the operator's confirmation (persistentAnomaly "confirm"); nothing is learnt meanwhile.
+      l.phase = "settling";
+      p.settling.begin(l.index, true);
+      p.gate.unsilence();
+    }
+    if (cause === "degradation") p.degradation.keepStanding();
+    if (cause === "concept-drift") {
+      // An unexplained change the operator has seen: accept its level without retraining.
+      p.degradation.restartTrends();
+      this.#beginRecalibration();
+    }
+  }
+
+  /** Operator: start a commissioning window of `n` samples; afterwards a new commissioning reference is frozen and everything is calibrated again. */
+  startCommissioning(n: number): void {
+    const l = this.#ledger;
+    const p = this.#parts;
+    if (l.phase === "commissioning") this.#refuse("startCommissioning", "outside commissioning");
+    l.phase = "commissioning";
+    l.latchCause = null;
+    l.commissioningLength = n;
+    l.commissioningLeft = n;
+    l.levels = [];
+    l.liveLevel = null;
+    l.activeId = 0;
+    l.newestId = 0;
+    p.calibration.cancel();
+    p.anomaly.forget();
+    p.change.forget();
+    p.degradation.recommission();
+    p.gate.drop();
+    p.gate.unsilence();
+    p.settling.end();
+  }
+}
