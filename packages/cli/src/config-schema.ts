@@ -92,7 +92,8 @@ function checkValue(v: unknown, field: Exclude<ConfigField, { kind: "section" }>
       if ((typeof v === "number" && Number.isFinite(v)) || (typeof v === "string" && v.length > 0)) return v;
       return fail("a finite number or a non-empty string");
     case "span":
-      if ((typeof v === "number" && Number.isInteger(v) && v >= field.min && v <= field.max) || (typeof v === "string" && v.length > 0)) return v;
+      // The range is checked by the component that takes the span, so its message names the option.
+      if (typeof v === "number" || (typeof v === "string" && v.length > 0)) return v;
       return fail(`an integer count of samples in [${field.min}, ${field.max}] or a duration such as "15m"`);
   }
 }
