@@ -1,6 +1,5 @@
 import type { MachineInspection, QualityOperator } from "@leeway/eval";
-import type { Decision, DecisionEngine } from "@leeway/policy";
-import { ScriptedOperator } from "./operator.js";
+import { ScriptedOperator, type Decision, type DecisionEngine } from "@leeway/policy";
 
 /** How long the suite's operator takes to answer an alarm or a question, in seconds. */
 export const OPERATOR_ANSWER_SECONDS = 300;
