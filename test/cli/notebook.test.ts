@@ -26,7 +26,7 @@ describe("docs/harbour-lane.ipynb", () => {
     mkdirSync(join(work, "kernels", "deno"), { recursive: true });
     writeFileSync(join(work, "kernels", "deno", "kernel.json"), JSON.stringify({ argv: [deno, "jupyter", "--kernel", "--conn", "{connection_file}"], display_name: "Deno", language: "typescript" }));
     const executed = join(work, "executed.ipynb");
-    execFileSync("jupyter-nbconvert", ["--to", "notebook", "--execute", "--ExecutePreprocessor.kernel_name=deno", "--ExecutePreprocessor.timeout=240", "--ExecutePreprocessor.startup_timeout=180", "--output", executed, "harbour-lane.ipynb"], {
+    execFileSync("jupyter-nbconvert", ["--to", "notebook", "--execute", "--ExecutePreprocessor.kernel_name=deno", "--ExecutePreprocessor.timeout=240", "--ExecutePreprocessor.startup_timeout=180", "--ExecutePreprocessor.iopub_timeout=60", "--output", executed, "harbour-lane.ipynb"], {
       cwd: docs,
       env: { ...process.env, JUPYTER_PATH: work, DENO_NO_UPDATE_CHECK: "1" },
       stdio: ["ignore", "pipe", "pipe"],
