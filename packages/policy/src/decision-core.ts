@@ -3,7 +3,7 @@ import { readCoreSnapshot, writeCoreSnapshot, type CoreSnapshotState } from "./c
 import type { Action, Cause, Decision, Evidence, Phase } from "./decision.js";
 import type { CoreSettings } from "./options.js";
 import { normalised, type ScoreLevel } from "./calibration.js";
-import type { Effect, EffectOutcome, Step } from "./effects.js";
+import { LEARN_ONLY, NO_EFFECTS, type Effect, type EffectOutcome, type Step } from "./effects.js";
 import { AnomalyEpisode } from "./anomaly-episode.js";
 import { DegradationMonitor } from "./degradation-monitor.js";
 import { ChangeWatch } from "./change-watch.js";
@@ -16,6 +16,8 @@ import type { SettlingCheck } from "./settling-window.js";
 const SETTLING_WARM_UP = 20;
 /** The smallest window spread used in that judgement, in σ. */
 const MIN_WINDOW_SPREAD = 0.05;
+/** The last commissioning sample: learn it, then freeze the live model as the commissioning reference. */
+const LEARN_THEN_FREEZE: readonly Effect[] = Object.freeze([{ kind: "learn" }, { kind: "freeze-commissioning" }]);
 
 /** The scores of one sample (score units, ≥ 0): live model, commissioning, newest and active references. */
 export interface SampleScores {
@@ -230,7 +232,7 @@ export class DecisionCore {
       return this.#step("hold", "concept-drift", evidence);
     }
     if (p.degradation.standing) return this.#step("hold", "degradation", evidence);
-    return this.#step("learn", "normal", evidence, [{ kind: "learn" }]);
+    return this.#step("learn", "normal", evidence, LEARN_ONLY);
   }
 
   #commissioningStep(scores: SampleScores, evidence: Evidence): Step {
@@ -238,12 +240,9 @@ export class DecisionCore {
     if (l.commissioningLeft > 0) {
       l.commissioningLeft -= 1;
       evidence.commissioning = { progress: (l.commissioningLength - l.commissioningLeft) / l.commissioningLength };
-      const effects: Effect[] = [{ kind: "learn" }];
-      if (l.commissioningLeft === 0) {
-        effects.push({ kind: "freeze-commissioning" });
-        this.#parts.calibration.begin("commissioning");
-      }
-      return this.#step("learn", "commissioning", evidence, effects);
+      if (l.commissioningLeft > 0) return this.#step("learn", "commissioning", evidence, LEARN_ONLY);
+      this.#parts.calibration.begin("commissioning");
+      return this.#step("learn", "commissioning", evidence, LEARN_THEN_FREEZE);
     }
     const floor = this.settings.scoreFloor;
     return this.#calibrationStep(Math.log(scores.live + floor), Math.log(scores.commissioning + floor), evidence, "commissioning", "learn");
@@ -256,7 +255,7 @@ export class DecisionCore {
     p.calibration.push(uLive, uActive);
     const calibration: Record<string, unknown> = { progress: p.calibration.progress };
     evidence.calibration = calibration;
-    const step = this.#step(action, cause, evidence, action === "learn" ? [{ kind: "learn" }] : []);
+    const step = this.#step(action, cause, evidence, action === "learn" ? LEARN_ONLY : NO_EFFECTS);
     if (!p.calibration.full) return step;
     const result = p.calibration.finish(s.anomalyQuantile, s.scoreClip);
     l.levels[l.activeId] = result.active;
@@ -311,8 +310,7 @@ export class DecisionCore {
       return this.#step("hold", "concept-drift", evidence, keep);
     }
     const settled = this.#settled(check, evidence);
-    settled.effects.unshift(...keep);
-    return settled;
+    return { decision: settled.decision, effects: [...keep, ...settled.effects] };
   }
 
   #settled(check: SettlingCheck, evidence: Evidence): Step {
@@ -323,7 +321,7 @@ export class DecisionCore {
       // The active reference still scores the stream as normal: the change was not confirmed.
       evidence.outcome = p.settling.afterAnomaly ? "returned to normal" : "unconfirmed";
       this.#toWatching();
-      return this.#step("learn", "normal", evidence, [{ kind: "learn" }]);
+      return this.#step("learn", "normal", evidence, LEARN_ONLY);
     }
     const known = this.#knownMode(check);
     if (known >= 0) return this.#switchTo(known, evidence);
@@ -412,9 +410,9 @@ export class DecisionCore {
     const evidence = decision.evidence;
     switch (outcome.kind) {
       case "learn-refused":
-        return { decision: { ...decision, action: "hold", evidence: { ...evidence, learning: { refused: true, reason: outcome.reason } } }, effects: [] };
+        return { decision: { ...decision, action: "hold", evidence: { ...evidence, learning: { refused: true, reason: outcome.reason } } }, effects: NO_EFFECTS };
       case "served":
-        return { decision: { ...decision, evidence: { ...evidence, member: outcome.member } }, effects: [] };
+        return { decision: { ...decision, evidence: { ...evidence, member: outcome.member } }, effects: NO_EFFECTS };
       case "known-mode":
         this.#settleAgain();
         return this.#switchTo(outcome.reference, evidence);
@@ -422,13 +420,13 @@ export class DecisionCore {
         if (outcome.error !== null) evidence.outcome = `candidate refused: ${outcome.error}`;
         if (outcome.validation !== null) evidence.candidate = outcome.validation;
         this.#settleAgain();
-        return { decision: { ...decision, action: "hold", phase: this.#ledger.phase, evidence }, effects: [] };
+        return { decision: { ...decision, action: "hold", phase: this.#ledger.phase, evidence }, effects: NO_EFFECTS };
       }
       case "adopted":
         evidence.candidate = outcome.validation;
         evidence.member = outcome.member;
         this.modelReplaced();
-        return { decision: { ...decision, evidence }, effects: [] };
+        return { decision: { ...decision, evidence }, effects: NO_EFFECTS };
     }
   }
 
@@ -459,7 +457,7 @@ export class DecisionCore {
     this.#parts.change.restart();
   }
 
-  #latch(cause: Cause, evidence: Evidence, lasting = true, effects: Effect[] = []): Step {
+  #latch(cause: Cause, evidence: Evidence, lasting = true, effects: readonly Effect[] = NO_EFFECTS): Step {
     const l = this.#ledger;
     const p = this.#parts;
     if (cause === "degradation") p.degradation.alarm(lasting);
@@ -472,7 +470,7 @@ export class DecisionCore {
     return this.#step("alarm", cause, evidence, effects);
   }
 
-  #step(action: Action, cause: Cause, evidence: Evidence, effects: Effect[] = []): Step {
+  #step(action: Action, cause: Cause, evidence: Evidence, effects: readonly Effect[] = NO_EFFECTS): Step {
     return { decision: { index: this.#ledger.index, action, cause, phase: this.#ledger.phase, evidence }, effects };
   }
 

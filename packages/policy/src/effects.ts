@@ -55,5 +55,10 @@ export interface CandidateValidation {
 /** One sample's decision and the effects the model side must carry out. */
 export interface Step {
   decision: Decision;
-  effects: Effect[];
+  effects: readonly Effect[];
 }
+
+/** No effect (shared, never mutated). */
+export const NO_EFFECTS: readonly Effect[] = Object.freeze([]);
+/** Learn the sample, and nothing else (shared, never mutated). */
+export const LEARN_ONLY: readonly Effect[] = Object.freeze([Object.freeze({ kind: "learn" as const })]);

@@ -13,7 +13,7 @@ import type { Decision, Phase } from "./decision.js";
 import { CORE_OPTIONS, FEATURE_OPTIONS, resolveCoreSettings, resolveSamplePeriod, type DecisionCoreOptions, type FeatureModelOptions } from "./options.js";
 import { DecisionCore, type SampleScores } from "./decision-core.js";
 import { FeatureModel, resolveFeatureSettings } from "./feature-model.js";
-import type { Step } from "./effects.js";
+import type { Effect, Step } from "./effects.js";
 
 /**
  * Options of {@link DecisionEngine}. Give `inputs` for feature mode (the
@@ -159,13 +159,14 @@ export class DecisionEngine {
     const core = this.#core;
     let step: Step = core.step(model.score(x, core.activeId, core.newestId));
     // The model carries out the effects in order; one whose result the decision depends on
-    // (a refused learn, a retrain attempt, a member put in service) goes back to the core.
-    const queue = step.effects;
+    // (a refused learn, a retrain attempt, a member put in service) goes back to the core,
+    // whose conclusion may add effects after the remaining ones.
+    let queue = step.effects;
     for (let i = 0; i < queue.length; i++) {
-      const outcome = model.carryOut(queue[i] as Step["effects"][number], x);
+      const outcome = model.carryOut(queue[i] as Effect, x);
       if (outcome === null) continue;
       step = core.conclude(step.decision, outcome);
-      queue.push(...step.effects);
+      if (step.effects.length > 0) queue = [...queue, ...step.effects];
     }
     return step.decision;
   }
