@@ -1,34 +1,25 @@
-import { afterAll, beforeAll, describe, expect, test } from "vitest";
-import { FleetWorker, openRedis, type RedisClient } from "@leeway/fleet";
+import { describe, expect, test } from "vitest";
+import { FleetWorker, openRedis } from "@leeway/fleet";
 import { runCli } from "../cli/run-cli.js";
 import { consumed, SMALL_ENGINE, waitFor } from "./fleet-stream.js";
-import { RedisServer } from "./redis-server.js";
+import { sharedRedis } from "./redis-server.js";
 
-let server: RedisServer;
-let redis: RedisClient;
-beforeAll(async () => {
-  server = await RedisServer.start();
-  redis = openRedis(server.url);
-});
-afterAll(async () => {
-  await redis?.quit().catch(() => undefined);
-  await server?.stop();
-});
+const shared = sharedRedis();
 
 describe("leeway fleet feed and status", () => {
   test("feed publishes a CSV of interleaved pumps (site from the stream id); status shows owners, lag and open alarms per site", async () => {
     const rows = ["stream,score,t"];
     for (let i = 0; i < 200; i++) for (const s of ["harbour-lane/ps2-de", "harbour-lane/ps2-nde", "quay-street/ps1-de"]) rows.push(`${s},${(i > 150 && s.endsWith("ps2-de") ? 30 : 1) * (1 + 0.05 * Math.sin(i))},${i}`);
-    const fed = await runCli(["fleet", "feed", "--redis", server.url, "--partitions", "4", "-"], { stdin: rows.join("\n") + "\n" });
+    const fed = await runCli(["fleet", "feed", "--redis", shared.server.url, "--partitions", "4", "-"], { stdin: rows.join("\n") + "\n" });
     expect(fed.code).toBe(0);
     expect(fed.stderr).toContain("fleet feed: 600 records published into 4 partitions");
-    const before = await runCli(["fleet", "status", "--redis", server.url, "--partitions", "4", "--json"]);
+    const before = await runCli(["fleet", "status", "--redis", shared.server.url, "--partitions", "4", "--json"]);
     expect(JSON.parse(before.stdout).totalLag).toBe(600);
-    const client = openRedis(server.url);
+    const client = openRedis(shared.server.url);
     const worker = new FleetWorker(client, { partitions: 4, engine: SMALL_ENGINE, batch: 50, leaseMs: 1000 });
     const running = worker.run();
-    await waitFor(async () => (await consumed(redis, 4)) === 600, 60_000, "every record committed");
-    const status = await runCli(["fleet", "status", "--redis", server.url, "--partitions", "4"]);
+    await waitFor(async () => (await consumed(shared.redis, 4)) === 600, 60_000, "every record committed");
+    const status = await runCli(["fleet", "status", "--redis", shared.server.url, "--partitions", "4"]);
     worker.stop();
     await running;
     await client.quit();

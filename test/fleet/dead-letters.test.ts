@@ -1,27 +1,18 @@
 import { deflateRawSync } from "node:zlib";
-import { afterAll, beforeAll, describe, expect, test } from "vitest";
-import { FleetFeeder, FleetWorker, fleetStatus, openRedis, partitionKeys, type RedisClient } from "@leeway/fleet";
+import { describe, expect, test } from "vitest";
+import { FleetFeeder, FleetWorker, fleetStatus, openRedis, partitionKeys } from "@leeway/fleet";
 import { consumed, readOutput, SMALL_ENGINE, waitFor } from "./fleet-stream.js";
-import { RedisServer } from "./redis-server.js";
+import { sharedRedis } from "./redis-server.js";
 
-let server: RedisServer;
-let redis: RedisClient;
-beforeAll(async () => {
-  server = await RedisServer.start();
-  redis = openRedis(server.url);
-});
-afterAll(async () => {
-  await redis?.quit().catch(() => undefined);
-  await server?.stop();
-});
+const shared = sharedRedis();
 
 /** Runs one in-process worker until every published record of the fleet is committed, then stops it gracefully. */
 async function runUntilDone(prefix: string, partitions: number, total: number): Promise<void> {
-  const client = openRedis(server.url);
+  const client = openRedis(shared.server.url);
   const worker = new FleetWorker(client, { prefix, partitions, engine: SMALL_ENGINE, batch: 25, leaseMs: 1000 });
   const running = worker.run();
   try {
-    await waitFor(async () => (await consumed(redis, partitions, prefix)) === total, 60_000, "every record committed");
+    await waitFor(async () => (await consumed(shared.redis, partitions, prefix)) === total, 60_000, "every record committed");
   } finally {
     worker.stop();
     await running;
@@ -32,7 +23,7 @@ async function runUntilDone(prefix: string, partitions: number, total: number): 
 describe("dead letters and refused snapshots (common practice, no source)", () => {
   test("malformed records, wrong lengths, non-finite values and refused operator events go to the dead-letter stream with their reason; the worker keeps going", async () => {
     const prefix = "dl";
-    const feeder = new FleetFeeder(redis, { prefix, partitions: 2 });
+    const feeder = new FleetFeeder(shared.redis, { prefix, partitions: 2 });
     for (let i = 0; i < 80; i++) feeder.sample("ps2-de", "harbour-lane", [1 + 0.05 * Math.sin(i)]);
     feeder.raw("ps2-de", ["s", "ps2-de", "g", "harbour-lane", "v", "1,2,3,4"]);
     feeder.raw("ps2-de", ["s", "ps2-de", "g", "harbour-lane", "v", "Infinity"]);
@@ -43,7 +34,7 @@ describe("dead letters and refused snapshots (common practice, no source)", () =
     for (let i = 0; i < 20; i++) feeder.sample("ps2-de", "harbour-lane", [1]);
     const total = await feeder.flush();
     await runUntilDone(prefix, 2, total);
-    const out = await readOutput(redis, 2, prefix);
+    const out = await readOutput(shared.redis, 2, prefix);
     expect(out.decisions.get("ps2-de")?.length).toBe(100);
     const reasons = out.dead.map((d) => d.reason);
     expect(reasons.length).toBe(6);
@@ -57,20 +48,20 @@ describe("dead letters and refused snapshots (common practice, no source)", () =
 
   test("a snapshot that restore refuses is dead-lettered whole, quarantines its stream and raises one alarm; no crash loop, other streams continue", async () => {
     const prefix = "snap";
-    const feeder = new FleetFeeder(redis, { prefix, partitions: 1 });
+    const feeder = new FleetFeeder(shared.redis, { prefix, partitions: 1 });
     for (let i = 0; i < 30; i++) for (const s of ["ps2-de", "ps2-nde", "ps3-de"]) feeder.sample(s, "harbour-lane", [1 + 0.01 * i]);
     let total = await feeder.flush();
     await runUntilDone(prefix, 1, total);
     const keys = partitionKeys(prefix, 0);
-    const good = await redis.hgetBuffer(keys.snapshots, "ps2-nde");
+    const good = await shared.redis.hgetBuffer(keys.snapshots, "ps2-nde");
     expect(good).not.toBeNull();
-    await redis.hset(keys.snapshots, "ps2-de", deflateRawSync(JSON.stringify({ kind: "leeway.policy.decision-engine", version: 1, state: { mode: "scores" } })));
-    await redis.hset(keys.snapshots, "ps3-de", Buffer.from("not deflate at all"));
+    await shared.redis.hset(keys.snapshots, "ps2-de", deflateRawSync(JSON.stringify({ kind: "leeway.policy.decision-engine", version: 1, state: { mode: "scores" } })));
+    await shared.redis.hset(keys.snapshots, "ps3-de", Buffer.from("not deflate at all"));
     for (let i = 0; i < 10; i++) for (const s of ["ps2-de", "ps2-nde", "ps3-de"]) feeder.sample(s, "harbour-lane", [1]);
     total += await feeder.flush();
     await runUntilDone(prefix, 1, total);
     await runUntilDone(prefix, 1, total); // a restart reads the quarantine, not the bad bytes again
-    const out = await readOutput(redis, 1, prefix);
+    const out = await readOutput(shared.redis, 1, prefix);
     expect(out.decisions.get("ps2-nde")?.length).toBe(40);
     expect(out.decisions.get("ps2-de")?.length).toBe(30);
     const refused = out.dead.filter((d) => d.reason.startsWith("snapshot refused"));
@@ -78,11 +69,11 @@ describe("dead letters and refused snapshots (common practice, no source)", () =
     expect(refused.find((d) => d.stream === "ps3-de")?.reason).toMatch(/^snapshot refused: snapshot of FleetSnapshot: bytes do not inflate/);
     expect(refused.find((d) => d.stream === "ps2-de")?.reason).toBe("snapshot refused: snapshot of leeway.policy.decision-engine: state.core is missing");
     expect(out.dead.filter((d) => d.reason.startsWith("stream is quarantined")).length).toBe(20);
-    const alarms = ((await redis.xrange(keys.output, "-", "+")) as [string, string[]][]).filter(([, f]) => f.includes("alarm"));
+    const alarms = ((await shared.redis.xrange(keys.output, "-", "+")) as [string, string[]][]).filter(([, f]) => f.includes("alarm"));
     expect(alarms.length).toBe(2);
-    expect(await redis.hkeys(keys.quarantine)).toEqual(expect.arrayContaining(["ps2-de", "ps3-de"]));
-    expect(await redis.hexists(keys.snapshots, "ps2-de")).toBe(0);
-    const status = await fleetStatus(redis, { prefix, partitions: 1 });
+    expect(await shared.redis.hkeys(keys.quarantine)).toEqual(expect.arrayContaining(["ps2-de", "ps3-de"]));
+    expect(await shared.redis.hexists(keys.snapshots, "ps2-de")).toBe(0);
+    const status = await fleetStatus(shared.redis, { prefix, partitions: 1 });
     expect(status.alarmsBySite["harbour-lane"]).toEqual(["ps2-de", "ps3-de"]);
     expect(status.partitions[0]?.quarantined).toBe(2);
   });

@@ -1,4 +1,6 @@
 import { spawn, type ChildProcess } from "node:child_process";
+import { afterAll, beforeAll } from "vitest";
+import { openRedis, type RedisClient } from "@leeway/fleet";
 import { mkdtempSync, rmSync } from "node:fs";
 import { createServer, Socket } from "node:net";
 import { tmpdir } from "node:os";
@@ -99,4 +101,31 @@ export class RedisServer {
     await this.kill();
     rmSync(this.dir, { recursive: true, force: true });
   }
+}
+
+/** A Redis server and a client shared by one test file: started before its tests, stopped after them. */
+export interface SharedRedis {
+  readonly server: RedisServer;
+  readonly redis: RedisClient;
+}
+
+/** Registers the hooks that start a loopback redis-server (and open a client) for the calling test file and stop both afterwards. */
+export function sharedRedis(): SharedRedis {
+  const held: { server?: RedisServer; redis?: RedisClient } = {};
+  beforeAll(async () => {
+    held.server = await RedisServer.start();
+    held.redis = openRedis(held.server.url);
+  });
+  afterAll(async () => {
+    await held.redis?.quit().catch(() => undefined);
+    await held.server?.stop();
+  });
+  return {
+    get server(): RedisServer {
+      return held.server as RedisServer;
+    },
+    get redis(): RedisClient {
+      return held.redis as RedisClient;
+    },
+  };
 }
