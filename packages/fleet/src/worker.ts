@@ -58,7 +58,7 @@ const KNOWN = ["prefix", "partitions", "only", "engine", "batch", "leaseMs", "id
  * Workers share the partitions evenly: each takes its fair share of the live
  * workers and gives extra partitions up at its next lease round.
  * @example
- * const worker = new FleetWorker(new Redis("redis://127.0.0.1:6379"), { partitions: 16, engine: { seed: 1 } });
+ * const worker = new FleetWorker(openRedis("redis://127.0.0.1:6379"), { partitions: 16, engine: { seed: 1 } });
  * process.once("SIGTERM", () => worker.stop());
  * await worker.run(); // until stop(): the batch in hand is committed, the leases released
  */
