@@ -7,7 +7,96 @@ import { expectLeewayError, throughJson } from "../support/errors.js";
 import { expectRefusesCorruptions } from "../support/snapshot-corruption.js";
 import { expectRestoreContinues, expectScanEqualsObserve } from "./laws.js";
 
+/** D of two samples by an exact merge: the largest |i·m − j·n| over the union's values, as an integer key (ties stepped together). */
+function bruteKey(reference: number[], recent: number[]): { high: number; low: number } {
+  const a = [...reference].sort((x, y) => x - y);
+  const b = [...recent].sort((x, y) => x - y);
+  const n = a.length;
+  const m = b.length;
+  let high = 0;
+  let low = 0;
+  for (const v of [...a, ...b]) {
+    const i = a.filter((x) => x <= v).length;
+    const j = b.filter((y) => y <= v).length;
+    high = Math.max(high, i * m - j * n);
+    low = Math.max(low, j * n - i * m);
+  }
+  return { high, low };
+}
+
+/** D by the merge the test ran before its gaps were kept in trees: i/n − j/m formed in floating point. */
+function mergeD(reference: number[], recent: number[]): number {
+  const a = Float64Array.from(reference).sort();
+  const b = Float64Array.from(recent).sort();
+  const invN = 1 / a.length;
+  const invM = 1 / b.length;
+  let i = 0;
+  let j = 0;
+  let d = 0;
+  while (i < a.length && j < b.length) {
+    const v = Math.min(a[i] as number, b[j] as number);
+    while (i < a.length && a[i] === v) i++;
+    while (j < b.length && b[j] === v) j++;
+    d = Math.max(d, Math.abs(i * invN - j * invM));
+  }
+  return d;
+}
+
 describe("SlidingKsTest", () => {
+  it("D is the exact largest gap of a brute-force comparison of the two windows (bit for bit), within 1e-15 of a floating-point merge (p-value within 1e-12), at every sample, through restarts and check periods", () => {
+    const stream = fc.array(fc.oneof(fc.integer({ min: -6, max: 6 }), fc.double({ min: -3, max: 3, noNaN: true })), { minLength: 30, maxLength: 160 });
+    fc.assert(
+      fc.property(stream, fc.integer({ min: 8, max: 24 }), fc.integer({ min: 8, max: 30 }), fc.integer({ min: 1, max: 4 }), fc.integer({ min: 20, max: 200 }), (xs, w, n, period, restartAt) => {
+        const ks = new SlidingKsTest({ recentSize: w, referenceSize: n, checkPeriod: period, criticalD: 2 });
+        let windowStart = n;
+        let sinceCheck = 0;
+        let expected = 0;
+        let direction = "up";
+        let mergeP = 1;
+        const scale = Math.sqrt((n * w) / (n + w));
+        xs.forEach((x, t) => {
+          if (t === restartAt) {
+            ks.restart();
+            windowStart = Math.max(t, n); // the reference keeps filling through a restart
+            expected = 0;
+          }
+          const reading = ks.observe(x);
+          const held = t + 1 - windowStart;
+          if (held < w) return;
+          sinceCheck = held === w ? 0 : sinceCheck + 1;
+          if (sinceCheck % period === 0) {
+            const reference = xs.slice(0, n);
+            const recent = xs.slice(t - w + 1, t + 1);
+            const key = bruteKey(reference, recent);
+            expected = Math.max(key.high, key.low) / (n * w);
+            direction = key.high >= key.low ? "up" : "down";
+            const merged = mergeD(reference, recent);
+            expect(Math.abs(expected - merged)).toBeLessThanOrEqual(1e-15);
+            mergeP = merged > 0 ? kolmogorovSurvival(scale * merged) : 1;
+          }
+          expect(reading.statistic).toBe(expected);
+          expect(Math.abs(reading.pValue - mergeP)).toBeLessThanOrEqual(1e-12);
+          if (expected > 0) expect(reading.direction).toBe(direction);
+        });
+      }),
+      { numRuns: 150 },
+    );
+  });
+
+  it("threshold at α = 0.01 for n = 15 against w = 28 is the published D_α = 0.522, and a window past it alarms while one short of it does not (two-sample KS critical values table, 'Critical Values for the Two-sample Kolmogorov-Smirnov test (2-sided)', large-sample example)", () => {
+    const reference = Array.from({ length: 15 }, (_, i) => i);
+    const ks = new SlidingKsTest({ referenceSample: reference, recentSize: 28, significance: 0.01 });
+    expect(ks.threshold).toBeCloseTo(0.522, 2);
+    // 17 of 28 recent values above the whole reference: D = 17/28 = 0.607 > 0.522
+    const far = ks.scan(Float64Array.from({ length: 28 }, (_, i) => (i < 11 ? i + 0.5 : 100)));
+    expect(far).toBe(27);
+    ks.restart();
+    // the reference itself and 13 of 28 above it: D = 13/28 = 0.464 < 0.522
+    const near = Array.from({ length: 28 }, (_, i) => ks.observe(i < 15 ? i : 100)).at(-1);
+    expect(near?.statistic).toBeCloseTo(13 / 28, 15);
+    expect(near?.status).not.toBe("change");
+  });
+
   it("D and the p-value equal a two-sample KS test of the reference against the last w samples", () => {
     fc.assert(
       fc.property(fc.array(fc.integer({ min: 0, max: 12 }), { minLength: 40, maxLength: 120 }), fc.integer({ min: 8, max: 20 }), (xs, w) => {

@@ -16,6 +16,7 @@ import {
 import { acceptSample, kolmogorovSurvival } from "@leeway/stats";
 import type { ChangeDirection, ChangeReading, ChangeTest } from "./change-test.js";
 import { scanStart, warningFractionOption } from "./options.js";
+import { KsGaps } from "./ks-gaps.js";
 import { buildFromSnapshot, definedOnly } from "./restore-support.js";
 
 /** Options of {@link SlidingKsTest}. */
@@ -76,6 +77,13 @@ const KNOWN = ["recentSize", "referenceSample", "referenceSize", "significance",
  * threshold for a target run length with `calibrateThreshold` rather than from α.
  * The direction is `"up"` when the recent sample is stochastically larger. The test keeps alarming while
  * D stays above D_α; `restart()` empties the recent window and keeps the reference.
+ *
+ * Cost: O(log k) per sample (k distinct reference values) and O(1) per test: the two one-sided
+ * gaps at the reference values are kept in segment trees ({@link KsGaps}) instead of merging both
+ * sorted windows at every test. D is the exact largest gap rounded once (an integer over nm); a
+ * merge that forms i/n − j/m in floating point can differ from it in the last bits (by less than
+ * 1e-15). Memory: about 48 bytes per distinct reference value (rounded up to a power of two) beside
+ * the two windows.
  * @example
  * const ks = new SlidingKsTest({ referenceSample: [0, 1, 2, 3, 4, 5, 6, 7], recentSize: 8, significance: 0.01 });
  * ks.scan(new Float64Array([10, 11, 12, 13, 14, 15, 16, 17])); // 7 (D = 1 once the window is full)
@@ -94,9 +102,10 @@ export class SlidingKsTest implements ChangeTest {
   readonly #reference: Float64Array; // sorted once full
   #referenceCount = 0;
   readonly #ring: Float64Array; // recent samples, chronological from #ringStart
+  readonly #ringPlace: Int32Array; // where each recent sample sits among the reference levels (KsGaps.place)
   #ringStart = 0;
   #recentCount = 0;
-  readonly #sorted: Float64Array; // the recent samples, sorted
+  #gaps: KsGaps | null = null; // once the reference is complete
   #statistic = 0;
   #direction: ChangeDirection = "up";
   #sinceCheck = 0;
@@ -126,9 +135,10 @@ export class SlidingKsTest implements ChangeTest {
       this.#reference.set(reference);
       this.#reference.sort();
       this.#referenceCount = n;
+      this.#gaps = new KsGaps(this.#reference, this.#w);
     }
     this.#ring = new Float64Array(this.#w);
-    this.#sorted = new Float64Array(this.#w);
+    this.#ringPlace = new Int32Array(this.#w);
   }
 
   /** The critical value D_α. */
@@ -189,6 +199,7 @@ export class SlidingKsTest implements ChangeTest {
   }
 
   restart(): void {
+    this.#gaps?.clear();
     this.#ringStart = 0;
     this.#recentCount = 0;
     this.#statistic = 0;
@@ -248,10 +259,8 @@ export class SlidingKsTest implements ChangeTest {
     );
     test.#reference.set(reference);
     test.#referenceCount = reference.length;
-    test.#ring.set(recent);
-    test.#sorted.set(recent);
-    test.#sorted.subarray(0, recent.length).sort();
-    test.#recentCount = recent.length;
+    if (reference.length === referenceSize) test.#gaps ??= new KsGaps(test.#reference, recentSize);
+    for (let k = 0; k < recent.length; k++) test.#push(recent[k] as number);
     test.#statistic = statistic;
     test.#direction = direction;
     test.#sinceCheck = sinceCheck;
@@ -262,58 +271,53 @@ export class SlidingKsTest implements ChangeTest {
 
   #step(x: number): void {
     this.#count += 1;
-    if (this.#referenceCount < this.#referenceSize) {
+    const gaps = this.#gaps;
+    if (gaps === null) {
       this.#reference[this.#referenceCount++] = x;
-      if (this.#referenceCount === this.#referenceSize) this.#reference.sort();
-      return;
-    }
-    const w = this.#w;
-    const sorted = this.#sorted;
-    if (this.#recentCount < w) {
-      this.#ring[(this.#ringStart + this.#recentCount) % w] = x;
-      insertSorted(sorted, this.#recentCount, x);
-      this.#recentCount += 1;
-      if (this.#recentCount === w) {
-        // the first test comes as soon as the recent window is full
-        this.#sinceCheck = 0;
-        this.#test();
+      if (this.#referenceCount === this.#referenceSize) {
+        this.#reference.sort();
+        this.#gaps = new KsGaps(this.#reference, this.#w);
       }
       return;
     }
-    const old = this.#ring[this.#ringStart] as number;
-    this.#ring[this.#ringStart] = x;
-    this.#ringStart = (this.#ringStart + 1) % w;
-    removeSorted(sorted, w, old);
-    insertSorted(sorted, w - 1, x);
+    const w = this.#w;
+    if (this.#recentCount < w) {
+      this.#push(x);
+      if (this.#recentCount === w) {
+        // the first test comes as soon as the recent window is full
+        this.#sinceCheck = 0;
+        this.#test(gaps);
+      }
+      return;
+    }
+    const start = this.#ringStart;
+    const place = gaps.place(x);
+    gaps.move(this.#ringPlace[start] as number, place);
+    this.#ring[start] = x;
+    this.#ringPlace[start] = place;
+    this.#ringStart = start + 1 === w ? 0 : start + 1;
     this.#sinceCheck += 1;
     if (this.#sinceCheck < this.#checkPeriod) return;
     this.#sinceCheck = 0;
-    this.#test();
+    this.#test(gaps);
   }
 
-  /** D = sup |F_ref − F_recent| by one merge of the two sorted samples (ties stepped together). */
-  #test(): void {
-    const a = this.#reference;
-    const b = this.#sorted;
-    const n = a.length;
-    const m = this.#w;
-    const invN = 1 / n;
-    const invM = 1 / m;
-    let i = 0;
-    let j = 0;
-    let high = 0; // max (F_ref − F_recent): the recent sample sits higher
-    let low = 0; // max (F_recent − F_ref)
-    while (i < n && j < m) {
-      const x = a[i] as number;
-      const y = b[j] as number;
-      const v = x <= y ? x : y;
-      while (i < n && (a[i] as number) === v) i++;
-      while (j < m && (b[j] as number) === v) j++;
-      const gap = i * invN - j * invM;
-      if (gap > high) high = gap;
-      if (-gap > low) low = -gap;
-    }
-    this.#statistic = high >= low ? high : low;
+  /** Appends a sample to a recent window that is not full yet. */
+  #push(x: number): void {
+    const gaps = this.#gaps as KsGaps;
+    const at = (this.#ringStart + this.#recentCount) % this.#w;
+    const place = gaps.place(x);
+    gaps.add(place);
+    this.#ring[at] = x;
+    this.#ringPlace[at] = place;
+    this.#recentCount += 1;
+  }
+
+  /** D = sup |F_ref − F_recent| = max(D⁺, D⁻) from the kept gaps: the exact integer over nm, rounded once. */
+  #test(gaps: KsGaps): void {
+    const high = gaps.aboveKey; // nm·max (F_ref − F_recent): the recent sample sits higher
+    const low = gaps.belowKey; // nm·max (F_recent − F_ref)
+    this.#statistic = (high >= low ? high : low) / gaps.scale;
     this.#direction = high >= low ? "up" : "down";
   }
 }
@@ -328,27 +332,4 @@ function kolmogorovQuantile(alpha: number): number {
     else hi = mid;
   }
   return 0.5 * (lo + hi);
-}
-
-function insertSorted(a: Float64Array, length: number, x: number): void {
-  let lo = 0;
-  let hi = length;
-  while (lo < hi) {
-    const mid = (lo + hi) >> 1;
-    if ((a[mid] as number) < x) lo = mid + 1;
-    else hi = mid;
-  }
-  a.copyWithin(lo + 1, lo, length);
-  a[lo] = x;
-}
-
-function removeSorted(a: Float64Array, length: number, x: number): void {
-  let lo = 0;
-  let hi = length;
-  while (lo < hi) {
-    const mid = (lo + hi) >> 1;
-    if ((a[mid] as number) < x) lo = mid + 1;
-    else hi = mid;
-  }
-  a.copyWithin(lo, lo + 1, length);
 }
