@@ -131,13 +131,17 @@ export class FeatureModel {
 
   /**
    * Learns x by the nearest member (or, in an empty pool, adds it to the run
-   * that starts the first member). An update the autoencoder refuses as
-   * numerically unsafe leaves the model as it was and is reported.
+   * that starts the first member). The member reuses the forward pass of this
+   * sample's score when nothing has changed the pool since (no second pass).
+   * An update the autoencoder refuses as numerically unsafe leaves the model
+   * as it was and is reported.
    */
   #learn(x: Float64Array): EffectOutcome | null {
     const member = this.#nearest;
+    const pool = this.#pool;
     try {
-      this.#pool.learn(x, member >= 0 ? member : undefined);
+      if (member >= 0 && pool.scored) pool.learnScored(member);
+      else pool.learn(x, member >= 0 ? member : undefined);
     } catch (error) {
       if (!(error instanceof StateError)) throw error;
       return { kind: "learn-refused", reason: error.message };

@@ -166,6 +166,8 @@ export class AutoencoderPool {
   #calls = 0;
   #skipped = 0;
   #losses = new Float64Array(0);
+  /** True from a score() of a non-empty pool until the next call that learns or changes members. */
+  #scored = false;
 
   constructor(options: AutoencoderPoolOptions) {
     const o = optionsObject<AutoencoderPoolOptions>(COMPONENT, options, [
@@ -236,6 +238,14 @@ export class AutoencoderPool {
   get skipped(): number {
     return this.#skipped;
   }
+  /**
+   * True directly after {@link score} on a non-empty pool, while nothing has
+   * learnt or changed members since: {@link learnScored} can then learn that
+   * sample without a second forward pass.
+   */
+  get scored(): boolean {
+    return this.#scored;
+  }
   /** Facts about every member (fresh objects; changing them changes nothing). */
   get members(): readonly MemberInfo[] {
     return this.#members.map((m, index) => ({ index, label: m.label, learnt: m.model.count, nearest: m.nearest, lastUsed: m.lastUsed }));
@@ -247,10 +257,37 @@ export class AutoencoderPool {
    */
   score(x: ArrayLike<number>): PoolScore {
     this.#calls++;
+    this.#scored = false;
     this.#check(x, true);
     if (this.#members.length === 0) return { member: -1, loss: Infinity, losses: this.#losses };
     const nearest = this.#scoreAll(x);
+    this.#scored = true;
     return { member: nearest, loss: this.#losses[nearest] as number, losses: this.#losses };
+  }
+
+  /**
+   * Learns the sample just passed to {@link score} by member `member` (default:
+   * the nearest), reusing the hidden activations and residual that score
+   * computed: no second forward pass. The state and the reading are those of
+   * `learn(x, member)` with the same x, bit for bit. Valid only while
+   * {@link scored} is true (E_STATE otherwise); an update the member refuses
+   * as numerically unsafe throws E_STATE and keeps its state, as `learn` does.
+   * @example
+   * const pool = new AutoencoderPool({ inputs: 2, hidden: 3, maxMembers: 1, seed: 1 });
+   * pool.addMember([Float64Array.of(1, 0), Float64Array.of(0.9, 0.1)]);
+   * const { member, loss } = pool.score(Float64Array.of(1, 0.05));
+   * pool.learnScored(member).loss === loss; // true
+   */
+  learnScored(member?: number): PoolLearnReading {
+    if (!this.#scored) throw new StateError(COMPONENT, "learnScored needs a score(x) of a non-empty pool directly before it, with nothing learnt or changed in between");
+    const index = member ?? this.#nearestScored();
+    const m = this.#member(index);
+    this.#scored = false;
+    this.#calls++;
+    const loss = this.#losses[index] as number;
+    m.model.learnScored();
+    m.lastUsed = this.#calls;
+    return { member: index, loss, spawned: false, pending: this.#pending.length, skipped: this.#skipped };
   }
 
   /**
@@ -262,6 +299,7 @@ export class AutoencoderPool {
    */
   learn(x: ArrayLike<number>, member?: number): PoolLearnReading {
     this.#calls++;
+    this.#scored = false;
     if (!this.#check(x, this.#nonFinite === "refuse")) {
       this.#skipped++;
       return { member: -1, loss: Number.NaN, spawned: false, pending: this.#pending.length, skipped: this.#skipped };
@@ -298,6 +336,7 @@ export class AutoencoderPool {
   addMember(source: readonly ArrayLike<number>[] | FrozenModel, label: string | null = null): number {
     if (label !== null && typeof label !== "string") throw new OptionError(COMPONENT, "label", label, "a string or null");
     if (this.#members.length >= this.#maxMembers) throw new StateError(COMPONENT, `addMember: the pool is full (${this.#maxMembers} members)`);
+    this.#scored = false;
     if (!(source instanceof FrozenModel)) return this.#addFitted(source, label);
     this.#members.push({ model: this.#thawed(source), label, nearest: 0, lastUsed: this.#calls });
     this.#losses = new Float64Array(this.#members.length);
@@ -326,6 +365,7 @@ export class AutoencoderPool {
   replaceMember(member: number, source: readonly ArrayLike<number>[] | FrozenModel, label: string | null = null): number {
     this.#member(member);
     if (label !== null && typeof label !== "string") throw new OptionError(COMPONENT, "label", label, "a string or null");
+    this.#scored = false;
     let model: OselmAutoencoder;
     if (source instanceof FrozenModel) model = this.#thawed(source);
     else {
@@ -522,6 +562,14 @@ export class AutoencoderPool {
     const m = members[nearest] as Member;
     m.nearest++;
     m.lastUsed = this.#calls;
+    return nearest;
+  }
+
+  /** The nearest member of the last score: the lowest loss, the first on ties. */
+  #nearestScored(): number {
+    const losses = this.#losses;
+    let nearest = 0;
+    for (let i = 1; i < losses.length; i++) if ((losses[i] as number) < (losses[nearest] as number)) nearest = i;
     return nearest;
   }
 
