@@ -13,7 +13,7 @@ export type RetrainMode = "auto" | "confirm" | "never";
 export type PersistentAnomalyMode = "confirm" | "as-drift";
 
 /** Which change test watches the active reference's normalised score. */
-export type ChangeTestChoice = "cusum" | "page-hinkley";
+export type ChangeTestChoice = "cusum" | "page-hinkley" | "martingale";
 
 const MAX_SAMPLES = 2 ** 31 - 1;
 
@@ -34,9 +34,9 @@ export const CORE_OPTIONS = optionTable("DecisionEngine", {
   anomalyMargin: { kind: "number", default: 1, min: 0, minExclusive: true, unit: "σ", doc: "Margin added to that quantile to enter the anomaly state." },
   anomalyExitMargin: { kind: "number", default: 0, min: 0, unit: "σ", doc: "Margin below which the anomaly state is left again (hysteresis); at most anomalyMargin." },
   anomalyRun: { kind: "integer", default: 5, min: 1, max: 100_000, unit: "samples", doc: "Consecutive anomalous samples that raise an alarm with cause anomaly." },
-  changeTest: { kind: "choice", default: "cusum", choices: ["cusum", "page-hinkley"], doc: "The change test on the active reference's normalised score (two-sided, reference value 0.5 σ)." },
-  targetArl0: { kind: "number", default: 20000, min: 100, max: 1e7, unit: "samples", doc: "Target in-control average run length of the change test; its threshold is calibrated to it at the end of commissioning." },
-  calibrationReplicates: { kind: "integer", default: 100, min: 10, max: 10_000, unit: "replicates", doc: "Bootstrap replicates of that calibration (cost grows with replicates)." },
+  changeTest: { kind: "choice", default: "cusum", choices: ["cusum", "page-hinkley", "martingale"], doc: "The change test on the active reference's normalised score: cusum or page-hinkley (two-sided, reference value 0.5 σ, threshold calibrated to targetArl0), or martingale (a two-sided conformal test martingale with threshold 100: on an exchangeable in-control stream a false alarm between two restarts has probability at most 1 %, with no calibration run; slower to detect)." },
+  targetArl0: { kind: "number", default: 20000, min: 100, max: 1e7, unit: "samples", doc: "Target in-control average run length of the change test; its threshold is calibrated to it at the end of commissioning (not used by the martingale)." },
+  calibrationReplicates: { kind: "integer", default: 100, min: 10, max: 10_000, unit: "replicates", doc: "Bootstrap replicates of that calibration (cost grows with replicates; not used by the martingale)." },
   baselineHalfLife: { kind: "span", default: "30m", atLeast: 30, min: 1, max: MAX_SAMPLES, doc: "Half-life of the slowly following baseline the change test measures from." },
   scoreClip: { kind: "number", default: 6, min: 0, minExclusive: true, unit: "σ", doc: "Normalised scores are clipped to ± this before the change test, so one wild sample cannot fire it." },
   settling: { kind: "span", default: "15m", atLeast: 30, min: 20, max: 100_000, doc: "Span the post-change stream must stay stationary before the engine acts (longer than the transients that must not be learnt)." },
