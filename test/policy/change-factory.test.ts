@@ -18,6 +18,7 @@ describe("change test factory: the martingale choice", () => {
   it("makes a two-sided ConformalMartingale with threshold 100 and no calibration run, whatever the scores", () => {
     const test = makeChangeTest("martingale", MARTINGALE_THRESHOLD);
     expect(test).toBeInstanceOf(ConformalMartingale);
+    expect(test.name).toBe("ConformalMartingale"); // the @example
     expect(test.threshold).toBe(100);
     // constant scores make the bootstrap refuse to calibrate a CUSUM; the martingale needs none
     expect(calibratedThreshold("martingale", new Float64Array(300).fill(0.2), 20000, 10, "s")).toBe(MARTINGALE_THRESHOLD);

@@ -9,3 +9,5 @@ export type { FeatureModel } from "./feature-model.js";
 export { ModeRouter } from "./mode-router.js";
 export { ScriptedOperator } from "./scripted-operator.js";
 export type { OperatorAction } from "./scripted-operator.js";
+export { limitEvidence } from "./limit-evidence.js";
+export type { LimitEvidence, LimitEvidenceInput, LimitEstimate, LimitReached, LimitRefused, LimitRefusal } from "./limit-evidence.js";
