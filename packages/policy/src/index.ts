@@ -11,3 +11,5 @@ export { ScriptedOperator } from "./scripted-operator.js";
 export type { OperatorAction } from "./scripted-operator.js";
 export { limitEvidence } from "./limit-evidence.js";
 export type { LimitEvidence, LimitEvidenceInput, LimitEstimate, LimitReached, LimitRefused, LimitRefusal } from "./limit-evidence.js";
+export { changeOnset } from "./change-onset.js";
+export type { ChangeOnset, ChangeOnsetOptions } from "./change-onset.js";
