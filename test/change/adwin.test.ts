@@ -97,6 +97,18 @@ describe("Adwin", () => {
     expect(skip.observe(Number.NaN)).toMatchObject({ skipped: 1, width: 0 });
   });
 
+  it("refuses snapshots whose bucket sums, spreads or window total lie beyond what samples within ±1e100 can give (common practice, no source)", () => {
+    const adwin = new Adwin({ delta: 0.002 });
+    adwin.scan(Float64Array.from({ length: 300 }, (_, i) => Math.sin(i)));
+    const cases: [string, number | null, number][] = [["bucketTotals", 0, 1e300], ["bucketM2", 0, 1e300], ["total", null, 1e300], ["bucketTotals", 0, -1e300]];
+    for (const [field, at, value] of cases) {
+      const bad = JSON.parse(JSON.stringify(adwin.snapshot()));
+      if (at === null) bad.state[field] = value;
+      else bad.state[field][at] = value;
+      expectLeewayError(() => Adwin.restore(bad), "E_SNAPSHOT", field, "1e+100");
+    }
+  });
+
   it("refuses corrupted snapshots, cross-checking the buckets against the width", () => {
     const adwin = new Adwin({ delta: 0.01, checkPeriod: 8 });
     adwin.scan(Float64Array.from({ length: 237 }, (_, i) => Math.sin(i)));

@@ -167,6 +167,63 @@ describe("ChangePointPosterior", () => {
     expectRefusesCorruptions(ChangePointPosterior.restore, running.snapshot(), { sizePaths: [["maxHypotheses"], ["burnInLength"]], variableLengthPaths: [["lengths"], ["means"], ["rates"], ["weights"], ["gammaRatios"]] });
   });
 
+  it("refuses priors that would turn a reading into NaN or ±Infinity, naming the option, the value and the allowed range; extreme priors inside the ranges keep readings finite and snapshots restorable (common practice, no source)", () => {
+    expectLeewayError(() => new ChangePointPosterior({ mean: 0, sigma: 1e300 }), "E_OPTION", "sigma", "1e+300", "[1e-50, 2e+100]");
+    expectLeewayError(() => new ChangePointPosterior({ mean: 0, sigma: 1e-300 }), "E_OPTION", "sigma", "1e-300");
+    expectLeewayError(() => new ChangePointPosterior({ mean: 1e200, sigma: 1 }), "E_OPTION", "mean", "1e+200", "1e+100");
+    expectLeewayError(() => new ChangePointPosterior({ mean: 0, sigma: 1, meanWeight: 1e308 }), "E_OPTION", "meanWeight", "1e+308", "[0.000001, 1000000]");
+    expectLeewayError(() => new ChangePointPosterior({ mean: 0, sigma: 1, meanWeight: 1e-308 }), "E_OPTION", "meanWeight");
+    expectLeewayError(() => new ChangePointPosterior({ mean: 0, sigma: 1, shape: 1e308 }), "E_OPTION", "shape", "1e+308");
+    expectLeewayError(() => new ChangePointPosterior({ mean: 0, sigma: 1, shape: Number.MIN_VALUE }), "E_OPTION", "shape", "5e-324");
+    const corners = [
+      { mean: 1e100, sigma: 1e-50, meanWeight: 1e-6, shape: 1e-3 },
+      { mean: -1e100, sigma: 2e100, meanWeight: 1e6, shape: 1e6 },
+      { mean: 0, sigma: 1e-50, meanWeight: 1e6, shape: 1e-3 },
+    ];
+    const samples = [-1e100, 1e100, 0, 1e-300, 3, -1e100, 1e100, 5e99, 1e100];
+    for (const corner of corners) {
+      const post = new ChangePointPosterior({ scale: "linear", ...corner, pruneBelow: 0 });
+      for (const x of samples) {
+        const reading = post.observe(x);
+        expect([reading.changeProbability, reading.level], JSON.stringify(corner)).toSatisfy((v: number[]) => v.every(Number.isFinite));
+      }
+      expect(ChangePointPosterior.restore(throughJson(post.snapshot())).snapshot()).toEqual(post.snapshot());
+    }
+  });
+
+  it("a burn-in of nearly equal values or of values a whole range apart gives a prior inside the allowed ranges: finite readings, restorable (common practice, no source)", () => {
+    for (const values of [[1e-200, 2e-200, 1.5e-200], [-1e100, 1e100, -1e100]]) {
+      const post = new ChangePointPosterior({ scale: "linear", burnIn: 3 });
+      for (const x of [...values, ...values]) expect(Number.isFinite(post.observe(x).changeProbability)).toBe(true);
+      const copy = ChangePointPosterior.restore(throughJson(post.snapshot()));
+      expect(copy.observe(0)).toEqual(post.observe(0));
+    }
+  });
+
+  it("refuses snapshots whose prior, burn-in values, means, rates or gamma ratios lie beyond what the model can reach (common practice, no source)", () => {
+    const running = new ChangePointPosterior({ burnIn: 5, scale: "linear", maxHypotheses: 16 });
+    running.observeMany(Float64Array.from({ length: 30 }, (_, i) => Math.sin(i)));
+    const burning = new ChangePointPosterior({ burnIn: 50, scale: "linear" });
+    burning.observeMany(Float64Array.from({ length: 10 }, (_, i) => Math.sin(i)));
+    const cases: [ChangePointPosterior, string, number | null, number][] = [
+      [running, "priorSigma", null, 1e300],
+      [running, "priorMean", null, 1e200],
+      [running, "means", 0, 1e200],
+      [running, "rates", 0, 1e300],
+      [running, "gammaRatios", 0, 1e300],
+      [burning, "burnIn", 3, 1e308],
+      [running, "meanWeight", null, 1e308],
+      [running, "shape", null, 1e-300],
+    ];
+    for (const [post, field, at, value] of cases) {
+      const bad = throughJson(post.snapshot());
+      const state = bad.state as unknown as Record<string, number | number[]>;
+      if (at === null) state[field] = value;
+      else (state[field] as number[])[at] = value;
+      expectLeewayError(() => ChangePointPosterior.restore(bad), "E_SNAPSHOT", field);
+    }
+  });
+
   it("refuses bad options naming them", () => {
     expectLeewayError(() => new ChangePointPosterior({ expectedRunLength: 1 }), "E_OPTION", "expectedRunLength", "1");
     expectLeewayError(() => new ChangePointPosterior({ mean: 0 }), "E_OPTION", "sigma");

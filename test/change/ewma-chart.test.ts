@@ -64,6 +64,15 @@ describe("EwmaChart", () => {
     expect(skip.observe(Infinity)).toMatchObject({ index: 0, status: "stable", skipped: 1 });
   });
 
+  it("refuses a λ so small that λ/(2 − λ) underflows (the statistic would be infinite), naming the allowed range; λ = 1e-9 keeps readings finite (common practice, no source)", () => {
+    expectLeewayError(() => new EwmaChart({ mean: 0, sigma: 1, lambda: Number.MIN_VALUE }), "E_OPTION", "lambda", "5e-324", "[1e-9, 1]");
+    for (const limits of ["asymptotic", "exact"] as const) {
+      const chart = new EwmaChart({ mean: 0, sigma: 1, lambda: 1e-9, limits });
+      for (const x of [1e100, -1e100, 0, 3]) expect(Number.isFinite(chart.observe(x).statistic)).toBe(true);
+      expect(EwmaChart.restore(JSON.parse(JSON.stringify(chart.snapshot()))).snapshot()).toEqual(chart.snapshot());
+    }
+  });
+
   it("refuses corrupted snapshots", () => {
     const during = new EwmaChart({ burnIn: 30 });
     during.scan(Float64Array.from({ length: 10 }, (_, i) => Math.sin(i)));

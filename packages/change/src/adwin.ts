@@ -283,7 +283,16 @@ export class Adwin implements ChangeTest {
     levelCounts.forEach((c, l) => (implied += c * 2 ** l));
     if (implied !== width) r.fail("width", `must equal the samples held in the buckets (${implied}), got ${width}`);
     if (levelCounts.length > 0 && levelCounts[levelCounts.length - 1] === 0) r.fail("levelCounts", "must not end with an empty level");
-    for (let b = 0; b < held; b++) if ((bucketM2[b] as number) < 0) r.fail(`bucketM2[${b}]`, "must be >= 0");
+    if (!(Math.abs(total) <= width * ADWIN_LIMIT)) r.fail("total", `must be within ±${width} × ${ADWIN_LIMIT} (the samples held, each within ±${ADWIN_LIMIT}), got ${total}`);
+    // a bucket of level l sums 2^l samples within ±ADWIN_LIMIT: |total| ≤ 2^l·LIMIT, 0 ≤ M2 ≤ 2^l·LIMIT²
+    let b = 0;
+    levelCounts.forEach((c, l) => {
+      const size = 2 ** l;
+      for (let j = 0; j < c; j++, b++) {
+        if (!(Math.abs(bucketTotals[b] as number) <= size * ADWIN_LIMIT)) r.fail(`bucketTotals[${b}]`, `must be within ±${size} × ${ADWIN_LIMIT} for a bucket of ${size} samples, got ${bucketTotals[b]}`);
+        if (!((bucketM2[b] as number) >= 0 && (bucketM2[b] as number) <= size * ADWIN_LIMIT * ADWIN_LIMIT)) r.fail(`bucketM2[${b}]`, `must be in [0, ${size} × ${ADWIN_LIMIT}²] for a bucket of ${size} samples, got ${bucketM2[b]}`);
+      }
+    });
     const test = buildFromSnapshot(Adwin.kind, () => new Adwin({ delta, buckets, checkPeriod, minSubWindow, bound, threshold, warningFraction, nonFinite }));
     let k = 0;
     levelCounts.forEach((c, l) => {

@@ -29,15 +29,15 @@ export interface ChangePointPosteriorOptions {
   scale?: "log" | "linear";
   /** Added to each sample before the log (≥ 0, default 0); a sample with x + offset ≤ 0 is non-finite on the log scale. */
   offset?: number;
-  /** μ₀: prior mean of a segment's level, on the modelled scale. */
+  /** μ₀: prior mean of a segment's level, on the modelled scale (|μ₀| ≤ 1e100, the range of modelled values). */
   mean?: number;
-  /** σ₀: prior guess of the noise's standard deviation within a segment, on the modelled scale (> 0); β₀ = α₀σ₀². */
+  /** σ₀: prior guess of the noise's standard deviation within a segment, on the modelled scale (in [1e-50, 2e100]); β₀ = α₀σ₀². */
   sigma?: number;
   /** Estimate μ₀ and σ₀ from the first `burnIn` samples (an integer in [2, 4096], default 50 when mean and sigma are not given). */
   burnIn?: number;
-  /** κ₀: the prior mean is worth this many samples (> 0, default 1). */
+  /** κ₀: the prior mean is worth this many samples (in [1e-6, 1e6], default 1). */
   meanWeight?: number;
-  /** α₀: shape of the prior on the noise precision (> 0, default 1). */
+  /** α₀: shape of the prior on the noise precision (in [1e-3, 1e6], default 1). */
   shape?: number;
   /** k: `changeProbability` is the posterior probability that the current segment began within the last k samples (default 10). */
   recent?: number;
@@ -96,6 +96,14 @@ const NAME = "ChangePointPosterior";
 const KNOWN = ["expectedRunLength", "scale", "offset", "mean", "sigma", "burnIn", "meanWeight", "shape", "recent", "maxHypotheses", "pruneBelow", "nonFinite"] as const;
 const HALF_LOG_PI = 0.5 * Math.log(Math.PI);
 const LINEAR_LIMIT = 1e100; // the largest |modelled value| taken: its square stays far from overflow
+// Prior ranges that keep every step finite for modelled values within ±LINEAR_LIMIT: β₀ = α₀σ₀² stays
+// in [1e-103, 4e206], so (y − μ)²/(νs²) ≤ 4e200/2e-103 and the rates, after any number of samples,
+// stay below 1e220; a burn-in's spread is clamped into the same σ₀ range.
+const SIGMA_RANGE = { min: 1e-50, max: 2e100 };
+const MEAN_WEIGHT_RANGE = { min: 1e-6, max: 1e6 };
+const SHAPE_RANGE = { min: 1e-3, max: 1e6 };
+const RATE_LIMIT = 1e250; // above what the rates can reach (restore refuses more)
+const GAMMA_RATIO_LIMIT = 100; // |ln Γ(α + ½) − ln Γ(α)| for α in [1e-3, 1e16] is below 20
 
 /**
  * Bayesian online change-point detection (Adams & MacKay, 2007): the posterior distribution of the
@@ -158,8 +166,8 @@ export class ChangePointPosterior {
     this.#hazard = 1 / this.#expectedRunLength;
     this.#logScale = (o.scale === undefined ? "log" : oneOf(NAME, "scale", o.scale, ["log", "linear"] as const)) === "log";
     this.#offset = o.offset === undefined ? 0 : numberInRange(NAME, "offset", o.offset, { min: 0, max: Number.MAX_VALUE });
-    this.#meanWeight = o.meanWeight === undefined ? 1 : positiveNumber(NAME, "meanWeight", o.meanWeight);
-    this.#shape = o.shape === undefined ? 1 : positiveNumber(NAME, "shape", o.shape);
+    this.#meanWeight = o.meanWeight === undefined ? 1 : numberInRange(NAME, "meanWeight", o.meanWeight, MEAN_WEIGHT_RANGE);
+    this.#shape = o.shape === undefined ? 1 : numberInRange(NAME, "shape", o.shape, SHAPE_RANGE);
     this.#recent = o.recent === undefined ? 10 : integerInRange(NAME, "recent", o.recent, 1, 2 ** 31 - 1);
     this.#max = o.maxHypotheses === undefined ? 256 : integerInRange(NAME, "maxHypotheses", o.maxHypotheses, 2, POSTERIOR_MAX_HYPOTHESES);
     this.#pruneBelow = o.pruneBelow === undefined ? 1e-12 : numberInRange(NAME, "pruneBelow", o.pruneBelow, { min: 0, max: 1e-3 });
@@ -167,8 +175,8 @@ export class ChangePointPosterior {
     const given = o.mean !== undefined || o.sigma !== undefined;
     if (given) {
       if (o.burnIn !== undefined) throw new OptionError(NAME, "burnIn", o.burnIn, "left out when mean and sigma are given");
-      const mean = finiteNumber(NAME, "mean", o.mean);
-      const sigma = positiveNumber(NAME, "sigma", o.sigma);
+      const mean = numberInRange(NAME, "mean", o.mean, { min: -LINEAR_LIMIT, max: LINEAR_LIMIT });
+      const sigma = numberInRange(NAME, "sigma", o.sigma, SIGMA_RANGE);
       this.#burnInLength = 0;
       this.#burnIn = null;
       this.#setPrior(mean, sigma);
@@ -284,7 +292,11 @@ export class ChangePointPosterior {
     const priorMean = r.numberOrNull("priorMean");
     const priorSigma = r.numberOrNull("priorSigma");
     if ((burnIn === null) !== (priorMean !== null && priorSigma !== null)) r.fail("priorMean", "must be set exactly when no burn-in is running");
-    if (priorSigma !== null && !(priorSigma > 0)) r.fail("priorSigma", `must be > 0, got ${priorSigma}`);
+    if (priorSigma !== null && !(priorSigma >= SIGMA_RANGE.min && priorSigma <= SIGMA_RANGE.max)) r.fail("priorSigma", `must be in [${SIGMA_RANGE.min}, ${SIGMA_RANGE.max}], got ${priorSigma}`);
+    if (priorMean !== null && !(Math.abs(priorMean) <= LINEAR_LIMIT)) r.fail("priorMean", `must be in [${-LINEAR_LIMIT}, ${LINEAR_LIMIT}], got ${priorMean}`);
+    burnIn?.forEach((y, i) => {
+      if (!(Math.abs(y) <= LINEAR_LIMIT)) r.fail(`burnIn[${i}]`, `must be a modelled value in [${-LINEAR_LIMIT}, ${LINEAR_LIMIT}], got ${y}`);
+    });
     const lengths = r.numbers("lengths", { max: maxHypotheses });
     const n = lengths.length;
     const means = r.numbers("means", n);
@@ -297,7 +309,9 @@ export class ChangePointPosterior {
     for (let i = 0; i < n; i++) {
       const len = lengths[i] as number;
       if (!Number.isInteger(len) || len < 1 || len > count || (i > 0 && len <= (lengths[i - 1] as number))) r.fail(`lengths[${i}]`, "must be increasing integers in [1, count]");
-      if (!((rates[i] as number) > 0)) r.fail(`rates[${i}]`, "must be > 0");
+      if (!((rates[i] as number) > 0 && (rates[i] as number) <= RATE_LIMIT)) r.fail(`rates[${i}]`, `must be in (0, ${RATE_LIMIT}]`);
+      if (!(Math.abs(means[i] as number) <= LINEAR_LIMIT)) r.fail(`means[${i}]`, `must be in [${-LINEAR_LIMIT}, ${LINEAR_LIMIT}]`);
+      if (!(Math.abs(gammaRatios[i] as number) <= GAMMA_RATIO_LIMIT)) r.fail(`gammaRatios[${i}]`, `must be in [${-GAMMA_RATIO_LIMIT}, ${GAMMA_RATIO_LIMIT}]`);
       if (!((weights[i] as number) >= 0)) r.fail(`weights[${i}]`, "must be ≥ 0");
       sum += weights[i] as number;
     }
@@ -338,7 +352,8 @@ export class ChangePointPosterior {
     let ss = 0;
     for (const v of values) ss += (v - mean) * (v - mean);
     const sd = Math.sqrt(ss / (values.length - 1));
-    this.#setPrior(mean, sd > 0 ? sd : Math.max(Math.abs(mean) * 1e-6, 1e-12));
+    const spread = sd > 0 ? sd : Math.max(Math.abs(mean) * 1e-6, 1e-12);
+    this.#setPrior(mean, Math.min(Math.max(spread, SIGMA_RANGE.min), SIGMA_RANGE.max));
     this.#burnIn = null;
     for (const v of values) this.#update(v);
   }

@@ -21,7 +21,7 @@ export type EwmaLimits = "asymptotic" | "exact";
 
 /** Options of {@link EwmaChart}. Give `mean` and `sigma`, or `burnIn` to estimate them. */
 export interface EwmaChartOptions {
-  /** Smoothing constant λ in (0, 1] (default 0.2). */
+  /** Smoothing constant λ in [1e-9, 1] (default 0.2). */
   lambda?: number;
   /** Limit width L, in standard deviations of the EWMA statistic (default 3). */
   L?: number;
@@ -62,6 +62,9 @@ export interface EwmaChartState {
 }
 
 const NAME = "EwmaChart";
+// λ below this would let λ/(2 − λ) underflow toward 0 and the statistic divide by it (an EWMA that
+// remembers more than 10^9 samples is not a use case)
+const MIN_LAMBDA = 1e-9;
 const KNOWN = ["lambda", "L", "limits", "mean", "sigma", "burnIn", "direction", "warningFraction", "nonFinite"] as const;
 
 /**
@@ -109,7 +112,7 @@ export class EwmaChart implements ChangeTest {
 
   constructor(options: EwmaChartOptions = {}) {
     const o = optionsObject<EwmaChartOptions>(NAME, options, KNOWN);
-    this.#lambda = o.lambda === undefined ? 0.2 : numberInRange(NAME, "lambda", o.lambda, { min: 0, max: 1, minExclusive: true });
+    this.#lambda = o.lambda === undefined ? 0.2 : numberInRange(NAME, "lambda", o.lambda, { min: MIN_LAMBDA, max: 1 });
     this.#L = o.L === undefined ? 3 : positiveNumber(NAME, "L", o.L);
     this.#limits = o.limits === undefined ? "asymptotic" : oneOf(NAME, "limits", o.limits, ["asymptotic", "exact"] as const);
     this.#direction = sidesOption(NAME, o.direction, "both");

@@ -24,7 +24,7 @@ export const calibrateSpec: CommandSpec = {
     { name: "block-length", kind: "number", value: "N", description: "moving-block bootstrap block length, in samples", defaultText: "round(n^(1/3))" },
     { name: "direction", kind: "string", value: "SIDE", description: "which shifts the test looks for: up, down or both (ignored by adwin and ks)", defaultText: "both", choices: ["up", "down", "both"] },
     { name: "k", kind: "number", value: "SIGMA", description: "cusum reference value k and page-hinkley tolerance δ, in σ of the scores", defaultText: "0.5" },
-    { name: "lambda", kind: "number", value: "L", description: "ewma smoothing constant λ in (0, 1]", defaultText: "0.2" },
+    { name: "lambda", kind: "number", value: "L", description: "ewma smoothing constant λ in [1e-9, 1]", defaultText: "0.2" },
     { name: "window", kind: "number", value: "N", description: "ks recent-window length, in samples (the reference is the first N samples of the stream)", defaultText: "100" },
     { name: "json", kind: "boolean", description: "print the result as one JSON object" },
   ],
