@@ -3,6 +3,6 @@ import { autoencoderSubject, frozenSubject, poolSubject } from "./subjects/pool.
 
 const runs: FuzzRuns = { cut: 40, mutation: 60, "bad-sample": 60, extreme: 60 };
 
-fuzzLaws(autoencoderSubject, runs, ["cut", "bad-sample"]);
-fuzzLaws(frozenSubject, runs, ["cut", "bad-sample"]);
-fuzzLaws(poolSubject, runs, ["cut", "mutation"]);
+fuzzLaws(autoencoderSubject, runs);
+fuzzLaws(frozenSubject, runs);
+fuzzLaws(poolSubject, runs);

@@ -256,12 +256,12 @@ describe("DecisionEngine never throws from observe for its own state", () => {
     const engine = new DecisionEngine({ ...SMALL, members: 1 });
     const xs = spectra(20, 7, () => ({ shift: 0, bump: 0 }));
     for (const x of xs) expect(engine.observe(x).action).toBe("learn"); // commissioning: every sample is learnt
-    // A finite sample of absurd magnitude (1e200 per bin) makes the Sherman–Morrison gain overflow: the autoencoder refuses the update.
+    // A finite sample of absurd magnitude (1e200 per bin) makes the squared reconstruction error overflow: the autoencoder refuses it.
     const absurd = new Float64Array(8).fill(1e200);
-    expectLeewayError(() => engine.model?.pool.memberModel(0).learn(absurd), "E_STATE", "refused");
+    expectLeewayError(() => engine.model?.pool.memberModel(0).learn(absurd), "E_SAMPLE", "overflows");
     const d = engine.observe(absurd);
     expect([d.action, d.phase]).toEqual(["hold", "commissioning"]);
-    expect(d.evidence.learning).toEqual({ refused: true, reason: expect.stringContaining("update refused") });
+    expect(d.evidence.learning).toEqual({ refused: true, reason: expect.stringContaining("overflows") });
     expect(d.evidence.liveScore).toBe(Number.MAX_VALUE); // an overflowing loss is reported as the largest finite score
     // the engine goes on: the rest of commissioning and the calibration run, and the snapshot stays restorable
     for (const x of spectra(200, 8, () => ({ shift: 0, bump: 0 }))) engine.observe(x);

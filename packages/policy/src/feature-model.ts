@@ -5,6 +5,7 @@ import {
   toPlainArray,
   checkedSize,
   StateError,
+  SampleError,
   type Snapshot,
   type SnapshotReader,
 } from "@leeway/core";
@@ -97,14 +98,23 @@ export class FeatureModel {
    */
   score(x: Float64Array, activeId: number, newestId: number): SampleScores {
     this.#syncServed();
-    const scored = this.#pool.size > 0 ? this.#pool.score(x) : null;
-    const live = scored === null ? 0 : finiteLoss(scored.loss);
-    this.#nearest = scored === null ? -1 : scored.member;
+    let live = 0;
+    this.#nearest = -1;
+    if (this.#pool.size > 0) {
+      try {
+        const scored = this.#pool.score(x);
+        live = scored.loss;
+        this.#nearest = scored.member;
+      } catch (error) {
+        if (!(error instanceof SampleError)) throw error;
+        live = Number.MAX_VALUE; // the pool refuses an input whose loss overflows
+      }
+    }
     const lineage = this.#lineage;
     if (lineage.length === 0) return { live, commissioning: live, newest: live, active: live };
-    const commissioning = finiteLoss((lineage[0] as FrozenModel).score(x));
-    const newest = newestId === 0 ? commissioning : finiteLoss((lineage[newestId] as FrozenModel).score(x));
-    const active = activeId === 0 ? commissioning : activeId === newestId ? newest : finiteLoss((lineage[activeId] as FrozenModel).score(x));
+    const commissioning = scoreOrLargest(lineage[0] as FrozenModel, x);
+    const newest = newestId === 0 ? commissioning : scoreOrLargest(lineage[newestId] as FrozenModel, x);
+    const active = activeId === 0 ? commissioning : activeId === newestId ? newest : scoreOrLargest(lineage[activeId] as FrozenModel, x);
     return { live, commissioning, newest, active };
   }
 
@@ -114,6 +124,7 @@ export class FeatureModel {
       case "learn":
         return this.#learn(x);
       case "freeze-commissioning": {
+        if (this.#pool.size === 0) this.#addPriorMember();
         const frozen = this.#nearest >= 0 ? this.#nearest : 0;
         this.#lineage = [this.#pool.freeze(frozen)];
         this.#served = this.#served.map((_, i) => (i === frozen ? 0 : -1));
@@ -143,12 +154,26 @@ export class FeatureModel {
       if (member >= 0 && pool.scored) pool.learnScored(member);
       else pool.learn(x, member >= 0 ? member : undefined);
     } catch (error) {
-      if (!(error instanceof StateError)) throw error;
+      // refused as numerically unsafe (E_STATE), or an input whose loss overflows (E_SAMPLE)
+      if (!(error instanceof StateError) && !(error instanceof SampleError)) throw error;
       return { kind: "learn-refused", reason: error.message };
     } finally {
       this.#syncServed();
     }
     return null;
+  }
+
+  /**
+   * When every fit of the commissioning run was refused (samples too large
+   * for the model's state range), the pool's first member is the untrained
+   * model (β = 0, P = I/ridge) from the member seed the pool would have used,
+   * so that commissioning still ends with a reference to freeze.
+   */
+  #addPriorMember(): void {
+    const s = this.settings;
+    const prior = new OselmAutoencoder({ inputs: s.inputs, hidden: s.hidden, ridge: s.ridge, forgetting: s.forgetting, seed: `${s.seed}/pool/member/0` });
+    this.#pool.addMember(FrozenModel.from(prior));
+    this.#syncServed();
   }
 
   /** Members added to the pool from outside (through {@link FeatureModel.pool}) serve no reference. */
@@ -216,9 +241,9 @@ export class FeatureModel {
     this.#candidates += 1;
     candidate.fit(training);
     const reference = this.#lineage[activeId] as FrozenModel;
-    const trainingLoss = meanScore(training, (x) => candidate.score(x));
-    const heldOutLoss = meanScore(heldOut, (x) => candidate.score(x));
-    const referenceLoss = meanScore(heldOut, (x) => reference.score(x));
+    const trainingLoss = meanScore(training, candidate);
+    const heldOutLoss = meanScore(heldOut, candidate);
+    const referenceLoss = meanScore(heldOut, reference);
     const passed = training.length > s.hidden && heldOut.length > 0 && heldOutLoss <= s.validationTolerance * trainingLoss && heldOutLoss < referenceLoss;
     return { trainingSamples: training.length, heldOutSamples: heldOut.length, trainingLoss, heldOutLoss, referenceLoss, passed };
   }
@@ -233,7 +258,7 @@ export class FeatureModel {
       const model = this.#lineage[id];
       if (level === null || model === undefined || rows.length === 0) continue;
       let sum = 0;
-      for (const row of rows) sum += normalised(Math.log(model.score(row) + effect.scoreFloor), level, effect.scoreClip);
+      for (const row of rows) sum += normalised(Math.log(scoreOrLargest(model, row) + effect.scoreFloor), level, effect.scoreClip);
       const mean = Math.abs(sum / rows.length);
       if (mean < bestLevel) {
         best = id;
@@ -298,14 +323,23 @@ export class FeatureModel {
   }
 }
 
-/** A loss that overflowed (a finite input of absurd magnitude) counts as the largest finite score. */
-function finiteLoss(loss: number): number {
-  return loss < Number.MAX_VALUE ? loss : Number.MAX_VALUE;
+/**
+ * The model's score of x; an input whose loss overflows (a finite input of
+ * absurd magnitude, which the model refuses with E_SAMPLE) counts as the
+ * largest finite score.
+ */
+function scoreOrLargest(model: { score(x: Float64Array): number }, x: Float64Array): number {
+  try {
+    return model.score(x);
+  } catch (error) {
+    if (!(error instanceof SampleError)) throw error;
+    return Number.MAX_VALUE;
+  }
 }
 
-function meanScore(rows: readonly Float64Array[], score: (x: Float64Array) => number): number {
+function meanScore(rows: readonly Float64Array[], model: { score(x: Float64Array): number }): number {
   if (rows.length === 0) return Number.NaN;
   let sum = 0;
-  for (const row of rows) sum += score(row);
+  for (const row of rows) sum += scoreOrLargest(model, row);
   return sum / rows.length;
 }

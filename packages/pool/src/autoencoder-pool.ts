@@ -256,11 +256,16 @@ export class AutoencoderPool {
    * (lowest loss; the first on ties). Refuses a wrong length and non-finite values.
    */
   score(x: ArrayLike<number>): PoolScore {
-    this.#calls++;
     this.#scored = false;
     this.#check(x, true);
+    this.#calls++;
     if (this.#members.length === 0) return { member: -1, loss: Infinity, losses: this.#losses };
-    const nearest = this.#scoreAll(x);
+    let nearest: number;
+    try {
+      nearest = this.#scoreAll(x);
+    } catch (error) {
+      this.#uncount(error);
+    }
     this.#scored = true;
     return { member: nearest, loss: this.#losses[nearest] as number, losses: this.#losses };
   }
@@ -298,27 +303,38 @@ export class AutoencoderPool {
    * samples are dropped.
    */
   learn(x: ArrayLike<number>, member?: number): PoolLearnReading {
-    this.#calls++;
     this.#scored = false;
-    if (!this.#check(x, this.#nonFinite === "refuse")) {
+    const finite = this.#check(x, this.#nonFinite === "refuse");
+    const m = member === undefined ? null : this.#member(member);
+    this.#calls++;
+    if (!finite) {
       this.#skipped++;
       return { member: -1, loss: Number.NaN, spawned: false, pending: this.#pending.length, skipped: this.#skipped };
     }
-    if (member !== undefined) {
-      const m = this.#member(member);
-      const loss = m.model.learn(x);
+    if (m !== null) {
+      let loss: number;
+      try {
+        loss = m.model.learn(x);
+      } catch (error) {
+        this.#uncount(error);
+      }
       m.lastUsed = this.#calls;
-      return { member, loss, spawned: false, pending: this.#pending.length, skipped: this.#skipped };
+      return { member: member as number, loss, spawned: false, pending: this.#pending.length, skipped: this.#skipped };
     }
     const size = this.#members.length;
-    const nearest = size === 0 ? -1 : this.#scoreAll(x);
+    let nearest = -1;
+    try {
+      if (size > 0) nearest = this.#scoreAll(x);
+    } catch (error) {
+      this.#uncount(error);
+    }
     const loss = nearest < 0 ? Infinity : (this.#losses[nearest] as number);
     const above = size === 0 || loss > this.#spawnLoss;
     if (above && size < this.#maxMembers) {
       this.#pending.push(Float64Array.from(x));
       if (this.#pending.length < this.#spawnPatience) return { member: -1, loss, spawned: false, pending: this.#pending.length, skipped: this.#skipped };
       const rows = this.#pending;
-      this.#pending = [];
+      this.#pending = []; // a run whose fit is refused is dropped, so that later samples start a fresh one
       const index = this.#addFitted(rows, null);
       return { member: index, loss, spawned: true, pending: 0, skipped: this.#skipped };
     }
@@ -478,7 +494,7 @@ export class AutoencoderPool {
     const calls = s.integer("calls", 0, Number.MAX_SAFE_INTEGER);
     const skipped = s.integer("skipped", 0, Number.MAX_SAFE_INTEGER);
     const memberReaders = s.objects("members", { max: maxMembers });
-    if (memberReaders.length > spawned) s.fail("members", `holds ${memberReaders.length} members but only ${spawned} were ever started`);
+    // (members thawed from frozen models are not counted in spawned, so the list may be longer than spawned)
     // members are replaced but never removed: once one was started the list cannot be empty
     if (spawned > 0 && memberReaders.length === 0) s.fail("members", `is empty although spawned says ${spawned} member(s) were started`);
     const pendingRows = s.rawArray("pending", { max: spawnPatience - 1 });
@@ -563,6 +579,18 @@ export class AutoencoderPool {
     m.nearest++;
     m.lastUsed = this.#calls;
     return nearest;
+  }
+
+  /**
+   * Rethrows an error of a call already counted in #calls. A sample the call
+   * refuses (any error but E_STATE, for example an input whose loss
+   * overflows) un-counts it, so that a refused sample leaves the whole state
+   * as it was; an update a member refuses as numerically unsafe (E_STATE)
+   * stays counted, as the member counts it.
+   */
+  #uncount(error: unknown): never {
+    if (!(error instanceof StateError)) this.#calls--;
+    throw error;
   }
 
   /** The nearest member of the last score: the lowest loss, the first on ties. */

@@ -1,6 +1,7 @@
 import {
   DimensionError,
   OptionError,
+  SampleError,
   StateError,
   SnapshotError,
   checkedSize,
@@ -357,6 +358,9 @@ export class OselmAutoencoder {
       for (let j = 0; j < n; j++) newBeta[i * n + j] = beta.get(i, j);
     }
     if (!allFinite(newP) || !allFinite(newBeta)) throw new StateError(COMPONENT, "fit produced non-finite output weights; the state was left unchanged");
+    const range = stateRangeProblem(newBeta, newP, L, this.#limits);
+    if (range !== null) throw new StateError(COMPONENT, `fit: ${range} (the rows are too large for the ${this.#dtype} state: scale the inputs or raise ridge); the state was left unchanged`);
+    if (scaling.scale !== null && !allFinite(scaling.scale)) throw new StateError(COMPONENT, "fit: a standard deviation of the rows overflows; the state was left unchanged");
     this.#p = newP;
     this.#beta.set(newBeta);
     this.#scaling = scaling;
@@ -382,8 +386,10 @@ export class OselmAutoencoder {
    */
   score(x: ArrayLike<number>): number {
     this.#requireReady("score");
+    this.#scored = false;
     scaleInto(COMPONENT, "x", x, this.#z, this.#scaling, true);
     const loss = this.#forwardResidual();
+    if (!(loss < Infinity)) throw overflowError(x);
     this.#scored = true;
     return loss;
   }
@@ -396,7 +402,9 @@ export class OselmAutoencoder {
   [SCORE_SHARED](source: OselmAutoencoder): number {
     this.#z.set(source.#z);
     this.#h.set(source.#h);
+    this.#scored = false;
     const loss = this.#wasm === null ? outputResidual(this.#beta, this.#h, this.#z, this.#L, this.#n, this.#e) : this.#wasm.residual();
+    if (!(loss < Infinity)) throw overflowError(this.#z);
     this.#scored = true;
     return loss;
   }
@@ -415,6 +423,8 @@ export class OselmAutoencoder {
       return Number.NaN;
     }
     const loss = this.#forwardResidual();
+    // an input whose squared error overflows is refused before anything changes
+    if (!(loss < Infinity)) throw overflowError(x);
     this.#update();
     return loss;
   }
@@ -465,7 +475,7 @@ export class OselmAutoencoder {
     if (k === 1 || (this.#forgetting < 1 && this.#trace() * Math.pow(this.#forgetting, -k) > this.#traceBound)) {
       for (let r = 0; r < k; r++) {
         this.#z.set(zRows.subarray(r * n, (r + 1) * n));
-        this.#forwardResidual();
+        if (!(this.#forwardResidual() < Infinity)) throw overflowError(this.#z, `rows (the ${r + 1}th finite row; the rows before it are learnt)`);
         this.#update();
       }
       return k;
@@ -476,7 +486,7 @@ export class OselmAutoencoder {
     // arrays made the loops markedly slower), then the rows are copied out
     for (let r = 0; r < k; r++) {
       this.#z.set(zRows.subarray(r * n, (r + 1) * n));
-      this.#forwardResidual();
+      if (!(this.#forwardResidual() < Infinity)) throw overflowError(this.#z, `rows (the ${r + 1}th finite row; nothing was learnt)`);
       hRows.set(this.#h, r * L);
       eRows.set(this.#e, r * n);
     }
@@ -698,6 +708,8 @@ export class OselmAutoencoder {
         t++;
       }
     }
+    const range = stateRangeProblem(beta, p, L, LIMITS[dtype]);
+    if (range !== null) s.fail(range.startsWith("β") ? "beta" : "p", `is out of the range the model keeps: ${range}`);
     if (!isPositiveDefinite(p, L)) s.fail("p", "is not positive definite (its Cholesky factorisation meets a pivot ≤ 0)");
     const layer = drawHiddenLayer(seed, n, L, dtype, activation !== "identity");
     if (layer.checksum !== checksum) {
@@ -902,6 +914,28 @@ export class OselmAutoencoder {
 }
 
 const NO_SCALING: Scaling = { mode: "none", offset: null, scale: null };
+
+/** The refusal of an input whose reconstruction error (or its square) leaves the float64 range. */
+function overflowError(x: ArrayLike<number>, parameter = "x"): SampleError {
+  let largest = 0;
+  for (let j = 0; j < x.length; j++) if (Math.abs(x[j] as number) > Math.abs(largest)) largest = x[j] as number;
+  return new SampleError(COMPONENT, parameter, largest, "an input whose squared reconstruction error stays finite (this one overflows; the state is unchanged)");
+}
+
+/**
+ * Where β or P leaves the range the update guards keep them in, or null:
+ * |β_ij| ≤ betaLimit, and P's diagonal (which bounds every entry of a
+ * positive definite P) summing to at most stateLimit.
+ */
+function stateRangeProblem(beta: Vector, p: Vector, L: number, limits: NumericLimits): string | null {
+  for (let i = 0; i < beta.length; i++) {
+    if (!(Math.abs(beta[i] as number) <= limits.betaLimit)) return `β has an entry ${beta[i]} beyond ±${limits.betaLimit}`;
+  }
+  let trace = 0;
+  for (let i = 0; i < L; i++) trace += p[i * L + i] as number;
+  if (!(trace <= limits.stateLimit)) return `P has trace ${trace}, above ${limits.stateLimit}`;
+  return null;
+}
 
 function allFinite(values: Vector): boolean {
   let check = 0;
