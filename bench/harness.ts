@@ -52,6 +52,24 @@ export function sumLoop(xs: Float64Array): number {
   return s;
 }
 
+/** The honest baseline of the change rows: a sum of the same Float64Array with four accumulators. */
+export function sumLoop4(xs: Float64Array): number {
+  let a = 0;
+  let b = 0;
+  let c = 0;
+  let d = 0;
+  const end = xs.length & ~3;
+  let i = 0;
+  for (; i < end; i += 4) {
+    a += xs[i] as number;
+    b += xs[i + 1] as number;
+    c += xs[i + 2] as number;
+    d += xs[i + 3] as number;
+  }
+  for (; i < xs.length; i++) a += xs[i] as number;
+  return a + b + (c + d);
+}
+
 /** Nanoseconds per element of {@link sumLoop} over `xs`, timed now. */
 export function sumBaselineNs(xs: Float64Array): number {
   return nsPerOp(() => consume(sumLoop(xs)), xs.length);
