@@ -82,8 +82,8 @@ const KNOWN = ["recentSize", "referenceSample", "referenceSize", "significance",
  * gaps at the reference values are kept in segment trees ({@link KsGaps}) instead of merging both
  * sorted windows at every test. D is the exact largest gap rounded once (an integer over nm); a
  * merge that forms i/n − j/m in floating point can differ from it in the last bits (by less than
- * 1e-15). Memory: about 48 bytes per distinct reference value (rounded up to a power of two) beside
- * the two windows.
+ * 1e-15). Memory: 48 bytes per tree leaf (the k distinct reference values rounded up to a power of
+ * two) plus 24 per distinct value, beside the two windows.
  * @example
  * const ks = new SlidingKsTest({ referenceSample: [0, 1, 2, 3, 4, 5, 6, 7], recentSize: 8, significance: 0.01 });
  * ks.scan(new Float64Array([10, 11, 12, 13, 14, 15, 16, 17])); // 7 (D = 1 once the window is full)
