@@ -38,7 +38,7 @@ describe("the fleet on a three-node Redis Cluster on loopback (common practice, 
   test("partitions spread over the three shards, each partition's keys on one shard; the SIGKILL-and-join run decides every record exactly once", async () => {
     const client = redis as RedisClient;
     await feed(client, records, PARTITIONS);
-    pool = new WorkerPool(["--redis", nodes[0]?.url as string, "--cluster", "--partitions", String(PARTITIONS), "--config", writeConfig(dir, SMALL_ENGINE), "--batch", "40", "--lease-ms", "1500"]);
+    pool = new WorkerPool(["--redis", nodes[0]?.url as string, "--cluster", "--partitions", String(PARTITIONS), "--config", writeConfig(dir, SMALL_ENGINE), "--batch", "40", "--checkpoint-every", "5", "--lease-ms", "1500"]);
     await killAndJoinRun(pool, client, records.length, PARTITIONS);
     await expectExactlyOnce(client, PARTITIONS, records, expected);
     // Where each partition's keys live: every key of a partition on one node, the partitions on all three.

@@ -4,7 +4,7 @@ import { join } from "node:path";
 import { fileURLToPath } from "node:url";
 import { RandomSource } from "@leeway/core";
 import { DecisionEngine, type DecisionEngineOptions } from "@leeway/policy";
-import { FleetFeeder, partitionKeys, type RedisClient } from "@leeway/fleet";
+import { compareIds, FleetFeeder, partitionKeys, type RedisClient } from "@leeway/fleet";
 
 /** Small engine settings so that a few hundred samples per stream see commissioning, calibration, drifts and alarms. */
 export const SMALL_ENGINE: DecisionEngineOptions = {
@@ -126,13 +126,6 @@ export async function readOutput(client: RedisClient, partitions: number, prefix
     }
   }
   return { decisions, decidedInputs, dead };
-}
-
-/** Orders Redis stream ids ("ms-seq"). */
-export function compareIds(a: string, b: string): number {
-  const [am, as] = a.split("-").map(Number) as [number, number];
-  const [bm, bs] = b.split("-").map(Number) as [number, number];
-  return am - bm || as - bs;
 }
 
 const BIN = fileURLToPath(new URL("../../packages/cli/bin/leeway.js", import.meta.url));

@@ -1,5 +1,5 @@
 import { describe, expect, test } from "vitest";
-import { acquireLease, commitBatch, FencedError, partitionKeys, PartitionEngines, releaseLease, renewLease } from "@leeway/fleet";
+import { acquireLease, commitBatch, FencedError, partitionKeys, PartitionEngines, releaseLease, renewLease, type BatchPlan, type HeldLease } from "@leeway/fleet";
 import { DecisionEngine } from "@leeway/policy";
 import { sharedRedis } from "./redis-server.js";
 import { SMALL_ENGINE } from "./fleet-stream.js";
@@ -8,15 +8,15 @@ const shared = sharedRedis();
 
 const sleep = (ms: number): Promise<void> => new Promise((r) => setTimeout(r, ms));
 
-function engines(partition: number, lease: { token: string; offset: string; consumed: number }): PartitionEngines {
-  return new PartitionEngines(partition, lease.token, lease.offset, lease.consumed, () => new DecisionEngine(SMALL_ENGINE), { inputs: null, allowNonFinite: false });
+function engines(partition: number, lease: HeldLease): PartitionEngines {
+  return new PartitionEngines(partition, lease.token, lease, () => new DecisionEngine(SMALL_ENGINE), { inputs: null, allowNonFinite: false, checkpointEvery: 1 });
 }
 
 describe("leases with fencing tokens (Kleppmann 2016, fencing tokens; common practice)", () => {
   test("a second owner cannot take a held lease; the holder renews it; after a release the next owner gets a larger token", async () => {
     const keys = partitionKeys("lease-a", 0);
     const a = await acquireLease(shared.redis, keys, "worker-a", 5000);
-    expect(a).toEqual({ token: "1", offset: "0-0", consumed: 0 });
+    expect(a).toEqual({ token: "1", offset: "0-0", consumed: 0, checkpoint: "0-0" });
     expect(await acquireLease(shared.redis, keys, "worker-b", 5000)).toBeNull();
     expect(await acquireLease(shared.redis, keys, "worker-a", 5000)).toEqual(a); // renewal keeps the token
     expect(await renewLease(shared.redis, keys, "worker-a", "1", 5000)).toBe(true);
@@ -63,5 +63,33 @@ describe("leases with fencing tokens (Kleppmann 2016, fencing tokens; common pra
     expect(again).toBeInstanceOf(FencedError);
     expect((again as Error).message).toMatch(/OFFSET expected 0-0, stored /);
     expect(await shared.redis.xlen(keys.output)).toBe(3);
+  });
+
+  test("a commit that is no checkpoint moves the offset and writes no snapshot; a checkpoint commit moves the checkpoint to the offset; a new lease reports both", async () => {
+    const keys = partitionKeys("lease-d", 0);
+    for (let i = 0; i < 8; i++) await shared.redis.xadd(keys.input, "*", "s", `pump-${i % 2}`, "v", "1");
+    const entries = (await shared.redis.xrange(keys.input, "-", "+")) as [string, string[]][];
+    const lease = (await acquireLease(shared.redis, keys, "w", 5000)) as HeldLease;
+    const part = new PartitionEngines(0, lease.token, lease, () => new DecisionEngine(SMALL_ENGINE), { inputs: null, allowNonFinite: false, checkpointEvery: 2 });
+    const first = part.decide(entries.slice(0, 4), new Map());
+    expect([first.checkpoint, first.snapshots.length]).toEqual([false, 0]);
+    await commitBatch(shared.redis, keys, 0, "w", lease.token, first, 5000);
+    part.committed(first);
+    await releaseLease(shared.redis, keys, "w", lease.token);
+    const between = (await acquireLease(shared.redis, keys, "v", 5000)) as HeldLease;
+    expect([between.offset, between.checkpoint]).toEqual([(entries[3] as [string, string[]])[0], "0-0"]);
+    expect(await shared.redis.hlen(keys.snapshots)).toBe(0);
+    await releaseLease(shared.redis, keys, "v", between.token);
+    const again = (await acquireLease(shared.redis, keys, "w", 5000)) as HeldLease;
+    const owner = new PartitionEngines(0, again.token, again, () => new DecisionEngine(SMALL_ENGINE), { inputs: null, allowNonFinite: false, checkpointEvery: 2 });
+    owner.replay(entries.slice(0, 4), new Map());
+    const second = owner.decide(entries.slice(4), new Map());
+    expect([second.checkpoint, second.snapshots.map(([s]) => s).sort()]).toEqual([false, []]);
+    await commitBatch(shared.redis, keys, 0, "w", again.token, second, 5000);
+    owner.committed(second);
+    const last = owner.checkpointPlan() as BatchPlan;
+    await commitBatch(shared.redis, keys, 0, "w", again.token, last, 5000);
+    expect(await shared.redis.hmget(keys.meta, "offset", "checkpoint")).toEqual([(entries[7] as [string, string[]])[0], (entries[7] as [string, string[]])[0]]);
+    expect((await shared.redis.hkeys(keys.snapshots)).sort()).toEqual(["pump-0", "pump-1"]);
   });
 });

@@ -40,12 +40,13 @@ export async function killAndJoinRun(pool: WorkerPool, redis: RedisClient, total
   expect(killedAt).toBeLessThan(total);
   await waitFor(async () => (await consumed(redis, partitions)) >= Math.max(killedAt + 1, total * 0.5), 90_000, "half of the records committed");
   const late = pool.start();
+  // The added worker must be up (its signal handlers set) before the run may end and stopAll signal it.
+  await waitFor(async () => /partition \d+ acquired/.test(late.log.join("")), 90_000, "the added worker to take a partition");
   await waitFor(async () => (await consumed(redis, partitions)) === total, 120_000, "every record committed");
   const status = await fleetStatus(redis, { partitions });
   expect(status.totalLag).toBe(0);
   expect(Math.max(...status.partitions.map((p) => p.token))).toBeGreaterThan(1); // the killed worker's partitions changed hands
   expect(await pool.stopAll()).toEqual([0, 0, 0]); // graceful stop: batch committed, leases released
-  expect(late.log.join("")).toMatch(/partition \d+ acquired/);
 }
 
 /** The fleet's output equals the in-process replay byte for byte, every sample decided once, every bad record dead-lettered once. */

@@ -19,7 +19,7 @@ afterAll(async () => {
 });
 
 function pool(url: string): WorkerPool {
-  const p = new WorkerPool(["--redis", url, "--partitions", String(PARTITIONS), "--config", config, "--batch", "40", "--lease-ms", "1500"]);
+  const p = new WorkerPool(["--redis", url, "--partitions", String(PARTITIONS), "--config", config, "--batch", "40", "--checkpoint-every", "5", "--lease-ms", "1500"]);
   pools.push(p);
   return p;
 }

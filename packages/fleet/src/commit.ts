@@ -18,15 +18,17 @@ function section(args: (string | Buffer | number)[], entries: readonly string[][
 }
 
 /**
- * Commits one batch in one atomic script on the partition's shard: the changed
- * snapshots, the decisions and operator receipts (output stream), the dead
- * letters, the open-alarm and quarantine changes, and the new input offset;
- * the lease is renewed with it. Throws {@link FencedError} when `token` is no
+ * Commits one batch in one atomic script on the partition's shard: the
+ * decisions and operator receipts (output stream), the dead letters, the
+ * open-alarm and quarantine changes and the new input offset, and — when the
+ * plan is a checkpoint — the snapshots of every engine changed since the last
+ * checkpoint with the checkpoint moved to the new offset; the lease is
+ * renewed with it. Throws {@link FencedError} when `token` is no
  * longer the partition's current fencing token or the stored offset is not
  * `plan.fromOffset` — then nothing was written.
  */
 export async function commitBatch(client: RedisClient, keys: PartitionKeys, partition: number, owner: string, token: string, plan: BatchPlan, leaseMs: number): Promise<void> {
-  const args: (string | Buffer | number)[] = [owner, token, plan.fromOffset, plan.toOffset, plan.consumed, leaseMs, plan.snapshots.length];
+  const args: (string | Buffer | number)[] = [owner, token, plan.fromOffset, plan.toOffset, plan.consumed, leaseMs, plan.checkpoint ? "1" : "0", plan.snapshots.length];
   for (const [stream, bytes] of plan.snapshots) args.push(stream, bytes);
   section(args, plan.outputs);
   section(args, plan.dead);

@@ -4,8 +4,12 @@ import { ACQUIRE, RELEASE, RENEW, type RedisClient } from "./scripts.js";
 /** A lease held on a partition: the fencing token and the committed position at the time it was taken. */
 export interface HeldLease {
   token: string;
+  /** Last committed input id. */
   offset: string;
+  /** Input entries committed. */
   consumed: number;
+  /** Input id at which the stored snapshots were last made whole (at or before `offset`). */
+  checkpoint: string;
 }
 
 /**
@@ -17,9 +21,9 @@ export interface HeldLease {
  * lease?.token; // "1" on a fresh database
  */
 export async function acquireLease(client: RedisClient, keys: Pick<PartitionKeys, "meta" | "lease">, owner: string, leaseMs: number): Promise<HeldLease | null> {
-  const reply = (await ACQUIRE.run(client, [keys.meta, keys.lease], [owner, leaseMs])) as [string, string, string] | null;
+  const reply = (await ACQUIRE.run(client, [keys.meta, keys.lease], [owner, leaseMs])) as [string, string, string, string] | null;
   if (reply === null) return null;
-  return { token: String(reply[0]), offset: String(reply[1]), consumed: Number(reply[2]) };
+  return { token: String(reply[0]), offset: String(reply[1]), consumed: Number(reply[2]), checkpoint: String(reply[3]) };
 }
 
 /** Extends a held lease; false when `token` is no longer the partition's current one (the lease is lost). */

@@ -30,8 +30,9 @@ export class LuaScript {
 /**
  * KEYS: meta, lease. ARGV: owner, lease ms.
  * Takes the lease when it is free (a new token) or renews it when the caller
- * holds it already (its token). Returns {token, offset, consumed} or nil when
- * another owner holds it.
+ * holds it already (its token). Returns {token, offset, consumed, checkpoint}
+ * or nil when another owner holds it (a partition written before checkpoints
+ * existed has its snapshots at its offset).
  */
 export const ACQUIRE = new LuaScript(`
 local holder = redis.call('GET', KEYS[2])
@@ -45,8 +46,8 @@ else
   token = tostring(redis.call('HINCRBY', KEYS[1], 'fence', 1))
   redis.call('SET', KEYS[2], ARGV[1] .. ':' .. token, 'PX', ARGV[2])
 end
-local m = redis.call('HMGET', KEYS[1], 'offset', 'consumed')
-return {token, m[1] or '0-0', m[2] or '0'}
+local m = redis.call('HMGET', KEYS[1], 'offset', 'consumed', 'checkpoint')
+return {token, m[1] or '0-0', m[2] or '0', m[3] or m[1] or '0-0'}
 `);
 
 /** KEYS: meta, lease. ARGV: owner, token, lease ms. 1 when renewed; 0 when the token is no longer current. */
@@ -66,8 +67,11 @@ return 0
 
 /**
  * KEYS: meta, lease, snapshots, output, dead, alarms, quarantine.
- * ARGV: owner, token, expected offset, new offset, consumed, lease ms, then
- * five sections, each a count followed by its items:
+ * ARGV: owner, token, expected offset, new offset, consumed, lease ms,
+ * checkpoint ("1": the snapshots below hold every engine changed since the
+ * last checkpoint, so meta.checkpoint moves to the new offset; "0": they are
+ * none; a partition without a stored checkpoint gets the old offset as its
+ * checkpoint), then five sections, each a count followed by its items:
  *   snapshots   (stream, bytes) pairs            → HSET snapshots
  *   outputs     (n, field, value × n) entries    → XADD output
  *   dead        (n, field, value × n) entries    → XADD dead
@@ -75,7 +79,8 @@ return 0
  *   quarantine  (stream, reason) pairs           → HSET quarantine, HDEL snapshots
  * Refuses (an error reply starting FENCED or OFFSET) unless the token is the
  * partition's current one and the stored offset is the expected one; then
- * applies everything, moves the offset and renews the lease, atomically.
+ * applies everything, moves the offset (and the checkpoint) and renews the
+ * lease, atomically.
  */
 export const COMMIT = new LuaScript(`
 local fence = redis.call('HGET', KEYS[1], 'fence')
@@ -90,7 +95,7 @@ local offset = redis.call('HGET', KEYS[1], 'offset') or '0-0'
 if offset ~= ARGV[3] then
   return redis.error_reply('OFFSET expected ' .. ARGV[3] .. ', stored ' .. offset)
 end
-local i = 7
+local i = 8
 local n = tonumber(ARGV[i]); i = i + 1
 for _ = 1, n do redis.call('HSET', KEYS[3], ARGV[i], ARGV[i + 1]); i = i + 2 end
 for _, key in ipairs({KEYS[4], KEYS[5]}) do
@@ -113,6 +118,11 @@ for _ = 1, n do
   i = i + 2
 end
 redis.call('HSET', KEYS[1], 'offset', ARGV[4], 'consumed', ARGV[5])
+if ARGV[7] == '1' then
+  redis.call('HSET', KEYS[1], 'checkpoint', ARGV[4])
+elseif redis.call('HEXISTS', KEYS[1], 'checkpoint') == 0 then
+  redis.call('HSET', KEYS[1], 'checkpoint', ARGV[3])
+end
 redis.call('SET', KEYS[2], ARGV[1] .. ':' .. ARGV[2], 'PX', ARGV[6])
 return 1
 `);

@@ -12,6 +12,8 @@ export interface PartitionStatus {
   token: number;
   /** Last committed input id. */
   offset: string;
+  /** Input id at which the stored snapshots are whole (a new owner replays from here to `offset`). */
+  checkpoint: string;
   /** Input entries not yet committed. */
   lag: number;
   deadLetters: number;
@@ -47,7 +49,7 @@ export async function fleetStatus(client: RedisClient, options: { prefix?: strin
     Array.from({ length: partitions }, async (_, p): Promise<PartitionStatus> => {
       const k = partitionKeys(prefix, p);
       const [meta, lease, added, dead, alarms, quarantined] = await Promise.all([
-        client.hmget(k.meta, "offset", "consumed", "fence"),
+        client.hmget(k.meta, "offset", "consumed", "fence", "checkpoint"),
         client.get(k.lease),
         entriesAdded(client, k.input),
         client.xlen(k.dead),
@@ -60,6 +62,7 @@ export async function fleetStatus(client: RedisClient, options: { prefix?: strin
         owner: lease === null ? null : lease.replace(/:\d+$/, ""),
         token: Number(meta[2] ?? 0),
         offset: meta[0] ?? "0-0",
+        checkpoint: meta[3] ?? meta[0] ?? "0-0",
         lag: Math.max(0, added - Number(meta[1] ?? 0)),
         deadLetters: dead,
         openAlarms: Object.keys(alarms).length,

@@ -20,6 +20,14 @@ export interface FleetWorkerOptions {
   engine?: DecisionEngineOptions;
   /** Input records read and committed per partition per batch, 1 to 100000. Default 1000. */
   batch?: number;
+  /**
+   * Batches per checkpoint, 1 to 10000: how often a partition's commit also
+   * stores the snapshots of the engines changed since the last one. Fewer
+   * checkpoints cost less (a snapshot is serialised and compressed once per
+   * checkpoint instead of once per batch) but a new owner replays up to
+   * `checkpointEvery × batch` records before it decides anything new. Default 20.
+   */
+  checkpointEvery?: number;
   /** Lease time to live, in milliseconds, 200 to 600000: how long a dead worker's partitions wait for a new owner. Default 10000. */
   leaseMs?: number;
   /** Pause when no partition had input, in milliseconds, 1 to 10000. Default 20. */
@@ -41,20 +49,23 @@ export interface WorkerProgress {
 
 /** What happened to a worker's leases, for its log. */
 export interface WorkerEvent {
-  kind: "acquired" | "released" | "lost" | "fenced" | "error";
+  kind: "acquired" | "replayed" | "released" | "lost" | "fenced" | "error";
   partition: number;
   message: string;
 }
 
 const NAME = "FleetWorker";
-const KNOWN = ["prefix", "partitions", "only", "engine", "batch", "leaseMs", "idleMs", "owner"] as const;
+const KNOWN = ["prefix", "partitions", "only", "engine", "batch", "checkpointEvery", "leaseMs", "idleMs", "owner"] as const;
 
 /**
  * A worker of the fleet: owns partitions through leases with fencing tokens,
  * restores each stream's engine lazily from its snapshot, reads each owned
  * partition's input stream in batches and commits every batch in one atomic
- * script (snapshots, decisions, dead letters, offset). Killed at any instant,
- * it loses and repeats nothing: a new owner continues from the last commit.
+ * script (decisions, dead letters, offset; and every `checkpointEvery`
+ * batches the changed snapshots). Killed at any instant, it loses and
+ * repeats nothing: a new owner restores the engines of the last checkpoint,
+ * replays the records up to the last commit without writing their decisions
+ * again, and continues from there.
  * Workers share the partitions evenly: each takes its fair share of the live
  * workers and gives extra partitions up at its next lease round.
  * @example
@@ -71,6 +82,7 @@ export class FleetWorker {
   readonly #inputs: number | null;
   readonly #allowNonFinite: boolean;
   readonly #batch: number;
+  readonly #checkpointEvery: number;
   readonly #leaseMs: number;
   readonly #idleMs: number;
   readonly #keys: PartitionKeys[];
@@ -95,6 +107,7 @@ export class FleetWorker {
     this.#inputs = probe.mode === "features" ? (this.#engineOptions.inputs as number) : null;
     this.#allowNonFinite = this.#engineOptions.nonFinite === "skip";
     this.#batch = integerInRange(NAME, "batch", o.batch ?? 1000, 1, 100_000);
+    this.#checkpointEvery = integerInRange(NAME, "checkpointEvery", o.checkpointEvery ?? 20, 1, 10_000);
     this.#leaseMs = integerInRange(NAME, "leaseMs", o.leaseMs ?? 10_000, 200, 600_000);
     this.#idleMs = integerInRange(NAME, "idleMs", o.idleMs ?? 20, 1, 10_000);
     if (o.owner !== undefined && (typeof o.owner !== "string" || o.owner.length === 0 || o.owner.length > 200)) throw new OptionError(NAME, "owner", o.owner, "a string of 1 to 200 characters");
@@ -167,8 +180,8 @@ export class FleetWorker {
       if (this.#owned.has(p)) continue;
       const lease = await acquireLease(this.#client, this.#keys[p] as PartitionKeys, this.owner, this.#leaseMs);
       if (lease === null) continue;
-      this.#owned.set(p, new PartitionEngines(p, lease.token, lease.offset, lease.consumed, () => new DecisionEngine(this.#engineOptions), { inputs: this.#inputs, allowNonFinite: this.#allowNonFinite }));
-      this.#event("acquired", p, `partition ${p} acquired (token ${lease.token}, offset ${lease.offset})`);
+      this.#owned.set(p, new PartitionEngines(p, lease.token, lease, () => new DecisionEngine(this.#engineOptions), { inputs: this.#inputs, allowNonFinite: this.#allowNonFinite, checkpointEvery: this.#checkpointEvery }));
+      this.#event("acquired", p, `partition ${p} acquired (token ${lease.token}, offset ${lease.offset}, checkpoint ${lease.checkpoint})`);
     }
     let lag = 0;
     for (const [p, part] of this.#owned) lag += Math.max(0, (await entriesAdded(this.#client, (this.#keys[p] as PartitionKeys).input)) - part.consumed);
@@ -181,6 +194,14 @@ export class FleetWorker {
     const part = this.#owned.get(p);
     if (part === undefined) return;
     this.#owned.delete(p);
+    const plan = part.checkpointPlan();
+    if (plan !== null) {
+      // The next owner then starts from the committed offset with nothing to replay.
+      await commitBatch(this.#client, this.#keys[p] as PartitionKeys, p, this.owner, part.token, plan, this.#leaseMs).then(
+        () => part.committed(plan),
+        (error: unknown) => this.#event("error", p, `last checkpoint of partition ${p} not written: ${(error as Error).message}`),
+      );
+    }
     await releaseLease(this.#client, this.#keys[p] as PartitionKeys, this.owner, part.token).catch(() => false);
     this.#event("released", p, `partition ${p} released (${why})`);
   }
@@ -199,6 +220,7 @@ export class FleetWorker {
   async #partitionBatch(part: PartitionEngines): Promise<boolean> {
     const keys = this.#keys[part.partition] as PartitionKeys;
     try {
+      if (part.replaying) return await this.#replayBatch(part, keys);
       const entries = (await this.#client.xrange(keys.input, `(${part.offset}`, "+", "COUNT", this.#batch)) as StreamEntry[];
       if (entries.length === 0) return false;
       const stored = await this.#loadStreams(keys, part.missing(entries));
@@ -218,6 +240,17 @@ export class FleetWorker {
       if (!fenced) await this.#sleep(this.#idleMs * 10);
       return false;
     }
+  }
+
+  /** Replays one batch of the records between the checkpoint and the committed offset (nothing is written). */
+  async #replayBatch(part: PartitionEngines, keys: PartitionKeys): Promise<boolean> {
+    const entries = (await this.#client.xrange(keys.input, `(${part.cursor}`, part.offset, "COUNT", this.#batch)) as StreamEntry[];
+    if (entries.length === 0) throw new Error(`the input records after checkpoint ${part.cursor} up to the committed offset ${part.offset} are gone (was the input trimmed above the checkpoint?)`);
+    const stored = await this.#loadStreams(keys, part.missing(entries));
+    if (this.#owned.get(part.partition) !== part) return false;
+    part.replay(entries, stored);
+    if (!part.replaying) this.#event("replayed", part.partition, `partition ${part.partition}: ${part.replayed} records replayed from checkpoint ${part.checkpoint} to the committed offset ${part.offset}`);
+    return true;
   }
 
   async #loadStreams(keys: PartitionKeys, ids: readonly string[]): Promise<Map<string, StoredStream>> {

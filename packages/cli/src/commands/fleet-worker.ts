@@ -17,6 +17,7 @@ export const fleetWorkerSpec: CommandSpec = {
     { name: "inputs", kind: "number", value: "N", description: "feature mode: N features per record (default: score-only mode)" },
     { name: "only", kind: "string", value: "LIST", description: "comma-separated partitions this worker may own (default all)" },
     { name: "batch", kind: "number", value: "N", description: "records read and committed per partition per batch", defaultText: "1000" },
+    { name: "checkpoint-every", kind: "number", value: "N", description: "batches per checkpoint (the snapshots of changed engines are stored once per checkpoint; a new owner replays up to N batches)", defaultText: "20" },
     { name: "lease-ms", kind: "number", value: "MS", description: "lease time to live: how long a dead worker's partitions wait", defaultText: "10000" },
     { name: "site-evidence", kind: "boolean", description: "also run the fleet's site-evidence consumer when this worker holds its lease (one runs per fleet)" },
     { name: "site-fraction", kind: "number", value: "F", description: "fraction of a site's streams whose onsets make a site-wide shift", defaultText: "0.5" },
@@ -82,6 +83,7 @@ export async function runFleetWorker(parsed: ParsedArguments, io: CliStreams): P
   const engine = inputs === null ? { ...config.engine } : { ...config.engine, inputs };
   const only = onlyFlag(parsed);
   const batch = numberFlag(parsed, "batch");
+  const checkpointEvery = numberFlag(parsed, "checkpoint-every");
   const leaseMs = numberFlag(parsed, "lease-ms");
   const client = connectFleet(fleet.url, fleet.cluster, "fleet worker");
   const worker = new FleetWorker(client, {
@@ -90,6 +92,7 @@ export async function runFleetWorker(parsed: ParsedArguments, io: CliStreams): P
     engine,
     ...(only === undefined ? {} : { only }),
     ...(batch === undefined ? {} : { batch }),
+    ...(checkpointEvery === undefined ? {} : { checkpointEvery }),
     ...(leaseMs === undefined ? {} : { leaseMs }),
   });
   worker.onProgress = (p) => io.stderr.write(progressLine(p));
