@@ -2,12 +2,14 @@ import { it } from "vitest";
 import { RandomSource } from "@leeway/core";
 import { ChangePointPosterior, ConformalMartingale, Cusum } from "@leeway/change";
 import { senSlopeInterval, timeToLimit } from "@leeway/stats";
+import { changeOnset } from "@leeway/policy";
 import { consume, sumLoop } from "./harness.js";
 import { RoundsReport, timeRounds, type RoundTimes } from "./rounds.js";
 
 // Cost of the planning evidence: the conformal martingale and the change-point posterior per sample,
 // Sen's slope interval and the time to a limit per call. Per sample (or call), by process CPU time
-// and wall time, min/median/max over seven rounds, with the sum loop over the same scores as the baseline.
+// and wall time, min/median/max over seven rounds, with the sum loop over the same scores as the baseline;
+// changeOnset per sample of the window it is given.
 const keep = consume;
 
 function scores(n: number, seed: string): Float64Array {
@@ -62,6 +64,18 @@ it("evidence: cost per sample of the martingale and the posterior, per call of t
         }, short.length),
         note: `${post.hypotheses} hypotheses kept`,
       },
+      baseline,
+    );
+  }
+
+  // changeOnset: one posterior over a window of normalised scores with a 1.5 σ shift 100 samples before its end,
+  // per sample of the window (the settling rule would call it once per change)
+  for (const [length, max] of [[900, 256], [900, 64], [3600, 256]] as const) {
+    const z = new Float64Array(length);
+    const r = new RandomSource(`onset-bench-${length}`);
+    for (let i = 0; i < length; i++) z[i] = (i >= length - 100 ? 1.5 : 0) + r.normal();
+    report.add(
+      { name: `changeOnset, window ${length}, maxHypotheses ${max}`, unit: "sample", times: timeRounds(() => keep(changeOnset(z, { maxHypotheses: max }).runLength), length), note: `onset ${changeOnset(z, { maxHypotheses: max }).onset} (true ${length - 100})` },
       baseline,
     );
   }

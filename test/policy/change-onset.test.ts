@@ -1,7 +1,8 @@
 import { describe, expect, it } from "vitest";
 import { ChangePointPosterior } from "@leeway/change";
 import { RandomSource } from "@leeway/core";
-import { changeOnset } from "@leeway/policy";
+import { changeOnset, DecisionEngine } from "@leeway/policy";
+import { MachineSimulator, harbourLane } from "@leeway/sim";
 import { expectLeewayError } from "../support/errors.js";
 
 describe("changeOnset", () => {
@@ -51,5 +52,35 @@ describe("changeOnset", () => {
     expectLeewayError(() => changeOnset([0, 1], { firstIndex: -1 }), "E_OPTION", "firstIndex");
     expectLeewayError(() => changeOnset([0, 1], { credibility: 1 }), "E_OPTION", "credibility");
     expectLeewayError(() => changeOnset([0, 1], { maxHypotheses: 1 }), "E_OPTION", "maxHypotheses");
+  });
+});
+
+describe("changeOnset in the demo scenario", () => {
+  it("Harbour Lane at one sample per 10 s, mid-speed engine: at the anomaly alarm after the compressor's installation (hour 34), the hour of normalised reference scores before it places the onset at the installation sample (the guide's example)", () => {
+    const SCALE = 360;
+    const options = { inputs: 256, seed: 1, members: 3, hidden: 16, commissioning: 120, calibration: 120, settling: 90, settlingLimit: 360, trendBlock: 6, coolDown: 180, baselineHalfLife: 180, targetArl0: 2000, retrainHorizon: 8640 };
+    const sim = new MachineSimulator(harbourLane({ scale: SCALE }));
+    const engine = new DecisionEngine(options);
+    const u: number[] = [];
+    const simIndex: number[] = [];
+    let found: { alarmAt: number; onsetAt: number | null; runLength: number } | null = null;
+    for (let s = sim.next(); s !== null && found === null; s = sim.next()) {
+      if (s.truth.mode !== "mid") continue;
+      const d = engine.observe(s.spectrum);
+      u.push(Math.log((d.evidence.referenceScores[0] ?? Number.NaN) + 1e-12));
+      simIndex.push(s.index);
+      if (s.index < 34 * SCALE || d.action === "learn" || d.action === "hold") continue;
+      // normalise by the engine's calibration span (its samples 120 to 239), as its rules do
+      const calibration = u.slice(120, 240);
+      const mean = calibration.reduce((a, b) => a + b, 0) / calibration.length;
+      const spread = Math.sqrt(calibration.reduce((a, b) => a + (b - mean) ** 2, 0) / (calibration.length - 1));
+      const window = u.slice(-SCALE).map((x) => (x - mean) / spread);
+      const o = changeOnset(window);
+      found = { alarmAt: s.index, onsetAt: o.onset === null ? null : (simIndex[simIndex.length - SCALE + o.onset] as number), runLength: o.runLength };
+      expect(d.action).toBe("alarm");
+    }
+    console.log(`demo: alarm at sample ${found?.alarmAt}, changeOnset places the onset at ${found?.onsetAt} (installation at ${34 * SCALE})`);
+    expect(found?.alarmAt).toBeGreaterThan(34 * SCALE);
+    expect(found?.onsetAt).toBe(34 * SCALE);
   });
 });
