@@ -161,8 +161,12 @@ it("pool: OS-ELM autoencoder 256-32-256 and a pool of 4, against dot4 and ml-mat
     learnSimd: learnRun(fitted("float64", data, "wasm-simd")),
     pool4simd: poolRun(pool(data, { kernel: "wasm-simd" })),
     pool4sharedSimd: poolRun(pool(data, { kernel: "wasm-simd", sharedHiddenLayer: true })),
+    score32simd: scoreRun(fitted("float32", data, "wasm-simd")),
+    learn32simd: learnRun(fitted("float32", data, "wasm-simd")),
+    pool4simd32: poolRun(pool(data, { kernel: "wasm-simd", dtype: "float32" })),
   };
   for (const k of [1, 4, 8, 16, 64]) runs[`chunk${k}`] = chunkRun(fitted("float64", data), k);
+  for (const k of [8, 64]) runs[`chunkSimd${k}`] = chunkRun(fitted("float64", data, "wasm-simd"), k);
   const times = interleave(runs, ROUNDS, MIN_MS);
   const T = (name: string): Timing[] => times[name] as Timing[];
 
@@ -193,5 +197,11 @@ it("pool: OS-ELM autoencoder 256-32-256 and a pool of 4, against dot4 and ml-mat
   line("learn float64, kernel wasm-simd", "learnSimd", LEARN_MA, `; typescript/simd (CPU) ${show(ratio(T("learn64"), T("learnSimd"), "cpu"))}`);
   line("pool of 4, kernel wasm-simd", "pool4simd", 4 * SCORE_MA + UPDATE_MA, `; typescript/simd (CPU) ${show(ratio(T("pool4"), T("pool4simd"), "cpu"))}`);
   line("pool of 4, wasm-simd + sharedHiddenLayer", "pool4sharedSimd", 5 * L * n + UPDATE_MA, `; typescript own layers/this (CPU) ${show(ratio(T("pool4"), T("pool4sharedSimd"), "cpu"))}`);
+  line("score float32, kernel wasm-simd (f32x4)", "score32simd", SCORE_MA, `; float32 simd / float64 simd (CPU) ${show(ratio(T("score32simd"), T("scoreSimd"), "cpu"))}; float32 TS / float32 simd ${show(ratio(T("score32"), T("score32simd"), "cpu"))}`);
+  line("learn float32, kernel wasm-simd (f32x4)", "learn32simd", LEARN_MA, `; float32 simd / float64 simd (CPU) ${show(ratio(T("learn32simd"), T("learnSimd"), "cpu"))}; float32 TS / float32 simd ${show(ratio(T("learn32"), T("learn32simd"), "cpu"))}`);
+  line("pool of 4 float32, kernel wasm-simd", "pool4simd32", 4 * SCORE_MA + UPDATE_MA, `; float32 simd / float64 simd (CPU) ${show(ratio(T("pool4simd32"), T("pool4simd"), "cpu"))}`);
+  for (const k of [8, 64]) {
+    line(`learnChunk k=${k} wasm-simd, per sample`, `chunkSimd${k}`, LEARN_MA, `; per sample / learn wasm-simd (CPU) ${show(ratio(T(`chunkSimd${k}`), T("learnSimd"), "cpu"))}`);
+  }
   report.write();
 });

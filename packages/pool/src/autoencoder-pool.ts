@@ -209,7 +209,6 @@ export class AutoencoderPool {
     if (o.dtype !== undefined) memberOptions.dtype = o.dtype;
     if (o.kernel !== undefined) {
       memberOptions.kernel = oneOf(COMPONENT, "kernel", o.kernel, KERNELS);
-      if (o.kernel === "wasm-simd" && o.dtype === "float32") throw new OptionError(COMPONENT, "kernel", o.kernel, '"typescript" for float32 state (the SIMD kernels are float64)');
     }
     this.#memberOptions = memberOptions;
   }

@@ -42,6 +42,8 @@ const LAYER = Symbol("hidden layer");
 export const SCORE_SHARED = Symbol("score from a shared hidden layer");
 /** Largest WebAssembly memory (bytes of W and β) the default SIMD kernels use; larger models run the TypeScript kernels. */
 const MAX_WASM_BYTES = 256 * 2 ** 20;
+/** The dtype whose models run the SIMD kernels by default (the others opt in with kernel: "wasm-simd"). */
+const DEFAULT_SIMD_DTYPE: Dtype = "float64";
 /** Accepted updates between two Cholesky checks that P is still positive definite. */
 export const CHECK_INTERVAL = 256;
 /** Consecutive refused updates after which the next refused one re-anchors P. */
@@ -74,10 +76,13 @@ export interface OselmAutoencoderOptions {
   nonFinite?: NonFinitePolicy;
   /**
    * The code of the forward pass and of β's rank-one update: "wasm-simd"
-   * (WebAssembly f64x2 kernels, 2.8–3.3× faster; the default for float64 state
-   * with L·n up to 2²⁴) or "typescript" (the reference; the default for float32
-   * state and larger models). Both do the same operations in the same order,
-   * so the readings agree bit for bit. Chosen at construction and kept in the snapshot.
+   * (WebAssembly SIMD kernels: f64x2 for float64 state, 2.8–3.3× faster, the
+   * default with L·n up to 2²⁴; f32x4 for float32 state, opt-in) or
+   * "typescript" (the reference; the default for float32 state and larger
+   * models). The f64x2 kernels do the reference's operations in the same
+   * order, so readings agree bit for bit; the f32x4 ones compute in float32
+   * (losses within about 1e-4 of the mean squared input of the reference's).
+   * Chosen at construction and kept in the snapshot.
    */
   kernel?: Kernel;
 }
@@ -252,19 +257,21 @@ export class OselmAutoencoder {
     this.#scaling = scalingOption(COMPONENT, o.scaling, this.#n);
     this.#fitted = this.#scaling.mode !== "standardize";
     this.#layer = o[LAYER] ?? drawHiddenLayer(this.#seed, this.#n, this.#L, this.#dtype, this.#activation !== "identity");
-    // default: the SIMD kernels (≥ 2× faster, same readings) for float64 state whose arrays fit a modest WebAssembly memory
-    const simdFits = this.#dtype === "float64" && 2 * this.#L * this.#n * 8 <= MAX_WASM_BYTES;
-    const kernel = o.kernel === undefined ? (simdFits ? "wasm-simd" : "typescript") : oneOf(COMPONENT, "kernel", o.kernel, KERNELS);
-    if (kernel === "wasm-simd" && this.#dtype === "float64" && !simdFits) throw new OptionError(COMPONENT, "kernel", kernel, `"typescript" for L·n above ${MAX_WASM_BYTES / 16} (the SIMD kernels keep W and β in one WebAssembly memory of at most ${MAX_WASM_BYTES} bytes)`);
-    if (kernel === "wasm-simd" && this.#dtype !== "float64") throw new OptionError(COMPONENT, "kernel", kernel, '"typescript" for float32 state (the SIMD kernels are float64)');
-    const wasm = kernel === "wasm-simd" ? new WasmKernels(this.#L, this.#n, this.#layer.weights, this.#layer.biases) : null;
+    // default: the SIMD kernels for float64 state (≥ 2× faster, same readings) whose arrays fit a modest WebAssembly memory
+    const bytes = bytesPerElement(this.#dtype);
+    const simdFits = 2 * this.#L * this.#n * bytes <= MAX_WASM_BYTES;
+    const kernel = o.kernel === undefined ? (simdFits && this.#dtype === DEFAULT_SIMD_DTYPE ? "wasm-simd" : "typescript") : oneOf(COMPONENT, "kernel", o.kernel, KERNELS);
+    if (kernel === "wasm-simd" && !simdFits) throw new OptionError(COMPONENT, "kernel", kernel, `"typescript" for L·n above ${MAX_WASM_BYTES / (2 * bytes)} with ${this.#dtype} state (the SIMD kernels keep W and β in one WebAssembly memory of at most ${MAX_WASM_BYTES} bytes)`);
+    const wasm = kernel === "wasm-simd" ? new WasmKernels(this.#L, this.#n, this.#layer.weights, this.#layer.biases, this.#dtype) : null;
     this.#wasm = wasm;
     this.#beta = wasm === null ? allocate(this.#dtype, this.#L * this.#n) : wasm.beta;
     this.#p = allocate(this.#dtype, this.#L * this.#L);
     this.#resetPrior();
-    this.#z = wasm === null ? new Float64Array(this.#n) : wasm.z;
-    this.#h = wasm === null ? new Float64Array(this.#L) : wasm.h;
-    this.#e = wasm === null ? new Float64Array(this.#n) : wasm.e;
+    // float64 kernels work on the WebAssembly buffers themselves; float32 ones copy z in and h, e out
+    const shared = wasm !== null && !wasm.float32;
+    this.#z = shared ? (wasm.z as Float64Array) : new Float64Array(this.#n);
+    this.#h = shared ? (wasm.h as Float64Array) : new Float64Array(this.#L);
+    this.#e = shared ? (wasm.e as Float64Array) : new Float64Array(this.#n);
     this.#ws = new UpdateWorkspace(this.#L);
   }
 
@@ -403,7 +410,7 @@ export class OselmAutoencoder {
     this.#z.set(source.#z);
     this.#h.set(source.#h);
     this.#scored = false;
-    const loss = this.#wasm === null ? outputResidual(this.#beta, this.#h, this.#z, this.#L, this.#n, this.#e) : this.#wasm.residual();
+    const loss = this.#residual();
     if (!(loss < Infinity)) throw overflowError(this.#z);
     this.#scored = true;
     return loss;
@@ -793,9 +800,28 @@ export class OselmAutoencoder {
       hiddenForward(this.#layer, this.#activation, this.#z, this.#h);
       return outputResidual(this.#beta, this.#h, this.#z, this.#L, this.#n, this.#e);
     }
-    wasm.forward();
+    if (wasm.float32) {
+      wasm.z.set(this.#z); // rounded to float32, as the kernels compute
+      wasm.forward();
+      this.#h.set(wasm.h);
+    } else wasm.forward();
     activateInPlace(this.#h, this.#L, this.#activation);
-    return wasm.residual();
+    return this.#residual();
+  }
+
+  /** e = z − βᵀh from the buffers z and h (already activated); returns Σe²/n. */
+  #residual(): number {
+    const wasm = this.#wasm;
+    if (wasm === null) return outputResidual(this.#beta, this.#h, this.#z, this.#L, this.#n, this.#e);
+    if (!wasm.float32) return wasm.residual();
+    // float32 kernels: z and h as float32 go in, and the model keeps the values the kernels used
+    wasm.z.set(this.#z);
+    wasm.h.set(this.#h);
+    this.#z.set(wasm.z);
+    this.#h.set(wasm.h);
+    const loss = wasm.residual();
+    this.#e.set(wasm.e);
+    return loss;
   }
 
   /** max |β_ij| exactly (O(L·n)). */

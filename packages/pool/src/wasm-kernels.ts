@@ -1,4 +1,5 @@
 import { KERNELS_BASE64 } from "./wasm-binary.js";
+import type { Dtype, Vector } from "./vector.js";
 
 /** Which code runs the forward pass and the rank-one update of β. */
 export type Kernel = "typescript" | "wasm-simd";
@@ -6,10 +7,17 @@ export type Kernel = "typescript" | "wasm-simd";
 /** Every accepted kernel. */
 export const KERNELS: readonly Kernel[] = ["typescript", "wasm-simd"];
 
+type Forward = (w: number, b: number, z: number, h: number, L: number, n: number) => void;
+type Residual = (beta: number, h: number, z: number, e: number, L: number, n: number) => number;
+type RankOne = (beta: number, k: number, e: number, L: number, n: number) => void;
+
 interface Exports {
-  forward(w: number, b: number, z: number, h: number, L: number, n: number): void;
-  residual(beta: number, h: number, z: number, e: number, L: number, n: number): number;
-  rankOne(beta: number, k: number, e: number, L: number, n: number): void;
+  forward: Forward;
+  residual: Residual;
+  rankOne: RankOne;
+  forward32: Forward;
+  residual32: Residual;
+  rankOne32: RankOne;
 }
 
 // The library's compile target has no DOM or Node types: the little of the
@@ -53,34 +61,44 @@ function kernelModule(): WasmModule {
 
 /**
  * One model's WebAssembly memory and its SIMD kernels (packages/pool/wasm/kernels.wat):
- * W, b, β, z, h, e and k live in the memory, and Float64Array views onto it
- * stand in for the model's arrays, so the TypeScript code around the kernels
- * reads and writes them as before. The memory never grows, so the views stay valid.
+ * W, b, β, z, h, e and k live in the memory as elements of the model's dtype,
+ * and typed-array views onto it stand in for the model's arrays. For float64
+ * state (f64x2 lanes) the kernels do the operations of the TypeScript
+ * reference in the same order, so readings agree bit for bit, and the model
+ * works on the views directly. For float32 state (f32x4 lanes) they compute
+ * in float32, and the model copies z in and h, e out of the memory. The
+ * memory never grows, so the views stay valid.
  */
 export class WasmKernels {
-  readonly weights: Float64Array;
-  readonly biases: Float64Array;
-  readonly beta: Float64Array;
-  readonly z: Float64Array;
-  readonly h: Float64Array;
-  readonly e: Float64Array;
-  readonly k: Float64Array;
+  /** True for float32 state (f32x4 kernels). */
+  readonly float32: boolean;
+  readonly weights: Vector;
+  readonly biases: Vector;
+  readonly beta: Vector;
+  readonly z: Vector;
+  readonly h: Vector;
+  readonly e: Vector;
+  readonly k: Vector;
   readonly #at: { w: number; b: number; beta: number; z: number; h: number; e: number; k: number };
-  readonly #run: Exports;
+  readonly #forward: Forward;
+  readonly #residual: Residual;
+  readonly #rankOne: RankOne;
   readonly #L: number;
   readonly #n: number;
 
-  constructor(L: number, n: number, weights: ArrayLike<number>, biases: ArrayLike<number>) {
+  constructor(L: number, n: number, weights: ArrayLike<number>, biases: ArrayLike<number>, dtype: Dtype = "float64") {
+    const bytes = dtype === "float32" ? 4 : 8;
     const sizes = { w: L * n, b: L, beta: L * n, z: n, h: L, e: n, k: L };
     const at = { w: 0, b: 0, beta: 0, z: 0, h: 0, e: 0, k: 0 };
     let offset = 0;
     for (const key of Object.keys(sizes) as (keyof typeof sizes)[]) {
       at[key] = offset;
-      offset += Math.ceil((sizes[key] * 8) / 16) * 16; // 16-byte aligned for v128 loads
+      offset += Math.ceil((sizes[key] * bytes) / 16) * 16; // 16-byte aligned for v128 loads
     }
     const memory = new WebAssembly.Memory({ initial: Math.ceil(offset / 65536) || 1 });
-    this.#run = new WebAssembly.Instance(kernelModule(), { env: { memory } }).exports as unknown as Exports;
-    const view = (key: keyof typeof sizes): Float64Array => new Float64Array(memory.buffer, at[key], sizes[key]);
+    const run = new WebAssembly.Instance(kernelModule(), { env: { memory } }).exports as unknown as Exports;
+    this.float32 = dtype === "float32";
+    const view = (key: keyof typeof sizes): Vector => (this.float32 ? new Float32Array(memory.buffer, at[key], sizes[key]) : new Float64Array(memory.buffer, at[key], sizes[key]));
     this.weights = view("w");
     this.biases = view("b");
     this.beta = view("beta");
@@ -90,26 +108,29 @@ export class WasmKernels {
     this.k = view("k");
     this.weights.set(weights);
     this.biases.set(biases);
+    this.#forward = this.float32 ? run.forward32 : run.forward;
+    this.#residual = this.float32 ? run.residual32 : run.residual;
+    this.#rankOne = this.float32 ? run.rankOne32 : run.rankOne;
     this.#at = at;
     this.#L = L;
     this.#n = n;
   }
 
-  /** h = W·z + b (before the activation), as hiddenForward's sums. */
+  /** h = W·z + b (before the activation); for float64 as hiddenForward's sums. */
   forward(): void {
     const a = this.#at;
-    this.#run.forward(a.w, a.b, a.z, a.h, this.#L, this.#n);
+    this.#forward(a.w, a.b, a.z, a.h, this.#L, this.#n);
   }
 
-  /** e = z − βᵀh; returns Σe²/n, as outputResidual. */
+  /** e = z − βᵀh; returns Σe²/n (for float64 as outputResidual). */
   residual(): number {
     const a = this.#at;
-    return this.#run.residual(a.beta, a.h, a.z, a.e, this.#L, this.#n);
+    return this.#residual(a.beta, a.h, a.z, a.e, this.#L, this.#n);
   }
 
-  /** β += k eᵀ with k in `this.k`, as addOuterProduct. */
+  /** β += k eᵀ with k in `this.k`; for float64 as addOuterProduct. */
   rankOne(): void {
     const a = this.#at;
-    this.#run.rankOne(a.beta, a.k, a.e, this.#L, this.#n);
+    this.#rankOne(a.beta, a.k, a.e, this.#L, this.#n);
   }
 }
