@@ -10,6 +10,7 @@ const event = (over: Partial<EventOutcome>): EventOutcome => ({
   detected: true,
   claimed: "degradation",
   delay: 10,
+  reactionDelay: 3,
   severityAtDetection: 0.1,
   degradationAlarmSeverity: 0.1,
   learnt: 0,

@@ -29,6 +29,7 @@ const COLUMNS: readonly Column[] = [
   col("detected", (r) => r.detectionRate, pct),
   col("right cause", (r) => r.rightCauseRate, pct),
   col("median delay", (r) => r.medianDelay, (x) => num(x, 0)),
+  col("median reaction", (r) => r.medianReactionDelay, (x) => num(x, 0)),
   col("p90 delay", (r) => r.p90Delay, (x) => num(x, 0)),
   col("learnt in degradation", (r) => r.learntDuringDegradation, (x) => num(x, 0)),
   col("learnt after warning (max)", (r) => r.maxLearntAfterWarning, (x) => num(x, 0)),

@@ -39,12 +39,12 @@ export interface QualityRunOptions {
 /**
  * The engine in the suite: feature mode with a pool of 3 members of 8 hidden
  * units (the decisions hardly depend on the network's size; the cost does),
- * every other option at its default, seed 1.
+ * every other option at its default for the sample period, seed 1.
  * @example
- * defaultQualityEngineOptions(1, 64); // { inputs: 64, hidden: 8, members: 3, seed: 1 }
+ * defaultQualityEngineOptions(1, 64); // { inputs: 64, hidden: 8, members: 3, seed: 1, samplePeriod: 1 }
  */
-export function defaultQualityEngineOptions(_samplePeriod: number, inputs: number): DecisionEngineOptions {
-  return { inputs, hidden: 8, members: 3, seed: 1 };
+export function defaultQualityEngineOptions(samplePeriod: number, inputs: number): DecisionEngineOptions {
+  return { inputs, hidden: 8, members: 3, seed: 1, samplePeriod };
 }
 
 /** Commissioning and calibration spans of the naive baselines, in samples (the engine's defaults on main). */
@@ -66,6 +66,8 @@ export interface EventOutcome {
   claimed: ResponseClass;
   /** Samples from the onset to that response, or null. */
   delay: number | null;
+  /** Samples from the onset to the first decision whose cause is not "normal" (learning stops and the decision says why), or null. */
+  reactionDelay: number | null;
   /** The event's severity at the first response, or null. */
   severityAtDetection: number | null;
   /** The severity at the first alarm whose cause is "degradation" during the event, or null. */
@@ -107,6 +109,7 @@ export interface ScenarioOutcome {
 const LEARN = ACTIONS.indexOf("learn");
 const COMMISSIONING = PHASES.indexOf("commissioning");
 const DEGRADATION = CAUSES.indexOf("degradation");
+const NORMAL = CAUSES.indexOf("normal");
 
 /**
  * Simulates one suite scenario once and feeds every sample to each policy of
@@ -127,7 +130,7 @@ export function runQualityScenario(qs: QualityScenario, options: QualityRunOptio
   const attended = new DecisionEngine(engineOptions);
   const faults = qs.events.filter((e) => e.cause !== "concept-drift");
   const operator = options.operator(attended, qs.samplePeriod, (i) => !faults.some((e) => i >= e.start && i < e.end));
-  const unattended = new DecisionEngine(engineOptions);
+  const unattended = new DecisionEngine({ ...engineOptions, attendance: "unattended" });
   const naive = (kind: "frozen" | "adapt"): NaivePolicy =>
     new NaivePolicy({ kind, inputs, hidden: 8, commissioning: NAIVE_COMMISSIONING, calibration: NAIVE_CALIBRATION, run: 5, forgetting: 0.999, seed: "1" });
   const frozen = naive("frozen");
@@ -202,6 +205,8 @@ function measure(policy: QualityPolicy, timeline: Timeline, qs: QualityScenario)
       learnt++;
       if (warning >= 0) learntAfterWarning++;
     }
+    let reaction = -1;
+    for (let i = e.start; i < spanEnd && reaction < 0; i++) if (phases[i] !== COMMISSIONING && causes[i] !== NORMAL) reaction = i;
     const degradationAlarm = inSpan.find((ep) => ep.action === "alarm" && ep.cause === "degradation" && ep.position < end);
     const response = result?.response ?? null;
     return {
@@ -213,6 +218,7 @@ function measure(policy: QualityPolicy, timeline: Timeline, qs: QualityScenario)
       detected: response !== null,
       claimed: result?.claimed ?? "none",
       delay: result?.delay ?? null,
+      reactionDelay: reaction < 0 ? null : reaction - e.start,
       severityAtDetection: response === null ? null : eventSeverity(qs, e, Math.min(response.position, end - 1)),
       degradationAlarmSeverity: degradationAlarm === undefined ? null : eventSeverity(qs, e, degradationAlarm.position),
       learnt: e.cause === "concept-drift" ? 0 : learnt,

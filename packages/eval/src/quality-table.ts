@@ -20,6 +20,8 @@ export interface QualityRow {
   rightCauseRate: number | null;
   /** Median and 90th percentile (nearest rank) of the delays of detected events. */
   medianDelay: number | null;
+  /** Median of the reaction delays (onset to the first decision whose cause is not "normal"). */
+  medianReactionDelay: number | null;
   p90Delay: number | null;
   /** Degradation events: samples learnt during the event, mean and largest per event. */
   learntDuringDegradation: number | null;
@@ -79,6 +81,7 @@ function row(kind: QualityKind, rate: QualityRate, policy: QualityPolicy, scenar
   const drifts = events.filter((e) => e.cause === "concept-drift");
   const known = events.filter((e) => e.knownMode);
   const warned = degradations.filter((e) => e.learntAfterWarning !== null);
+  const reactions = events.map((e) => e.reactionDelay).filter((d): d is number => d !== null).sort((a, b) => a - b);
   const delays = events.map((e) => e.delay).filter((d): d is number => d !== null).sort((a, b) => a - b);
   // An event never alarmed as degradation counts as severity 1 (the severity its span ends at).
   const degradationSeverities = degradations.map((e) => e.degradationAlarmSeverity ?? 1).sort((a, b) => a - b);
@@ -95,6 +98,7 @@ function row(kind: QualityKind, rate: QualityRate, policy: QualityPolicy, scenar
     rightCauseRate: share(events, (e) => e.claimed === e.cause),
     medianDelay: quantile(delays, 0.5),
     p90Delay: quantile(delays, 0.9),
+    medianReactionDelay: quantile(reactions, 0.5),
     learntDuringDegradation: mean(degradations, (e) => e.learnt),
     maxLearntDuringDegradation: largest(degradations, (e) => e.learnt),
     learntAfterWarning: mean(warned, (e) => e.learntAfterWarning as number),

@@ -22,7 +22,7 @@ export interface QualityTarget {
   op: "<=" | ">=" | "<";
   value: number;
   against?: QualityPolicy;
-  /** Added to both figures before an `against` comparison (1 turns delays into samples seen up to the detection, so that a delay of 0 is not an unreachable bound). */
+  /** Added to both figures before an `against` comparison (1 turns delays into samples seen up to the reaction, so that a delay of 0 is not an unreachable bound). */
   offset?: number;
   /** The target in words. */
   target: string;
@@ -41,14 +41,14 @@ export const QUALITY_TARGETS: readonly QualityTarget[] = Object.freeze([
   { id: "fault-never-learnt", kind: "fault", metric: "samples learnt during a fault (largest per event)", field: "maxLearntDuringFault", op: "<=", value: 0, target: "0" },
   { id: "fault-never-retrained", kind: "fault", metric: "retrains and switches per event", field: "adaptationsPerEvent", op: "<=", value: 0, target: "0" },
   { id: "fault-one-alarm", kind: "fault", metric: "alarms per event", field: "alarmsPerEvent", op: "<=", value: 1, target: "≤ 1 (plus spaced reminders, once the engine has them)" },
-  { id: "fault-delay-vs-cusum", kind: "fault", metric: "median delay + 1 (samples seen up to the detection)", field: "medianDelay", op: "<=", value: 2, against: "onset CUSUM", offset: 1, target: "≤ 2 × the onset-tuned CUSUM's" },
+  { id: "fault-delay-vs-cusum", kind: "fault", metric: "median reaction delay + 1 (samples seen up to the first decision that is not normal: learning stops and the cause is named)", field: "medianReactionDelay", op: "<=", value: 2, against: "onset CUSUM", offset: 1, target: "≤ 2 × the onset-tuned CUSUM's" },
   ...SHIFTS.flatMap((kind): QualityTarget[] => [
     { id: `${kind}-absorbed-once`, kind, metric: "share absorbed by exactly one retrain or switch, ≤ 1 page, no degradation alarm", field: "absorbedOnce", op: ">=", value: 0.95, target: "≥ 95 %" },
     { id: `${kind}-pages`, kind, metric: "operator pages (largest per event)", field: "maxPagesPerEvent", op: "<=", value: 1, target: "≤ 1" },
     { id: `${kind}-no-degradation-alarm`, kind, metric: "degradation alarms per event", field: "degradationAlarmsPerEvent", op: "<=", value: 0, target: "0" },
     { id: `${kind}-beats-frozen-only`, kind, metric: "operator pages per event", field: "pagesPerEvent", op: "<", value: 1, against: "frozen only", target: "< frozen only's" },
   ]),
-  { id: "abrupt-shift-delay-vs-cusum", kind: "abrupt-shift", metric: "median delay + 1 (samples seen up to the detection)", field: "medianDelay", op: "<=", value: 2, against: "onset CUSUM", offset: 1, target: "≤ 2 × the onset-tuned CUSUM's" },
+  { id: "abrupt-shift-delay-vs-cusum", kind: "abrupt-shift", metric: "median reaction delay + 1 (samples seen up to the first decision that is not normal: learning stops and the cause is named)", field: "medianReactionDelay", op: "<=", value: 2, against: "onset CUSUM", offset: 1, target: "≤ 2 × the onset-tuned CUSUM's" },
   { id: "recurring-modes-known-silent", kind: "recurring-modes", metric: "share of returns to a known mode switched without an alarm", field: "knownModeSilent", op: ">=", value: 1, target: "100 %" },
   { id: "quiet-false-alarms", kind: "quiet", metric: "false alarms per 10^5 samples", field: "falseAlarmsPer1e5", op: "<=", value: 1, target: "≤ 1" },
 ]);

@@ -9,10 +9,11 @@ import { ChangeWatch } from "./change-watch.js";
 import { CalibrationSpan } from "./calibration-span.js";
 import { RetrainGate } from "./retrain-gate.js";
 import { Settling } from "./settling.js";
+import { FeatureAttribution, signatureHalfLife } from "./feature-attribution.js";
 
 /** Kind and version of a decision core's snapshot. */
 export const CORE_KIND = "leeway.policy.decision-core";
-export const CORE_VERSION = 3;
+export const CORE_VERSION = 4;
 
 /** The plain state of a decision core: its settings, its ledger, and one snapshot per part. */
 export interface CoreSnapshotState extends Omit<CoreLedger, "levels" | "liveLevel"> {
@@ -25,6 +26,7 @@ export interface CoreSnapshotState extends Omit<CoreLedger, "levels" | "liveLeve
   calibration: Snapshot;
   gate: Snapshot;
   settling: Snapshot;
+  attribution: Snapshot;
 }
 
 /** The core's state as plain data (settings in table order, then the ledger, then the parts). */
@@ -42,6 +44,7 @@ export function writeCoreSnapshot(settings: CoreSettings, ledger: CoreLedger, pa
     calibration: parts.calibration.snapshot(),
     gate: parts.gate.snapshot(),
     settling: parts.settling.snapshot(),
+    attribution: parts.attribution.snapshot(),
   });
 }
 
@@ -86,6 +89,11 @@ export function readCoreSnapshot(snapshot: unknown, component: string): { settin
     switches: r.integer("switches", 0, big),
     alarms: r.integer("alarms", 0, big),
     anomalyAlarmAt: r.integer("anomalyAlarmAt", -1, Math.max(-1, index)),
+    latchedAt: r.integer("latchedAt", -1, Math.max(-1, index)),
+    latchNormalRun: r.integer("latchNormalRun", 0, big),
+    openCause: readOpenCause(r),
+    openLevel: r.number("openLevel"),
+    alarmLevel: r.number("alarmLevel"),
   };
   const parts: CoreParts = {
     anomaly: AnomalyEpisode.restore(r.raw("anomaly"), settings.anomalyRun),
@@ -94,6 +102,7 @@ export function readCoreSnapshot(snapshot: unknown, component: string): { settin
     calibration: CalibrationSpan.restore(r.raw("calibration"), settings.calibration),
     gate: RetrainGate.restore(r.raw("gate"), settings),
     settling: Settling.restore(r.raw("settling"), settings.settling),
+    attribution: FeatureAttribution.restore(r.raw("attribution"), signatureHalfLife(settings), newestId + 1),
   };
   const purpose = parts.calibration.purpose;
   const calibrated = phase !== "commissioning" && purpose !== "commissioning";
@@ -101,7 +110,10 @@ export function readCoreSnapshot(snapshot: unknown, component: string): { settin
     r.fail("liveLevel", "and the thresholds must be set once commissioning is over");
   }
   if (calibrated && purpose === null && ledger.levels.length !== newestId + 1) r.fail("levels", `must have length ${newestId + 1}, got length ${ledger.levels.length}`);
-  if (parts.settling.afterAnomaly && phase !== "settling") r.fail("settling", `can follow an anomaly only while settling, the phase is "${phase}"`);
+  if (calibrated && purpose === null && parts.attribution.features > 0 && parts.attribution.baselineCount !== newestId + 1) {
+    r.fail("attribution", `must hold ${newestId + 1} baselines (one per reference), got ${parts.attribution.baselineCount}`);
+  }
+    if (parts.settling.afterAnomaly && phase !== "settling") r.fail("settling", `can follow an anomaly only while settling, the phase is "${phase}"`);
   return { settings, ledger, parts };
 }
 
@@ -115,4 +127,10 @@ function readLevel(r: SnapshotReader): ScoreLevel {
   const spread = r.number("spread");
   if (!(spread > 0)) r.fail("spread", `must be > 0, got ${spread}`);
   return { mean, spread };
+}
+
+function readOpenCause(r: SnapshotReader): Cause | null {
+  const cause = r.stringOrNull("openCause");
+  if (cause !== null && cause !== "anomaly" && cause !== "degradation") r.fail("openCause", `must be "anomaly", "degradation" or null, got ${JSON.stringify(cause)}`);
+  return cause as Cause | null;
 }

@@ -11,6 +11,8 @@ import { CalibrationSpan } from "./calibration-span.js";
 import { RetrainGate } from "./retrain-gate.js";
 import { Settling } from "./settling.js";
 import type { SettlingCheck } from "./settling-window.js";
+import { FeatureAttribution, signatureHalfLife } from "./feature-attribution.js";
+import type { FeatureSignature, SignatureLimits } from "./feature-signature.js";
 
 /** Samples a settling window needs before its own level judges anomalies. */
 const SETTLING_WARM_UP = 20;
@@ -25,6 +27,8 @@ export interface SampleScores {
   commissioning: number;
   newest: number;
   active: number;
+  /** Feature mode: the active reference's signed residual per feature (input minus reconstruction), for attribution. */
+  residual?: Float64Array;
 }
 
 /** The parts a core is made of; {@link DecisionCore} owns them, its snapshot holds theirs. */
@@ -35,6 +39,7 @@ export interface CoreParts {
   calibration: CalibrationSpan;
   gate: RetrainGate;
   settling: Settling;
+  attribution: FeatureAttribution;
 }
 
 /** The core's own counters and lineage bookkeeping (plain data). */
@@ -54,6 +59,16 @@ export interface CoreLedger {
   alarms: number;
   /** Index of the last anomaly alarm, or −1. */
   anomalyAlarmAt: number;
+  /** Index of the alarm now latched (or of its last reminder), or −1. */
+  latchedAt: number;
+  /** Unattended: consecutive normal samples while an anomaly is latched. */
+  latchNormalRun: number;
+  /** The cause of an acknowledged anomaly or degradation alarm whose event is still open, or null. */
+  openCause: Cause | null;
+  /** ln of the active reference's score at that alarm (a new alarm needs ln(realarmFactor) more). */
+  openLevel: number;
+  /** ln of the active reference's score at the latest alarm. */
+  alarmLevel: number;
 }
 
 /**
@@ -105,6 +120,11 @@ export class DecisionCore {
       switches: 0,
       alarms: 0,
       anomalyAlarmAt: -1,
+      latchedAt: -1,
+      latchNormalRun: 0,
+      openCause: null,
+      openLevel: 0,
+      alarmLevel: 0,
     };
     this.#parts = restored?.parts ?? {
       anomaly: new AnomalyEpisode(),
@@ -113,6 +133,7 @@ export class DecisionCore {
       calibration: new CalibrationSpan(settings.calibration),
       gate: new RetrainGate(settings),
       settling: new Settling(settings.settling),
+      attribution: new FeatureAttribution(signatureHalfLife(settings)),
     };
   }
 
@@ -186,10 +207,12 @@ export class DecisionCore {
       referenceScores: l.newestId === 0 ? [scores.commissioning] : [scores.commissioning, scores.newest],
       activeReference: l.activeId,
     };
-    if (l.phase === "commissioning") return this.#commissioningStep(scores, evidence);
     if (l.phase === "retraining") return this.#step("hold", "concept-drift", evidence);
+    p.attribution.observe(scores.residual, l.activeId);
+    if (l.phase === "commissioning") return this.#commissioningStep(scores, evidence);
     const uLive = Math.log(scores.live + s.scoreFloor);
     const uActive = Math.log(scores.active + s.scoreFloor);
+    this.#uActive = uActive;
     if (p.calibration.purpose !== null) return this.#calibrationStep(uLive, uActive, evidence, "concept-drift", "hold");
     const zLive = normalised(uLive, l.liveLevel as ScoreLevel, s.scoreClip);
     const zActive = normalised(uActive, l.levels[l.activeId] as ScoreLevel, s.scoreClip);
@@ -199,30 +222,50 @@ export class DecisionCore {
       return this.#settlingStep(zActive, zCommissioning, zNewest, evidence);
     }
 
-    // 1. Anomaly: every sample of an episode is held; `anomalyRun` samples above raise the alarm.
+    // 1. Anomaly: every sample of an episode is held; `anomalyRun` samples above raise the alarm, unless the
+    //    features say the rise is broadband (a change of conditions): then the engine settles instead.
+    const wasAnomalous = p.anomaly.anomalous;
     if (p.anomaly.observe(uLive, s.anomalyRun)) {
+      if (wasAnomalous) p.attribution.extendEpisode();
+      else p.attribution.beginEpisode();
       evidence.anomaly = { threshold: this.anomalyThreshold, run: p.anomaly.run, needed: s.anomalyRun, above: p.anomaly.above };
-      if (l.phase !== "latched" && p.anomaly.run >= s.anomalyRun) return this.#latch("anomaly", evidence);
-      return this.#step("hold", l.phase === "latched" ? (l.latchCause as Cause) : "anomaly", evidence);
+      // A lone sample above the threshold does not count against a latch clearing itself; a run does.
+      if (l.phase === "latched") return this.#latchedStep(evidence, p.anomaly.run < s.anomalyRun);
+      if (p.anomaly.run >= s.anomalyRun) {
+        const signature = this.#episodeSignature(evidence);
+        if (signature?.broadband === true) return this.#settleChange(evidence, "a broadband rise: settling as a change of conditions");
+        // A rise past the anomaly threshold on top of a standing degradation warning is the degradation itself.
+        if (p.degradation.standing) return this.#latch("degradation", evidence);
+        return this.#latch("anomaly", evidence);
+      }
+      return this.#step("hold", "anomaly", evidence);
     }
 
     // 2. Degradation: long decimated trends of the active reference's score and of the reference-minus-live gap.
     p.degradation.observe(zActive, zLive);
     if (l.phase === "latched") {
       Object.assign(evidence, p.degradation.evidence(zActive, zLive));
-      return this.#step("hold", l.latchCause as Cause, evidence);
+      return this.#latchedStep(evidence, true);
     }
-    const strength = p.degradation.strength();
+    let strength = p.degradation.strength();
     Object.assign(evidence, p.degradation.evidence(zActive, zLive));
+    if (strength >= 1 && !p.degradation.episodeAlarmed && this.#presentBroadband(evidence)) {
+      // A broadband rise is conditions changing (a ramp of the noise floor, a warmer season), not wear: settle on it.
+      p.attribution.beginEpisode();
+      return this.#settleChange(evidence, "a broadband trend: settling as a change of conditions");
+    }
     if (strength === 2 && !p.degradation.episodeAlarmed) return this.#latch("degradation", evidence);
     p.degradation.carry(strength, l.index);
+    if (l.openCause === "degradation" && !p.degradation.standing) l.openCause = null;
 
     // 3. Concept drift: the change test on the active reference's normalised score.
     const reading = p.change.observe(zActive);
     evidence.change = p.change.evidence(reading);
     if (reading.status === "change") {
       p.change.restart();
+      p.attribution.beginEpisode();
       if (p.degradation.episodeAlarmed) return this.#step("hold", "degradation", evidence);
+      if (strength >= 1 && this.#presentBroadband(evidence)) strength = 0;
       // A change point on top of a rising trend: the level crept up before it jumped. Reported as
       // degradation; it refuses retrains only while the warning stands (a full trend alarm refuses them
       // until the next commissioning).
@@ -235,6 +278,68 @@ export class DecisionCore {
     return this.#step("learn", "normal", evidence, LEARN_ONLY);
   }
 
+  /** The sample's ln active score (set by step before the rules run). */
+  #uActive = 0;
+
+  #limits(): SignatureLimits {
+    const s = this.settings;
+    return { minSpread: s.broadbandSpread, maxLocality: s.broadbandLocality, minStrength: s.signatureStrength };
+  }
+
+  /** The present episode's feature signature (also put in the evidence), or null without residuals. */
+  #episodeSignature(evidence: Evidence): FeatureSignature | null {
+    const signature = this.#parts.attribution.episode(this.#ledger.activeId, this.#limits());
+    if (signature !== null) evidence.features = signature;
+    return signature;
+  }
+
+  /** True when the present (exponentially weighted) deviation is broadband; its signature goes in the evidence. */
+  #presentBroadband(evidence: Evidence): boolean {
+    const signature = this.#parts.attribution.present(this.#ledger.activeId, this.#limits());
+    if (signature !== null) evidence.features = signature;
+    return signature?.broadband === true;
+  }
+
+  /** A change of conditions: hold and settle on it (nothing learnt until the stream is stationary). */
+  #settleChange(evidence: Evidence, outcome: string): Step {
+    const l = this.#ledger;
+    evidence.outcome = outcome;
+    this.#parts.anomaly.clear();
+    l.phase = "settling";
+    this.#parts.settling.begin(l.index);
+    return this.#step("hold", "concept-drift", evidence);
+  }
+
+  /**
+   * A latched sample: held under the latch's cause. Attended, an alarm nobody
+   * acknowledged is raised again every `reminder` samples. Unattended, an
+   * anomaly's latch clears itself after `latchClear` normal samples (and a
+   * concept-drift latch accepts the level after as many samples).
+   */
+  #latchedStep(evidence: Evidence, normal: boolean): Step {
+    const l = this.#ledger;
+    const s = this.settings;
+    const cause = l.latchCause as Cause;
+    if (s.attendance === "attended") {
+      if (s.reminder > 0 && l.index - l.latchedAt >= s.reminder) {
+        l.latchedAt = l.index;
+        l.alarms += 1;
+        evidence.reminder = { alarmCause: cause, every: s.reminder };
+        return this.#step("alarm", cause, evidence);
+      }
+      return this.#step("hold", cause, evidence);
+    }
+    if (cause === "anomaly" || cause === "concept-drift") {
+      l.latchNormalRun = normal || cause === "concept-drift" ? l.latchNormalRun + 1 : 0;
+      if (l.latchNormalRun >= s.latchClear) {
+        evidence.outcome = cause === "anomaly" ? `the latch cleared itself: scores normal for ${s.latchClear} samples` : `the new level is accepted after ${s.latchClear} samples`;
+        this.#clearLatch();
+        return this.#step("hold", cause, evidence);
+      }
+    }
+    return this.#step("hold", cause, evidence);
+  }
+
   #commissioningStep(scores: SampleScores, evidence: Evidence): Step {
     const l = this.#ledger;
     if (l.commissioningLeft > 0) {
@@ -242,6 +347,7 @@ export class DecisionCore {
       evidence.commissioning = { progress: (l.commissioningLength - l.commissioningLeft) / l.commissioningLength };
       if (l.commissioningLeft > 0) return this.#step("learn", "commissioning", evidence, LEARN_ONLY);
       this.#parts.calibration.begin("commissioning");
+      this.#parts.attribution.beginCalibration();
       return this.#step("learn", "commissioning", evidence, LEARN_THEN_FREEZE);
     }
     const floor = this.settings.scoreFloor;
@@ -253,6 +359,7 @@ export class DecisionCore {
     const l = this.#ledger;
     const s = this.settings;
     p.calibration.push(uLive, uActive);
+    p.attribution.calibrate();
     const calibration: Record<string, unknown> = { progress: p.calibration.progress };
     evidence.calibration = calibration;
     const step = this.#step(action, cause, evidence, action === "learn" ? LEARN_ONLY : NO_EFFECTS);
@@ -265,6 +372,7 @@ export class DecisionCore {
     if (fallback !== null) calibration.changeThresholdFallback = fallback;
     l.phase = "watching";
     p.degradation.newLevel();
+    p.attribution.finishCalibration(l.activeId);
     return step;
   }
 
@@ -272,7 +380,15 @@ export class DecisionCore {
     const s = this.settings;
     const p = this.#parts;
     const l = this.#ledger;
-    if (p.gate.waiting) return this.#step("hold", p.settling.afterAnomaly ? "anomaly" : "concept-drift", evidence);
+    p.attribution.extendEpisode();
+    if (p.gate.waiting) {
+      // A question nobody answered while the level grew by the re-alarm factor becomes an alarm.
+      if (this.#uActive >= l.alarmLevel + Math.log(s.realarmFactor)) {
+        evidence.outcome = "the level grew while the question waited";
+        return this.#latch(p.settling.afterAnomaly || p.degradation.standing ? "anomaly" : "concept-drift", evidence);
+      }
+      return this.#step("hold", p.settling.afterAnomaly ? "anomaly" : "concept-drift", evidence);
+    }
     if (p.gate.confirmed) {
       evidence.confirmed = true;
       return this.#beginRetrain(evidence);
@@ -296,7 +412,7 @@ export class DecisionCore {
     const settling: Record<string, unknown> = { samples: window.count, needed: s.settling, elapsed, progress: Math.min(1, window.count / s.settling) };
     evidence.settling = settling;
     if (!window.full) {
-      if (elapsed >= s.settlingLimit) return this.#latch("concept-drift", evidence, true, keep);
+      if (elapsed >= s.settlingLimit) return this.#unsettled("concept-drift", evidence, keep);
       return this.#step("hold", "concept-drift", evidence, keep);
     }
     const check = window.check();
@@ -305,12 +421,29 @@ export class DecisionCore {
     if (!stationary) {
       // A step inside the window leaves it after `settling` samples; a window still rising after that is a ramp.
       settling.risingRun = p.settling.countRising(check.trendZ >= s.settlingTrendZ && check.shift > 0);
-      if (p.settling.risingRun >= s.settling) return this.#latch("degradation", evidence, true, keep);
-      if (elapsed >= s.settlingLimit) return this.#latch(check.trendZ > 0 ? "degradation" : "concept-drift", evidence, true, keep);
+      if (p.settling.risingRun >= s.settling) return this.#unsettled("degradation", evidence, keep);
+      if (elapsed >= s.settlingLimit) return this.#unsettled(check.trendZ > 0 ? "degradation" : "concept-drift", evidence, keep);
       return this.#step("hold", "concept-drift", evidence, keep);
     }
     const settled = this.#settled(check, evidence);
     return { decision: settled.decision, effects: [...keep, ...settled.effects] };
+  }
+
+  /**
+   * Settling did not reach a stationary level in time (or kept rising). A
+   * broadband change is conditions still moving: settle again, up to four
+   * settling limits from the change; otherwise (or after that) alarm.
+   */
+  #unsettled(cause: Cause, evidence: Evidence, keep: readonly Effect[]): Step {
+    const l = this.#ledger;
+    const p = this.#parts;
+    const signature = this.#episodeSignature(evidence);
+    if (signature?.broadband === true && p.attribution.episodeSamples < 4 * this.settings.settlingLimit && !p.settling.afterAnomaly) {
+      p.settling.begin(l.index);
+      evidence.outcome = "a broadband change still moving: settling on";
+      return this.#step("hold", "concept-drift", evidence, keep);
+    }
+    return this.#latch(cause, evidence, true, keep);
   }
 
   #settled(check: SettlingCheck, evidence: Evidence): Step {
@@ -320,6 +453,7 @@ export class DecisionCore {
     if (Math.abs(check.activeLevel) < s.confirmShift) {
       // The active reference still scores the stream as normal: the change was not confirmed.
       evidence.outcome = p.settling.afterAnomaly ? "returned to normal" : "unconfirmed";
+      l.openCause = null;
       this.#toWatching();
       return this.#step("learn", "normal", evidence, LEARN_ONLY);
     }
@@ -350,17 +484,33 @@ export class DecisionCore {
     const persisting = p.settling.afterAnomaly && s.persistentAnomaly === "confirm" && check.activeLevel >= exitLevel;
     if (persisting) evidence.persistentAnomaly = { alarmAt: l.anomalyAlarmAt, settledLevel: check.activeLevel, exitLevel };
     if (s.retrain === "never") return this.#latch("concept-drift", evidence);
+    const signature = this.#episodeSignature(evidence);
+    const faultSignature = signature !== null && signature.determined && !signature.broadband;
+    if (s.attendance === "unattended") {
+      // Nobody to ask: a change concentrated in a few features (a fault's lines) is reported, any other retrains.
+      if (faultSignature || persisting) return this.#latch("anomaly", evidence);
+      return this.#beginRetrain(evidence);
+    }
     if (persisting && p.gate.silenced(l.index)) {
       evidence.outcome = "held: the operator rejected this level as the new normal";
       return this.#step("hold", "anomaly", evidence);
     }
     if (persisting) {
       p.gate.ask();
+      l.alarmLevel = this.#uActive;
       evidence.outcome = "confirmation needed: the level of an acknowledged anomaly persisted through settling";
+      return this.#step("await-confirmation", "anomaly", evidence);
+    }
+    if (faultSignature && !p.settling.afterAnomaly) {
+      // A settled change concentrated in a few features may be a fault that holds still: one question, no alarm.
+      p.gate.ask();
+      l.alarmLevel = this.#uActive;
+      evidence.outcome = "confirmation needed: the settled change is concentrated in a few features";
       return this.#step("await-confirmation", "anomaly", evidence);
     }
     if (s.retrain === "confirm") {
       p.gate.ask();
+      l.alarmLevel = this.#uActive;
       return this.#step("await-confirmation", "concept-drift", evidence);
     }
     return this.#beginRetrain(evidence);
@@ -441,7 +591,9 @@ export class DecisionCore {
     const p = this.#parts;
     if (l.levels[id] === undefined) throw new StateError(this.component, `reference ${id} has no calibrated level`);
     l.activeId = id;
+    l.openCause = null;
     p.change.resetBaseline();
+    p.attribution.restartPresent();
     l.switches += 1;
     p.gate.drop();
     p.gate.coolDownFrom(l.index);
@@ -461,13 +613,31 @@ export class DecisionCore {
     const l = this.#ledger;
     const p = this.#parts;
     if (cause === "degradation") p.degradation.alarm(lasting);
+    if (this.#sameEvent(cause)) {
+      // The operator has seen this event and it has not worsened by the re-alarm factor: no new page.
+      evidence.sameEvent = { cause: l.openCause, level: Math.exp(l.openLevel), realarmAt: Math.exp(l.openLevel) * this.settings.realarmFactor };
+      const held = l.openCause as Cause;
+      p.gate.drop();
+      if (l.phase === "settling") this.#toWatching();
+      return this.#step("hold", held, evidence, effects);
+    }
     l.phase = "latched";
     l.latchCause = cause;
     l.alarms += 1;
+    l.latchedAt = l.index;
+    l.latchNormalRun = 0;
+    l.alarmLevel = this.#uActive;
     if (cause === "anomaly") l.anomalyAlarmAt = l.index;
     p.gate.drop();
     p.settling.end();
     return this.#step("alarm", cause, evidence, effects);
+  }
+
+  /** An alarm of `cause` would repeat an acknowledged anomaly or degradation event that has not worsened. */
+  #sameEvent(cause: Cause): boolean {
+    const l = this.#ledger;
+    if (l.openCause === null || (cause !== "anomaly" && cause !== "degradation")) return false;
+    return this.#uActive < l.openLevel + Math.log(this.settings.realarmFactor);
   }
 
   #step(action: Action, cause: Cause, evidence: Evidence, effects: readonly Effect[] = NO_EFFECTS): Step {
@@ -484,6 +654,7 @@ export class DecisionCore {
     if (l.phase !== "retraining") this.#refuse("modelReplaced", 'after a "retrain" decision');
     l.newestId += 1;
     l.activeId = l.newestId;
+    l.openCause = null;
     l.retrains += 1;
     this.#parts.gate.coolDownFrom(l.index);
     l.phase = "watching";
@@ -499,6 +670,7 @@ export class DecisionCore {
 
   #beginRecalibration(): void {
     this.#parts.calibration.begin("recalibration");
+    this.#parts.attribution.beginCalibration();
     this.#parts.anomaly.clear();
   }
 
@@ -531,13 +703,24 @@ export class DecisionCore {
     this.#beginRecalibration();
   }
 
-  /** Operator: clear the alarm latch. */
+  /** Operator: clear the alarm latch. An anomaly or degradation stays open as one event until it clears or worsens by `realarmFactor`. */
   acknowledge(): void {
     const l = this.#ledger;
-    const p = this.#parts;
     if (l.phase !== "latched") this.#refuse("acknowledge", "while an alarm is latched");
+    if (l.latchCause === "anomaly" || l.latchCause === "degradation") {
+      l.openCause = l.latchCause;
+      l.openLevel = l.alarmLevel;
+    }
+    this.#clearLatch();
+  }
+
+  /** Clears the latch (the operator acknowledged, or, unattended, it cleared itself). */
+  #clearLatch(): void {
+    const l = this.#ledger;
+    const p = this.#parts;
     const cause = l.latchCause;
     l.latchCause = null;
+    l.latchNormalRun = 0;
     this.#toWatching();
     p.anomaly.clear();
     if (cause === "anomaly") {
@@ -563,6 +746,8 @@ export class DecisionCore {
     if (l.phase === "commissioning") this.#refuse("startCommissioning", "outside commissioning");
     l.phase = "commissioning";
     l.latchCause = null;
+    l.openCause = null;
+    l.latchedAt = -1;
     l.commissioningLength = n;
     l.commissioningLeft = n;
     l.levels = [];
@@ -573,8 +758,10 @@ export class DecisionCore {
     p.anomaly.forget();
     p.change.forget();
     p.degradation.recommission();
+    p.attribution.forget();
     p.gate.drop();
     p.gate.unsilence();
     p.settling.end();
   }
 }
+

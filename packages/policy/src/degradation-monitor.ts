@@ -31,9 +31,9 @@ export interface DegradationMonitorState {
  * score z, and of the gap z_reference − z_live (the rise the live model has
  * absorbed), go through long decimated Mann-Kendall windows with Theil-Sen
  * slopes ({@link BlockTrend}). A significant rise is a warning (learning
- * stops, retraining is refused) or an alarm. A warning that neither grows nor
- * clears over a whole window expires; evidence clears when both trends fall
- * below the clearing z and the level is back near normal. An alarm's refusal
+ * stops, retraining is refused) or an alarm. Evidence stands at least one
+ * whole window (nothing learnt meanwhile) and clears only when both trends
+ * have fallen below the clearing z and the level is back near normal. An alarm's refusal
  * of retrains lasts until the next commissioning (wear does not heal).
  * @example
  * const m = new DegradationMonitor({ trendBlock: 10, trendWindow: 50, trendZ: 3.09, trendWarnZ: 2.33, trendClearZ: 1.64, trendMinRise: 0.5, trendMinBlocks: 20, confirmShift: 1 });
@@ -109,11 +109,8 @@ export class DegradationMonitor {
   carry(strength: DegradationStrength, index: number): void {
     if (strength >= 1 && !this.#standing) this.#warningSince = index;
     const span = this.#s.trendWindow * this.#s.trendBlock;
-    if (strength === 1 && this.#standing && !this.#episodeAlarmed && index - this.#warningSince > span) {
-      this.#standing = false;
-      this.#warningSince = index;
-    } else if (strength >= 1) this.#standing = true;
-    else if (this.#standing && this.#cleared()) {
+    if (strength >= 1) this.#standing = true;
+    else if (this.#standing && index - this.#warningSince >= span && this.#cleared()) {
       // Learning may resume; an alarm raised by this evidence keeps refusing retrains through `alarmed`.
       this.#standing = false;
       this.#episodeAlarmed = false;

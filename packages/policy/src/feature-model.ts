@@ -64,10 +64,12 @@ export class FeatureModel {
   readonly #kept: Float64Array; // settling × inputs, ring positions as in the core's settling window
   #candidates = 0;
   #nearest = -1; // the member nearest to the sample being decided, or −1
+  readonly #residual: Float64Array; // the active reference's residual of the sample being decided
 
   constructor(settings: FeatureSettings) {
     this.settings = settings;
     this.#pool = new AutoencoderPool({ inputs: settings.inputs, hidden: settings.hidden, maxMembers: settings.members, ridge: settings.ridge, forgetting: settings.forgetting, seed: `${settings.seed}/pool` });
+    this.#residual = new Float64Array(settings.inputs);
     this.#kept = new Float64Array(checkedSize("DecisionEngine", "settling × inputs", [settings.settling, settings.inputs]));
   }
 
@@ -115,7 +117,9 @@ export class FeatureModel {
     const commissioning = scoreOrLargest(lineage[0] as FrozenModel, x);
     const newest = newestId === 0 ? commissioning : scoreOrLargest(lineage[newestId] as FrozenModel, x);
     const active = activeId === 0 ? commissioning : activeId === newestId ? newest : scoreOrLargest(lineage[activeId] as FrozenModel, x);
-    return { live, commissioning, newest, active };
+    // Each reference keeps its own last residual, so the active one's is still that of x (none when its score was refused).
+    const residual = active === Number.MAX_VALUE ? undefined : (lineage[activeId] as FrozenModel).residual(this.#residual);
+    return residual === undefined ? { live, commissioning, newest, active } : { live, commissioning, newest, active, residual };
   }
 
   /** Carries out one effect of the core's step on sample `x`; returns what the decision depends on, or null. */

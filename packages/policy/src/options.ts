@@ -15,6 +15,9 @@ export type PersistentAnomalyMode = "confirm" | "as-drift";
 /** Which change test watches the active reference's normalised score. */
 export type ChangeTestChoice = "cusum" | "page-hinkley" | "martingale";
 
+/** Whether someone answers the engine's alarms and questions. */
+export type Attendance = "attended" | "unattended";
+
 const MAX_SAMPLES = 2 ** 31 - 1;
 
 /**
@@ -46,7 +49,7 @@ export const CORE_OPTIONS = optionTable("DecisionEngine", {
   settlingOutlier: { kind: "number", default: 4, min: 0, minExclusive: true, unit: "σ of the window", doc: "While settling, a sample whose normalised score lies more than this above the window's level is an anomaly (held, left out of a retrain)." },
   confirmShift: { kind: "number", default: 1, min: 0, minExclusive: true, unit: "σ", doc: "Smallest settled level shift of the active reference that confirms a change; below it the alarm was a false one." },
   knownModeLevel: { kind: "number", default: 1, min: 0, minExclusive: true, unit: "σ", doc: "A reference whose mean settled score is within this of its own normal level scores the new data as normal (a known mode)." },
-  trendBlock: { kind: "span", default: "1m", atLeast: 1, min: 1, max: 1_000_000, doc: "Span averaged into one point of the long trend windows (decimation)." },
+  trendBlock: { kind: "span", default: "1m", atLeast: 60, min: 1, max: 1_000_000, doc: "Span averaged into one point of the long trend windows (decimation)." },
   trendWindow: { kind: "integer", default: 240, min: 10, max: 100_000, unit: "blocks", doc: "Points (blocks) in the long trend windows (4 h at 1 Hz with blocks of 1 min)." },
   trendZ: { kind: "number", default: 3.09, min: 0, minExclusive: true, unit: "z", doc: "One-sided Mann-Kendall z that raises a degradation alarm (p 0.001)." },
   trendWarnZ: { kind: "number", default: 2.33, min: 0, minExclusive: true, unit: "z", doc: "One-sided Mann-Kendall z at which learning stops and retraining is refused (degradation warning, p 0.01); at most trendZ." },
@@ -56,6 +59,13 @@ export const CORE_OPTIONS = optionTable("DecisionEngine", {
   limit: { kind: "number", default: 0, min: 0, unit: "score units", doc: "A score level of the active reference whose time to be reached is estimated from the degradation trend window (limitEvidence: expected samples and a 90 % interval, or why not); 0: no limit. The decision core does not read it yet." },
   retrain: { kind: "choice", default: "auto", choices: ["auto", "confirm", "never"], doc: "What a confirmed drift that no known mode explains leads to: retrain at once, ask an operator, or never (a concept-drift alarm instead)." },
   persistentAnomaly: { kind: "choice", default: "confirm", choices: ["confirm", "as-drift"], doc: "After an acknowledged anomaly alarm whose level persists through settling: confirm asks the operator even under retrain auto; as-drift retrains on it like on any drift (it would learn an hour-long clog acknowledged while it lasts as normal)." },
+  attendance: { kind: "choice", default: "attended", choices: ["attended", "unattended"], doc: "attended: someone answers alarms (acknowledge) and questions; unattended: nobody does, so an alarm is reported once, an anomaly's latch clears itself after latchClear of normal scores, a concept-drift latch accepts the level after latchClear, a degradation latch holds until the next commissioning, and no question is asked (a settled change without a fault's signature retrains by itself, one with it raises an anomaly alarm). Refused with retrain confirm." },
+  latchClear: { kind: "span", default: "15m", atLeast: 30, min: 1, max: MAX_SAMPLES, doc: "Unattended only: span of normal scores after which an anomaly's latch clears itself (and after which a concept-drift latch accepts the new level)." },
+  reminder: { kind: "span", default: "4h", atLeast: 24, min: 0, max: MAX_SAMPLES, doc: "Attended only: span after which an alarm nobody acknowledged is raised again as a reminder (evidence.reminder counts them); 0: never." },
+  realarmFactor: { kind: "number", default: 10, min: 1, minExclusive: true, unit: "ratio", doc: "After an anomaly or degradation alarm was acknowledged, a new alarm of either cause is raised only when the active reference's score is this many times the score at that alarm; until then the event is the same one (held, not paged)." },
+  broadbandSpread: { kind: "number", default: 0.3, min: 0, max: 1, minExclusive: true, unit: "ratio", doc: "Feature signature: smallest participation ratio of a deviation's energy over the features for it to count as broadband (a change of conditions, not a fault's lines)." },
+  broadbandLocality: { kind: "number", default: 0.5, min: 0, max: 1, minExclusive: true, unit: "share", doc: "Feature signature: largest share of a deviation's energy in a run of a quarter of the features (features ordered, as spectrum bands by frequency) for it to count as broadband." },
+  signatureStrength: { kind: "number", default: 4, min: 0, minExclusive: true, unit: "ratio", doc: "Feature signature: smallest excess energy of a deviation, as a multiple of what noise alone gives, for its shape to be judged at all." },
   retrainBudget: { kind: "integer", default: 3, min: 0, max: 1_000_000, unit: "retrains", doc: "Retrain attempts (failed candidates included) allowed per horizon." },
   retrainHorizon: { kind: "span", default: "1d", atLeast: 144, min: 1, max: MAX_SAMPLES, doc: "The horizon of that budget." },
   coolDown: { kind: "span", default: "30m", atLeast: 10, min: 0, max: MAX_SAMPLES, doc: "Span after a retrain or a switch in which no further retrain may start." },
@@ -77,7 +87,7 @@ export const FEATURE_OPTIONS = optionTable("DecisionEngine", {
 });
 
 /** The validated, complete option set of the core (plain data; it travels in snapshots); spans in samples. */
-export type CoreSettings = ResolvedOptions<typeof CORE_OPTIONS.rows> & { changeTest: ChangeTestChoice; retrain: RetrainMode; persistentAnomaly: PersistentAnomalyMode; nonFinite: "refuse" | "skip" };
+export type CoreSettings = ResolvedOptions<typeof CORE_OPTIONS.rows> & { changeTest: ChangeTestChoice; retrain: RetrainMode; persistentAnomaly: PersistentAnomalyMode; attendance: Attendance; nonFinite: "refuse" | "skip" };
 
 /** The options the core accepts: each as in {@link CORE_OPTIONS}; spans as a count of samples or a duration such as "15m". */
 export type DecisionCoreOptions = { [K in keyof CoreSettings]?: CoreSettings[K] | (K extends SpanName ? string : never) };
@@ -112,6 +122,7 @@ export function resolveCoreSettings(component: string, options: Readonly<Record<
   if (s.settlingLimit < s.settling) throw new OptionError(component, "settlingLimit", s.settlingLimit, `an integer >= settling = ${s.settling}`);
   if (s.trendWarnZ > s.trendZ) throw new OptionError(component, "trendWarnZ", s.trendWarnZ, `a number in (0, trendZ = ${s.trendZ}]`);
   if (s.trendClearZ > s.trendWarnZ) throw new OptionError(component, "trendClearZ", s.trendClearZ, `a number in [0, trendWarnZ = ${s.trendWarnZ}]`);
+  if (s.attendance === "unattended" && s.retrain === "confirm") throw new OptionError(component, "retrain", s.retrain, 'auto or never with attendance "unattended" (nobody answers a question)');
   if (s.trendMinBlocks > s.trendWindow) throw new OptionError(component, "trendMinBlocks", s.trendMinBlocks, `an integer in [3, trendWindow = ${s.trendWindow}]`);
   return s;
 }

@@ -54,6 +54,11 @@ export class FrozenModel {
     return this.#model.score(x);
   }
 
+  /** The signed residual of the input scored last, as {@link OselmAutoencoder.residual}. */
+  residual(out: Float64Array): Float64Array {
+    return this.#model.residual(out);
+  }
+
   /** Reconstruction of x in input units, as {@link OselmAutoencoder.reconstruct}. */
   reconstruct(x: ArrayLike<number>, out?: Float64Array): Float64Array {
     return this.#model.reconstruct(x, out);

@@ -517,6 +517,19 @@ export class OselmAutoencoder {
   }
 
   /**
+   * The signed residual z − ẑ (scaled units: input minus reconstruction) of
+   * the input scored last, written into `out` (length n); the per-feature
+   * parts of {@link OselmAutoencoder.score}, for attributing a score's rise
+   * to features. Needs a `score(x)` call directly before it (StateError otherwise).
+   */
+  residual(out: Float64Array): Float64Array {
+    if (!(out instanceof Float64Array) || out.length !== this.#n) throw new DimensionError(COMPONENT, "out", this.#n, out instanceof Float64Array ? out.length : 0);
+    if (!this.#scored) throw new StateError(COMPONENT, "residual needs a score(x) call directly before it");
+    out.set(this.#e);
+    return out;
+  }
+
+  /**
    * The reconstruction of x in input units: x̂ = scale ⊙ βᵀh + offset. Writes
    * into `out` (length n) without allocating when it is given.
    */
