@@ -22,13 +22,11 @@ const ASSERTED: readonly string[] = [
       ["fault-alarmed-within-5", "fault-never-learnt", "fault-never-retrained", "fault-one-alarm"].map((id) => `${id} | ${rate} | ${policy}`),
     ),
   ),
-  "abrupt-shift-pages | 1 s | engine, unattended",
-  "abrupt-shift-no-degradation-alarm | 1 s | engine, operator",
-  "abrupt-shift-no-degradation-alarm | 1 s | engine, unattended",
-  ...["absorbed-once", "pages", "no-degradation-alarm", "beats-frozen-only"].flatMap((t) => ["operator", "unattended"].map((who) => `gradual-shift-${t} | 1 s | engine, ${who}`)),
-  "gain-change-pages | 1 s | engine, unattended",
-  "gain-change-no-degradation-alarm | 1 s | engine, operator",
-  "gain-change-no-degradation-alarm | 1 s | engine, unattended",
+  "degradation-one-alarm | 1 s | engine, operator",
+  ...["abrupt-shift", "gradual-shift", "gain-change"].flatMap((kind) =>
+    ["absorbed-once", "pages", "no-degradation-alarm", "beats-frozen-only"].flatMap((t) => ["operator", "unattended"].map((who) => `${kind}-${t} | 1 s | engine, ${who}`)),
+  ),
+  ...["fault-delay-vs-cusum", "abrupt-shift-delay-vs-cusum"].flatMap((id) => ["operator", "unattended"].map((who) => `${id} | 1 s | engine, ${who}`)),
   "recurring-modes-known-silent | 1 s | engine, operator",
 ];
 

@@ -16,6 +16,8 @@ import type { FeatureSignature, SignatureLimits } from "./feature-signature.js";
 
 /** Samples a settling window needs before its own level judges anomalies. */
 const SETTLING_WARM_UP = 20;
+/** Anomaly runs an episode too weak for its feature signature to be judged may last before it alarms. */
+const UNDETERMINED_RUNS = 4;
 /** The smallest window spread used in that judgement, in σ. */
 const MIN_WINDOW_SPREAD = 0.05;
 /** The last commissioning sample: learn it, then freeze the live model as the commissioning reference. */
@@ -234,6 +236,8 @@ export class DecisionCore {
       if (p.anomaly.run >= s.anomalyRun) {
         const signature = this.#episodeSignature(evidence);
         if (signature?.broadband === true) return this.#settleChange(evidence, "a broadband rise: settling as a change of conditions");
+        // Too weak yet to tell a change of conditions from a fault's lines: hold up to four runs before alarming.
+        if (signature !== null && !signature.determined && p.anomaly.run < UNDETERMINED_RUNS * s.anomalyRun) return this.#step("hold", "anomaly", evidence);
         // A rise past the anomaly threshold on top of a standing degradation warning is the degradation itself.
         if (p.degradation.standing) return this.#latch("degradation", evidence);
         return this.#latch("anomaly", evidence);

@@ -31,7 +31,7 @@ export interface FeatureAttributionState {
  * a.finishCalibration(0);
  * a.observe(new Float64Array(16).fill(3), 0);
  * a.beginEpisode();
- * a.episode({ minSpread: 0.3, maxLocality: 0.5, minStrength: 4 })?.broadband; // true
+ * a.episode(0, { minSpread: 0.3, maxLocality: 0.5, minStrength: 4 })?.broadband; // true
  */
 export class FeatureAttribution {
   static readonly kind = "leeway.policy.feature-attribution";

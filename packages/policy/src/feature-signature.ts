@@ -51,7 +51,7 @@ export const MIN_SIGNATURE_FEATURES = 8;
  * @example
  * const n = 16;
  * const even = signatureOf(new Float64Array(n).fill(1), new Float64Array(n).fill(0.01), 10, { minSpread: 0.3, maxLocality: 0.5, minStrength: 4 });
- * [even.broadband, even.spread]; // [true, 1]
+ * [even.broadband, even.spread > 0.99]; // [true, true]
  */
 export function signatureOf(shift: Float64Array, variance: Float64Array, samples: number, limits: SignatureLimits): FeatureSignature {
   const n = shift.length;
