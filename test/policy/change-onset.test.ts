@@ -56,7 +56,7 @@ describe("changeOnset", () => {
 });
 
 describe("changeOnset in the demo scenario", () => {
-  it("Harbour Lane at one sample per 10 s, mid-speed engine: at the anomaly alarm after the compressor's installation (hour 34), the hour of normalised reference scores before it places the onset at the installation sample (the guide's example)", () => {
+  it("Harbour Lane at one sample per 10 s, mid-speed engine: at the first decision that stops learning after the compressor's installation (hour 34), the hour of normalised reference scores before it places the onset at the installation sample (the guide's example)", () => {
     const SCALE = 360;
     const options = { inputs: 256, seed: 1, members: 3, hidden: 16, commissioning: 120, calibration: 120, settling: 90, settlingLimit: 360, trendBlock: 6, coolDown: 180, baselineHalfLife: 180, targetArl0: 2000, retrainHorizon: 8640 };
     const sim = new MachineSimulator(harbourLane({ scale: SCALE }));
@@ -69,7 +69,7 @@ describe("changeOnset in the demo scenario", () => {
       const d = engine.observe(s.spectrum);
       u.push(Math.log((d.evidence.referenceScores[0] ?? Number.NaN) + 1e-12));
       simIndex.push(s.index);
-      if (s.index < 34 * SCALE || d.action === "learn" || d.action === "hold") continue;
+      if (s.index < 34 * SCALE || d.action === "learn" || d.cause === "normal") continue;
       // normalise by the engine's calibration span (its samples 120 to 239), as its rules do
       const calibration = u.slice(120, 240);
       const mean = calibration.reduce((a, b) => a + b, 0) / calibration.length;
@@ -77,10 +77,10 @@ describe("changeOnset in the demo scenario", () => {
       const window = u.slice(-SCALE).map((x) => (x - mean) / spread);
       const o = changeOnset(window);
       found = { alarmAt: s.index, onsetAt: o.onset === null ? null : (simIndex[simIndex.length - SCALE + o.onset] as number), runLength: o.runLength };
-      expect(d.action).toBe("alarm");
+      expect(["hold", "alarm"]).toContain(d.action); // the first decision that stops learning (the broadband rise is settled on, not alarmed)
     }
-    console.log(`demo: alarm at sample ${found?.alarmAt}, changeOnset places the onset at ${found?.onsetAt} (installation at ${34 * SCALE})`);
-    expect(found?.alarmAt).toBeGreaterThan(34 * SCALE);
+    console.log(`demo: first reaction at sample ${found?.alarmAt}, changeOnset places the onset at ${found?.onsetAt} (installation at ${34 * SCALE})`);
+    expect(found?.alarmAt).toBeGreaterThanOrEqual(34 * SCALE);
     expect(found?.onsetAt).toBe(34 * SCALE);
   });
 });
