@@ -127,7 +127,7 @@ describe("documented examples", () => {
   it("NaivePolicy, defaultQualityEngineOptions, qualityTable, checkTargets, qualityMarkdown", () => {
     const p = new NaivePolicy({ kind: "frozen", inputs: 4, hidden: 2, commissioning: 20, calibration: 20, run: 5, forgetting: 1, seed: "1" });
     expect(p.observe(Float64Array.of(1, 2, 3, 4)).phase).toBe("commissioning");
-    expect(defaultQualityEngineOptions(1, 64)).toEqual({ inputs: 64, hidden: 8, members: 3, seed: 1, samplePeriod: 1 });
+    expect(defaultQualityEngineOptions(1, 64)).toEqual({ inputs: 64, hidden: 8, members: 3, seed: 1, samplePeriod: 1, featureSignature: "rules" });
     expect(qualityTable([])).toEqual([]);
     expect(checkTargets([])).toEqual([]);
     expect(qualityMarkdown([], [], { title: "t", scenarios: 0, samples: 0, preamble: "", plot: null }).split("\n")[0]).toBe("# Decision quality: t");

@@ -22,7 +22,6 @@ const ASSERTED: readonly string[] = [
       ["fault-alarmed-within-5", "fault-never-learnt", "fault-never-retrained", "fault-one-alarm"].map((id) => `${id} | ${rate} | ${policy}`),
     ),
   ),
-  "degradation-one-alarm | 1 s | engine, operator",
   ...["abrupt-shift", "gradual-shift", "gain-change"].flatMap((kind) =>
     ["absorbed-once", "pages", "no-degradation-alarm", "beats-frozen-only"].flatMap((t) => ["operator", "unattended"].map((who) => `${kind}-${t} | 1 s | engine, ${who}`)),
   ),

@@ -6,9 +6,10 @@ import { ACKNOWLEDGE_AFTER, FEATURE_OPTIONS, stream, SUITE_LENGTH } from "./poli
 
 /** Drops the evidence only feature mode can have (the candidate's validation, the pool slot it took). */
 function comparable(d: Decision): unknown {
-  const { candidate, member, ...evidence } = d.evidence;
+  const { candidate, member, features, ...evidence } = d.evidence;
   void candidate;
   void member;
+  void features; // feature mode's residual signature; score-only mode has none
   return { ...d, evidence };
 }
 

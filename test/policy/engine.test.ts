@@ -110,7 +110,7 @@ describe("DecisionEngine in feature mode (small)", () => {
   const world = (t: number) => ({ shift: t >= 400 ? 0.6 : 0, bump: 0 });
 
   it("commissions, freezes a reference, retrains once after a floor shift and freezes the candidate into the lineage", () => {
-    const engine = new DecisionEngine(SMALL);
+    const engine = new DecisionEngine({ ...SMALL, featureSignature: "rules" });
     const xs = spectra(1000, 1, world);
     const ds: Decision[] = [];
     let ackAt = -1;

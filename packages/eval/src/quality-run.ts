@@ -39,12 +39,12 @@ export interface QualityRunOptions {
 /**
  * The engine in the suite: feature mode with a pool of 3 members of 8 hidden
  * units (the decisions hardly depend on the network's size; the cost does),
- * every other option at its default for the sample period, seed 1.
+ * feature signatures used in the rules, every other option at its default for the sample period, seed 1.
  * @example
- * defaultQualityEngineOptions(1, 64); // { inputs: 64, hidden: 8, members: 3, seed: 1, samplePeriod: 1 }
+ * defaultQualityEngineOptions(1, 64); // { inputs: 64, hidden: 8, members: 3, seed: 1, samplePeriod: 1, featureSignature: "rules" }
  */
 export function defaultQualityEngineOptions(samplePeriod: number, inputs: number): DecisionEngineOptions {
-  return { inputs, hidden: 8, members: 3, seed: 1, samplePeriod };
+  return { inputs, hidden: 8, members: 3, seed: 1, samplePeriod, featureSignature: "rules" };
 }
 
 /** Commissioning and calibration spans of the naive baselines, in samples (the engine's defaults on main). */

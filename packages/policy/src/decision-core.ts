@@ -239,7 +239,7 @@ export class DecisionCore {
         // Too weak yet to tell a change of conditions from a fault's lines: hold up to four runs before alarming.
         if (signature !== null && !signature.determined && p.anomaly.run < UNDETERMINED_RUNS * s.anomalyRun) return this.#step("hold", "anomaly", evidence);
         // A rise past the anomaly threshold on top of a standing degradation warning is the degradation itself.
-        if (p.degradation.standing) return this.#latch("degradation", evidence);
+        if (p.degradation.standing && !p.degradation.episodeAlarmed) return this.#latch("degradation", evidence);
         return this.#latch("anomaly", evidence);
       }
       return this.#step("hold", "anomaly", evidence);
@@ -294,14 +294,14 @@ export class DecisionCore {
   #episodeSignature(evidence: Evidence): FeatureSignature | null {
     const signature = this.#parts.attribution.episode(this.#ledger.activeId, this.#limits());
     if (signature !== null) evidence.features = signature;
-    return signature;
+    return this.settings.featureSignature === "rules" ? signature : null;
   }
 
   /** True when the present (exponentially weighted) deviation is broadband; its signature goes in the evidence. */
   #presentBroadband(evidence: Evidence): boolean {
     const signature = this.#parts.attribution.present(this.#ledger.activeId, this.#limits());
     if (signature !== null) evidence.features = signature;
-    return signature?.broadband === true;
+    return this.settings.featureSignature === "rules" && signature?.broadband === true;
   }
 
   /** A change of conditions: hold and settle on it (nothing learnt until the stream is stationary). */
@@ -637,10 +637,11 @@ export class DecisionCore {
     return this.#step("alarm", cause, evidence, effects);
   }
 
-  /** An alarm of `cause` would repeat an acknowledged anomaly or degradation event that has not worsened. */
+  /** An alarm of `cause` would repeat an acknowledged event of the same cause that has not worsened. */
   #sameEvent(cause: Cause): boolean {
     const l = this.#ledger;
-    if (l.openCause === null || (cause !== "anomaly" && cause !== "degradation")) return false;
+    // Only the same cause: a clog during an acknowledged degradation is a new event and pages.
+    if (l.openCause === null || cause !== l.openCause) return false;
     return this.#uActive < l.openLevel + Math.log(this.settings.realarmFactor);
   }
 
