@@ -50,6 +50,7 @@ export class FeatureAttribution {
   // The sample being decided (not part of the state between samples).
   #raw = new Float64Array(0);
   #deviation = new Float64Array(0);
+  #mean = new Float64Array(0); // scratch for a signature's mean shift
   #hasRaw = false;
   #hasDeviation = false;
 
@@ -93,6 +94,7 @@ export class FeatureAttribution {
     this.#episode = new Float64Array(n);
     this.#raw = new Float64Array(n);
     this.#deviation = new Float64Array(n);
+    this.#mean = new Float64Array(n);
   }
 
   /** Lineage ids with a baseline entry (every calibrated reference once residuals arrive). */
@@ -167,17 +169,21 @@ export class FeatureAttribution {
   episode(activeId: number, limits: SignatureLimits): FeatureSignature | null {
     const base = this.#baselines[activeId] ?? null;
     if (base === null || this.#episodeCount === 0) return null;
-    const mean = this.#episode.map((s) => s / this.#episodeCount);
-    return signatureOf(mean, base.variance, this.#episodeCount, limits);
+    return signatureOf(this.#meanOf(this.#episode, this.#episodeCount), base.variance, this.#episodeCount, limits);
   }
 
   /** The present (exponentially weighted) signature under reference `activeId`, or null. */
   present(activeId: number, limits: SignatureLimits): FeatureSignature | null {
     const base = this.#baselines[activeId] ?? null;
     if (base === null || this.#presentWeight === 0) return null;
-    const mean = this.#present.map((s) => s / this.#presentWeight);
     const samples = (this.#presentWeight * this.#presentWeight) / this.#presentWeightSquares;
-    return signatureOf(mean, base.variance, samples, limits);
+    return signatureOf(this.#meanOf(this.#present, this.#presentWeight), base.variance, samples, limits);
+  }
+
+  /** sums / weight into the scratch buffer (no allocation while a warning is judged every sample). */
+  #meanOf(sums: Float64Array, weight: number): Float64Array {
+    for (let j = 0; j < this.#n; j++) this.#mean[j] = (sums[j] as number) / weight;
+    return this.#mean;
   }
 
   /** A new commissioning: every baseline is forgotten. */
