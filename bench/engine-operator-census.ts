@@ -15,8 +15,8 @@ import { featureEngineSubject, scoreEngineSubject, type EngineStep } from "../te
  */
 
 /** A host call made whatever the engine's phase. */
-type Call = "acknowledge" | "confirm" | "reject" | "commission" | "replaced" | "restore";
-const CALLS: readonly Call[] = ["acknowledge", "confirm", "reject", "commission", "replaced", "restore"];
+type Call = "acknowledge" | "confirm" | "reject" | "commission" | "replaced" | "site-shift" | "restore";
+const CALLS: readonly Call[] = ["acknowledge", "confirm", "reject", "commission", "replaced", "site-shift", "restore"];
 
 /** One probe: the engine's options, its samples, and a call drawn for some of them. */
 interface OperatorCase {
@@ -73,6 +73,9 @@ function call(engine: DecisionEngine, what: Call, commissioning: number): Decisi
       return engine;
     case "replaced":
       engine.modelReplaced();
+      return engine;
+    case "site-shift":
+      engine.reportSiteShift();
       return engine;
     case "restore":
       return DecisionEngine.restore(JSON.parse(JSON.stringify(engine.snapshot())));

@@ -10,10 +10,12 @@ import { CalibrationSpan } from "./calibration-span.js";
 import { RetrainGate } from "./retrain-gate.js";
 import { Settling } from "./settling.js";
 import { FeatureAttribution, signatureHalfLife } from "./feature-attribution.js";
+import { SiteShiftNotice } from "./site-shift-notice.js";
 
 /** Kind and version of a decision core's snapshot. */
 export const CORE_KIND = "leeway.policy.decision-core";
-export const CORE_VERSION = 4;
+/** Version 5 added the site-shift notice; older versions are refused. */
+export const CORE_VERSION = 5;
 
 /** The plain state of a decision core: its settings, its ledger, and one snapshot per part. */
 export interface CoreSnapshotState extends Omit<CoreLedger, "levels" | "liveLevel"> {
@@ -27,6 +29,7 @@ export interface CoreSnapshotState extends Omit<CoreLedger, "levels" | "liveLeve
   gate: Snapshot;
   settling: Snapshot;
   attribution: Snapshot;
+  siteShift: Snapshot;
 }
 
 /** The core's state as plain data (settings in table order, then the ledger, then the parts). */
@@ -45,6 +48,7 @@ export function writeCoreSnapshot(settings: CoreSettings, ledger: CoreLedger, pa
     gate: parts.gate.snapshot(),
     settling: parts.settling.snapshot(),
     attribution: parts.attribution.snapshot(),
+    siteShift: parts.siteShift.snapshot(),
   });
 }
 
@@ -103,6 +107,7 @@ export function readCoreSnapshot(snapshot: unknown, component: string): { settin
     gate: RetrainGate.restore(r.raw("gate"), settings),
     settling: Settling.restore(r.raw("settling"), settings.settling),
     attribution: FeatureAttribution.restore(r.raw("attribution"), signatureHalfLife(settings), newestId + 1),
+    siteShift: SiteShiftNotice.restore(r.raw("siteShift"), index),
   };
   const purpose = parts.calibration.purpose;
   const calibrated = phase !== "commissioning" && purpose !== "commissioning";

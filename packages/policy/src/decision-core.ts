@@ -13,6 +13,7 @@ import { Settling } from "./settling.js";
 import type { SettlingCheck } from "./settling-window.js";
 import { FeatureAttribution, signatureHalfLife } from "./feature-attribution.js";
 import type { FeatureSignature, SignatureLimits } from "./feature-signature.js";
+import { SiteShiftNotice } from "./site-shift-notice.js";
 
 /** Samples a settling window needs before its own level judges anomalies. */
 const SETTLING_WARM_UP = 20;
@@ -42,6 +43,7 @@ export interface CoreParts {
   gate: RetrainGate;
   settling: Settling;
   attribution: FeatureAttribution;
+  siteShift: SiteShiftNotice;
 }
 
 /** The core's own counters and lineage bookkeeping (plain data). */
@@ -136,6 +138,7 @@ export class DecisionCore {
       gate: new RetrainGate(settings),
       settling: new Settling(settings.settling),
       attribution: new FeatureAttribution(signatureHalfLife(settings)),
+      siteShift: new SiteShiftNotice(),
     };
   }
 
@@ -234,6 +237,10 @@ export class DecisionCore {
       // A lone sample above the threshold does not count against a latch clearing itself; a run does.
       if (l.phase === "latched") return this.#latchedStep(evidence, p.anomaly.run < s.anomalyRun);
       if (p.anomaly.run >= s.anomalyRun) {
+        if (p.siteShift.covers(l.index) && !this.#degrading()) {
+          evidence.siteShift = p.siteShift.evidence("settling instead of an anomaly alarm: the site shifted");
+          return this.#settleChange(evidence, "the site shifted: settling as a change of conditions");
+        }
         const signature = this.#episodeSignature(evidence);
         if (signature?.broadband === true) return this.#settleChange(evidence, "a broadband rise: settling as a change of conditions");
         // Too weak yet to tell a change of conditions from a fault's lines: hold up to four runs before alarming.
@@ -385,6 +392,7 @@ export class DecisionCore {
     const p = this.#parts;
     const l = this.#ledger;
     p.attribution.extendEpisode();
+    p.siteShift.follow(p.settling.start, l.index);
     if (p.gate.waiting) {
       // A question nobody answered while the level grew by the re-alarm factor becomes an alarm.
       if (this.#uActive >= l.alarmLevel + Math.log(s.realarmFactor)) {
@@ -442,6 +450,11 @@ export class DecisionCore {
     const l = this.#ledger;
     const p = this.#parts;
     const signature = this.#episodeSignature(evidence);
+    if (p.siteShift.settlesOn(p.settling.start, l.index, 4 * this.settings.settlingLimit)) {
+      p.settling.begin(l.index);
+      evidence.siteShift = p.siteShift.evidence("the site's change still moving: settling on");
+      return this.#step("hold", "concept-drift", evidence, keep);
+    }
     if (signature?.broadband === true && p.attribution.episodeSamples < 4 * this.settings.settlingLimit && !p.settling.afterAnomaly) {
       p.settling.begin(l.index);
       evidence.outcome = "a broadband change still moving: settling on";
@@ -481,6 +494,12 @@ export class DecisionCore {
     if (p.gate.coolingDown(l.index)) {
       evidence.coolDown = { until: p.gate.coolDownUntil };
       return this.#step("hold", "concept-drift", evidence);
+    }
+    if (p.siteShift.covers(p.settling.start) && s.retrain !== "never") {
+      // The site shifted as a whole: its new level is the environment's; retrain without asking.
+      evidence.siteShift = p.siteShift.evidence("retraining without asking: the site shifted");
+      p.siteShift.spend();
+      return this.#beginRetrain(evidence);
     }
     // An acknowledged anomaly whose level persisted through settling is not learnt without the operator:
     // a clog acknowledged while it lasts must not become the new normal on its own.
@@ -599,6 +618,7 @@ export class DecisionCore {
     p.change.resetBaseline();
     p.attribution.restartPresent();
     l.switches += 1;
+    p.siteShift.spend();
     p.gate.drop();
     p.gate.coolDownFrom(l.index);
     this.#toWatching();
@@ -646,6 +666,8 @@ export class DecisionCore {
   }
 
   #step(action: Action, cause: Cause, evidence: Evidence, effects: readonly Effect[] = NO_EFFECTS): Step {
+    const notice = this.#parts.siteShift.announce();
+    if (notice !== null) evidence.siteShift ??= notice;
     return { decision: { index: this.#ledger.index, action, cause, phase: this.#ledger.phase, evidence }, effects };
   }
 
@@ -767,6 +789,32 @@ export class DecisionCore {
     p.gate.drop();
     p.gate.unsilence();
     p.settling.end();
+    p.siteShift.forget();
+  }
+
+  /** A degradation warning or alarm of this machine stands (a site shift never covers it). */
+  #degrading(): boolean {
+    return this.#parts.degradation.standing || this.#parts.degradation.alarmed;
+  }
+
+  /**
+   * Operator: the site shifted as a whole ({@link SiteShiftNotice}): the
+   * change under way, or the next change onset within `settlingLimit`
+   * samples, is concept drift; an anomaly latch of that change clears into
+   * settling. Declined (noted in the next decision's evidence) while a
+   * degradation warning or alarm stands.
+   */
+  reportSiteShift(): void {
+    const l = this.#ledger;
+    const p = this.#parts;
+    const situation = { index: l.index, phase: l.phase, settlingStart: p.settling.start, latchCause: l.latchCause, anomalyAlarmAt: l.anomalyAlarmAt, degrading: this.#degrading() };
+    if (p.siteShift.report(situation, this.settings.settlingLimit) !== "clear-latch") return;
+    l.latchCause = null;
+    l.latchNormalRun = 0;
+    this.#toWatching();
+    p.anomaly.clear();
+    l.phase = "settling";
+    p.settling.begin(l.index, false);
   }
 }
 

@@ -255,6 +255,21 @@ export class DecisionEngine {
   }
 
   /**
+   * Operator-style event: this machine's whole site shifted (for example most
+   * pumps of one room changed at once, as a fleet's site evidence finds). The
+   * change under way, or the next change onset within `settlingLimit`
+   * samples, is taken as concept drift: it settles instead of paging, then
+   * retrains (or switches to a known mode) without asking; an anomaly latch
+   * raised by that change within the window clears into settling. Never
+   * covers a machine whose own degradation warning or alarm stands. Never
+   * throws: what the report did appears as `evidence.siteShift` of the next
+   * decision (and of the decisions it changes).
+   */
+  reportSiteShift(): void {
+    this.#core.reportSiteShift();
+  }
+
+  /**
    * Operator: start a commissioning window of `n` samples (at 1 Hz, seconds),
    * all learnt as normal; then a new commissioning reference is frozen (a new
    * lineage begins) and every threshold is calibrated again. E_STATE during commissioning.

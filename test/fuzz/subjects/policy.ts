@@ -6,7 +6,7 @@ import type { FuzzSubject } from "../probe.js";
 export type EngineStep =
   | { op: "scores"; live: number; references: number[] }
   | { op: "features"; x: number[] }
-  | { op: "acknowledge" | "confirm" | "reject" | "commission" | "replaced" };
+  | { op: "acknowledge" | "confirm" | "reject" | "commission" | "replaced" | "site-shift" };
 
 const SMALL = { commissioning: 30, calibration: 20, settling: 20, settlingLimit: 60, trendBlock: 3, trendWindow: 12, trendMinBlocks: 4, coolDown: 15, targetArl0: 200, calibrationReplicates: 10 } as const;
 
@@ -22,7 +22,7 @@ const levels = (length: number): fc.Arbitrary<number[]> =>
     });
   });
 
-const operatorCall = fc.constantFrom<EngineStep>({ op: "acknowledge" }, { op: "confirm" }, { op: "reject" }, { op: "commission" }, { op: "replaced" });
+const operatorCall = fc.constantFrom<EngineStep>({ op: "acknowledge" }, { op: "confirm" }, { op: "reject" }, { op: "commission" }, { op: "replaced" }, { op: "site-shift" });
 
 const interleave = (samples: EngineStep[], calls: (EngineStep | null)[]): EngineStep[] =>
   samples.flatMap((s, i) => {
@@ -52,6 +52,9 @@ function operate(engine: DecisionEngine, step: EngineStep): unknown {
       return engine.phase;
     case "replaced":
       if (engine.mode === "scores" && engine.phase === "retraining") engine.modelReplaced();
+      return engine.phase;
+    case "site-shift":
+      engine.reportSiteShift(); // never refused: what it did shows in the next decision's evidence
       return engine.phase;
   }
 }
