@@ -21,8 +21,14 @@ export interface SiteEvidenceOptions extends SiteOnsetsOptions {
   owner: string;
 }
 
-/** A decision that starts a change episode: its change test fired, or it raised an alarm. */
-export function isOnset(decision: Pick<Decision, "action" | "evidence">): boolean {
+/**
+ * A decision that starts a change episode: its change test fired, or it
+ * raised an alarm. A degradation (a machine's own slow trend) and the
+ * reminder of an alarm already raised are no onsets: a degrading machine is
+ * never counted into, nor told of, a site-wide shift.
+ */
+export function isOnset(decision: Pick<Decision, "action" | "cause" | "evidence">): boolean {
+  if (decision.cause === "degradation" || decision.evidence.reminder !== undefined) return false;
   const change = decision.evidence.change as { status?: unknown } | undefined;
   return change?.status === "change" || decision.action === "alarm";
 }
@@ -104,7 +110,7 @@ export class SiteEvidence {
         const stream = f.get("s") as string;
         const site = f.get("g") ?? "";
         const time = f.has("t") ? Number(f.get("t")) : decision.index;
-        for (const target of this.#onsets.observe(stream, site, time, isOnset(decision))) {
+        for (const target of this.#onsets.observe(stream, site, time, isOnset(decision), decision.cause === "degradation")) {
           feeder.operator(target, site, "site-shift");
           told.push(`${site}/${target}`);
         }

@@ -12,6 +12,8 @@ export interface SiteOnsetsOptions {
 
 interface SiteState {
   streams: Set<string>;
+  /** Streams whose latest decision had cause "degradation". */
+  degrading: Set<string>;
   /** Stream → time of its latest change onset. */
   onsets: Map<string, number>;
   /** Time the site-wide shift now standing was recognised, or null. */
@@ -24,15 +26,21 @@ interface SiteState {
  * Where the change onsets of all streams of a site meet. When at least
  * `fraction` of a site's streams (and at least `minStreams`) have a change
  * onset within `window`, the shift is the site's (an environment change:
- * concept drift) and each of those streams is to be told; a stream whose
- * onset follows within `window` of that moment is told as well. An onset
- * confined to one machine tells nobody: it stays a fault candidate.
+ * concept drift) and every stream of the site is to be told once: those
+ * that shifted (their engines absorb the change under way) and the others,
+ * ahead of their own onset (their engines take their next change within
+ * their window as the site's, instead of paging). A stream whose latest
+ * decision was a degradation is not told: a degrading machine stays a
+ * fault. A stream first seen after that moment is told at its onset within
+ * `window`. An onset confined to one machine tells nobody: it stays a fault
+ * candidate.
  * @example
  * const sites = new SiteOnsets({ fraction: 0.5, window: 100, minStreams: 2 });
- * for (const s of ["p1", "p2", "p3"]) sites.observe(s, "harbour-lane", 0, false);
+ * for (const s of ["p1", "p2", "p3", "p4"]) sites.observe(s, "harbour-lane", 0, false);
+ * sites.observe("p4", "harbour-lane", 10, false, true); // [] (p4 is degrading)
  * sites.observe("p1", "harbour-lane", 500, true); // []
- * sites.observe("p2", "harbour-lane", 530, true); // ["p1", "p2"]
- * sites.observe("p3", "harbour-lane", 560, true); // ["p3"]
+ * sites.observe("p2", "harbour-lane", 530, true); // ["p1", "p2", "p3"]
+ * sites.observe("p3", "harbour-lane", 560, true); // [] (told already)
  */
 export class SiteOnsets {
   readonly fraction: number;
@@ -54,15 +62,18 @@ export class SiteOnsets {
 
   /**
    * One decision of `stream` at `site` at `time`; `onset` when it is a change
-   * onset. Returns the streams to tell of a site-wide shift now (often none).
+   * onset, `degrading` when its cause is degradation. Returns the streams to
+   * tell of a site-wide shift now (often none).
    */
-  observe(stream: string, site: string, time: number, onset: boolean): string[] {
+  observe(stream: string, site: string, time: number, onset: boolean, degrading = false): string[] {
     let s = this.#sites.get(site);
     if (s === undefined) {
-      s = { streams: new Set(), onsets: new Map(), episode: null, told: new Set() };
+      s = { streams: new Set(), degrading: new Set(), onsets: new Map(), episode: null, told: new Set() };
       this.#sites.set(site, s);
     }
     s.streams.add(stream);
+    if (degrading) s.degrading.add(stream);
+    else s.degrading.delete(stream);
     if (!onset) return [];
     s.onsets.set(stream, time);
     for (const [other, at] of s.onsets) if (at < time - this.window) s.onsets.delete(other);
@@ -73,13 +84,13 @@ export class SiteOnsets {
     if (s.episode !== null) return this.#tell(s, [stream]);
     if (s.onsets.size < this.minStreams || s.onsets.size < this.fraction * s.streams.size) return [];
     s.episode = time;
-    return this.#tell(s, [...s.onsets.keys()]);
+    return this.#tell(s, [...s.onsets.keys(), ...s.streams]);
   }
 
   #tell(s: SiteState, streams: string[]): string[] {
     const out: string[] = [];
     for (const stream of streams) {
-      if (s.told.has(stream)) continue;
+      if (s.told.has(stream) || s.degrading.has(stream)) continue;
       s.told.add(stream);
       out.push(stream);
     }
