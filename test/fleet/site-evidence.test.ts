@@ -1,5 +1,7 @@
 import { describe, expect, test } from "vitest";
-import { partitionKeys, partitionOf, SiteEvidence } from "@leeway/fleet";
+import { FleetFeeder, FleetWorker, openRedis, partitionKeys, partitionOf, SiteEvidence } from "@leeway/fleet";
+import type { Decision } from "@leeway/policy";
+import { consumed, readOutput, SMALL_ENGINE, waitFor } from "./fleet-stream.js";
 import { sharedRedis } from "./redis-server.js";
 
 const shared = sharedRedis();
@@ -34,5 +36,46 @@ describe("the site-evidence consumer on a real redis-server (common practice, no
     expect(await siteShiftEvents()).toEqual(site);
     expect(await evidence.round()).toEqual([]); // read positions moved: nothing is told twice
     expect(await siteShiftEvents()).toHaveLength(6);
+  });
+
+  test("on a worker: the site-shift events reach every engine of the site through the commit; the shifted engines settle and retrain without asking, with the event in their evidence", async () => {
+    const prefix = "sitework";
+    const pumps = Array.from({ length: 6 }, (_, i) => `harbour-lane/w${i}`);
+    const feeder = new FleetFeeder(shared.redis, { prefix, partitions: PARTITIONS });
+    const level = (t: number, k: number): number => (t >= 200 ? 4 : 1) * (1 + 0.1 * Math.sin(0.37 * t + 1.3 * k) + 0.05 * Math.sin(1.91 * t + k));
+    const publish = async (from: number, to: number): Promise<number> => {
+      for (let t = from; t < to; t++) pumps.forEach((pump, k) => feeder.sample(pump, "harbour-lane", [level(t, k)], t));
+      return feeder.flush();
+    };
+    const client = openRedis(shared.server.url);
+    const worker = new FleetWorker(client, { prefix, partitions: PARTITIONS, engine: SMALL_ENGINE, leaseMs: 3000, idleMs: 5, batch: 200 });
+    const running = worker.run();
+    const evidence = new SiteEvidence(shared.redis, { prefix, partitions: PARTITIONS, owner: "sites-w", fraction: 0.5, window: 50, minStreams: 3 });
+    try {
+      let total = await publish(0, 215);
+      await waitFor(async () => (await consumed(shared.redis, PARTITIONS, prefix)) === total, 60_000, "the first part committed");
+      expect((await evidence.round()).sort()).toEqual(pumps.map((p) => `harbour-lane/${p}`).sort());
+      total += 6 + (await publish(215, 330));
+      await waitFor(async () => (await consumed(shared.redis, PARTITIONS, prefix)) === total, 60_000, "the second part committed");
+    } finally {
+      worker.stop();
+      await running;
+      await client.quit();
+    }
+    const out = await readOutput(shared.redis, PARTITIONS, prefix);
+    expect(out.dead).toEqual([]);
+    let receipts = 0;
+    for (let p = 0; p < PARTITIONS; p++) {
+      for (const [, f] of (await shared.redis.xrange(partitionKeys(prefix, p).output, "-", "+")) as [string, string[]][]) if (f.includes("op") && f.includes("site-shift")) receipts++;
+    }
+    expect(receipts).toBe(6);
+    for (const pump of pumps) {
+      const ds = (out.decisions.get(pump) ?? []).map((d) => JSON.parse(d) as Decision);
+      const told = ds.find((d) => d.evidence.siteShift !== undefined);
+      expect(told?.index).toBeGreaterThan(200);
+      const retrain = ds.find((d) => d.action === "retrain");
+      expect((retrain?.evidence.siteShift as { outcome: string } | undefined)?.outcome).toBe("retraining without asking: the site shifted");
+      expect(ds.filter((d) => d.index >= 200 && d.action === "learn")).toEqual([]);
+    }
   });
 });
