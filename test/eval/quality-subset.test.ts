@@ -12,7 +12,7 @@ const ASSERTED: readonly string[] = [
   "degradation-alarmed-before-half | 1 s | engine, unattended",
   "degradation-learnt-after-warning | 1 s | engine, operator",
   "degradation-learnt-after-warning | 1 s | engine, unattended",
-  "degradation-one-alarm | 1 s | engine, unattended",
+  ...["1 s", "10 min"].flatMap((rate) => ["operator", "unattended"].map((who) => `degradation-one-alarm | ${rate} | engine, ${who}`)),
   "degradation-beats-always-adapt | 1 s | engine, operator",
   "degradation-beats-always-adapt | 1 s | engine, unattended",
   "degradation-beats-always-adapt | 10 min | engine, operator",

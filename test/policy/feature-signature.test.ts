@@ -2,6 +2,7 @@ import { describe, expect, it } from "vitest";
 import { FeatureAttribution, signatureOf } from "@leeway/policy";
 import { RandomSource } from "@leeway/core";
 import { expectRefusesCorruptions } from "../support/snapshot-corruption.js";
+import { throughJson } from "../support/errors.js";
 
 const LIMITS = { minSpread: 0.3, maxLocality: 0.5, minStrength: 4 };
 const n = 32;
@@ -94,6 +95,35 @@ describe("FeatureAttribution", () => {
     expect(sig?.top[0]?.feature).toBe(3);
     expect(sig?.broadband).toBe(false);
     expect(a.episode(1, LIMITS)).toBeNull(); // no baseline for reference 1
+  });
+
+  it("agreement: an episode on the degradation's features agrees (≈ 1), one on other features does not (≈ 0), and it survives a snapshot", () => {
+    const a = calibrated();
+    const rng = new RandomSource("agreement");
+    const shifted = (features: number[], by: number): Float64Array => {
+      const x = Float64Array.from({ length: n }, () => 0.2 + 0.1 * rng.normal());
+      for (const j of features) x[j] = (x[j] as number) + by;
+      return x;
+    };
+    const episodeOn = (b: FeatureAttribution, features: number[], by: number): number | null => {
+      b.observe(shifted(features, by), 0);
+      b.beginEpisode();
+      for (let i = 0; i < 9; i++) {
+        b.observe(shifted(features, by), 0);
+        b.extendEpisode();
+      }
+      return b.agreement(0);
+    };
+    a.observe(shifted([4, 5, 6], 0.5), 0);
+    a.beginEpisode();
+    expect(a.agreement(0)).toBeNull(); // no degradation marked yet
+    for (let i = 0; i < 200; i++) a.observe(shifted([4, 5, 6], 0.5), 0);
+    a.markDegradation();
+    const copy = FeatureAttribution.restore(throughJson(a.snapshot()), 50, 1);
+    expect(episodeOn(a, [4, 5, 6], 1.5)).toBeGreaterThan(0.9);
+    expect(episodeOn(copy, [20, 21, 22], 1.5)).toBeLessThan(0.3);
+    a.restartPresent();
+    expect(episodeOn(a, [4, 5, 6], 1.5)).toBeNull(); // a new reference forgets the degradation's direction
   });
 
   it("snapshot and restore continue bit for bit, and corrupted snapshots are refused", () => {

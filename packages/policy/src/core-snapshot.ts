@@ -14,8 +14,8 @@ import { SiteShiftNotice } from "./site-shift-notice.js";
 
 /** Kind and version of a decision core's snapshot. */
 export const CORE_KIND = "leeway.policy.decision-core";
-/** Version 5 added the site-shift notice; older versions are refused. */
-export const CORE_VERSION = 5;
+/** Version 6 added the site-shift notice and one open event per cause; older versions are refused. */
+export const CORE_VERSION = 6;
 
 /** The plain state of a decision core: its settings, its ledger, and one snapshot per part. */
 export interface CoreSnapshotState extends Omit<CoreLedger, "levels" | "liveLevel"> {
@@ -95,8 +95,8 @@ export function readCoreSnapshot(snapshot: unknown, component: string): { settin
     anomalyAlarmAt: r.integer("anomalyAlarmAt", -1, Math.max(-1, index)),
     latchedAt: r.integer("latchedAt", -1, Math.max(-1, index)),
     latchNormalRun: r.integer("latchNormalRun", 0, big),
-    openCause: readOpenCause(r),
-    openLevel: r.number("openLevel"),
+    openAnomaly: r.numberOrNull("openAnomaly"),
+    openDegradation: r.numberOrNull("openDegradation"),
     alarmLevel: r.number("alarmLevel"),
   };
   const parts: CoreParts = {
@@ -115,7 +115,7 @@ export function readCoreSnapshot(snapshot: unknown, component: string): { settin
     r.fail("liveLevel", "and the thresholds must be set once commissioning is over");
   }
   if (calibrated && purpose === null && ledger.levels.length !== newestId + 1) r.fail("levels", `must have length ${newestId + 1}, got length ${ledger.levels.length}`);
-  if (calibrated && purpose === null && parts.attribution.features > 0 && parts.attribution.baselineCount !== newestId + 1) {
+  if (calibrated && purpose === null && parts.attribution.baselineCount !== newestId + 1) {
     r.fail("attribution", `must hold ${newestId + 1} baselines (one per reference), got ${parts.attribution.baselineCount}`);
   }
     if (parts.settling.afterAnomaly && phase !== "settling") r.fail("settling", `can follow an anomaly only while settling, the phase is "${phase}"`);
@@ -132,10 +132,4 @@ function readLevel(r: SnapshotReader): ScoreLevel {
   const spread = r.number("spread");
   if (!(spread > 0)) r.fail("spread", `must be > 0, got ${spread}`);
   return { mean, spread };
-}
-
-function readOpenCause(r: SnapshotReader): Cause | null {
-  const cause = r.stringOrNull("openCause");
-  if (cause !== null && cause !== "anomaly" && cause !== "degradation") r.fail("openCause", `must be "anomaly", "degradation" or null, got ${JSON.stringify(cause)}`);
-  return cause as Cause | null;
 }

@@ -21,6 +21,8 @@ const SETTLING_WARM_UP = 20;
 const UNDETERMINED_RUNS = 4;
 /** The smallest window spread used in that judgement, in σ. */
 const MIN_WINDOW_SPREAD = 0.05;
+/** Cosine between an anomaly episode's feature shift and the standing degradation's above which it is that degradation. */
+const DEGRADATION_AGREEMENT = 0.5;
 /** The last commissioning sample: learn it, then freeze the live model as the commissioning reference. */
 const LEARN_THEN_FREEZE: readonly Effect[] = Object.freeze([{ kind: "learn" }, { kind: "freeze-commissioning" }]);
 
@@ -67,10 +69,13 @@ export interface CoreLedger {
   latchedAt: number;
   /** Unattended: consecutive normal samples while an anomaly is latched. */
   latchNormalRun: number;
-  /** The cause of an acknowledged anomaly or degradation alarm whose event is still open, or null. */
-  openCause: Cause | null;
-  /** ln of the active reference's score at that alarm (a new alarm needs ln(realarmFactor) more). */
-  openLevel: number;
+  /**
+   * ln of the active reference's score at an acknowledged anomaly alarm whose
+   * event is still open, or null: a new anomaly alarm needs ln(realarmFactor) more.
+   */
+  openAnomaly: number | null;
+  /** The same for an acknowledged degradation alarm (open while its evidence stands). */
+  openDegradation: number | null;
   /** ln of the active reference's score at the latest alarm. */
   alarmLevel: number;
 }
@@ -126,8 +131,8 @@ export class DecisionCore {
       anomalyAlarmAt: -1,
       latchedAt: -1,
       latchNormalRun: 0,
-      openCause: null,
-      openLevel: 0,
+      openAnomaly: null,
+      openDegradation: null,
       alarmLevel: 0,
     };
     this.#parts = restored?.parts ?? {
@@ -245,8 +250,7 @@ export class DecisionCore {
         if (signature?.broadband === true) return this.#settleChange(evidence, "a broadband rise: settling as a change of conditions");
         // Too weak yet to tell a change of conditions from a fault's lines: hold up to four runs before alarming.
         if (signature !== null && !signature.determined && p.anomaly.run < UNDETERMINED_RUNS * s.anomalyRun) return this.#step("hold", "anomaly", evidence);
-        // A rise past the anomaly threshold on top of a standing degradation warning is the degradation itself.
-        if (p.degradation.standing && !p.degradation.episodeAlarmed) return this.#latch("degradation", evidence);
+        if (p.degradation.standing && this.#continuesDegradation(evidence)) return this.#latch("degradation", evidence);
         return this.#latch("anomaly", evidence);
       }
       return this.#step("hold", "anomaly", evidence);
@@ -267,7 +271,7 @@ export class DecisionCore {
     }
     if (strength === 2 && !p.degradation.episodeAlarmed) return this.#latch("degradation", evidence);
     p.degradation.carry(strength, l.index);
-    if (l.openCause === "degradation" && !p.degradation.standing) l.openCause = null;
+    if (!p.degradation.standing) l.openDegradation = null;
 
     // 3. Concept drift: the change test on the active reference's normalised score.
     const reading = p.change.observe(zActive);
@@ -287,6 +291,24 @@ export class DecisionCore {
     }
     if (p.degradation.standing) return this.#step("hold", "degradation", evidence);
     return this.#step("learn", "normal", evidence, LEARN_ONLY);
+  }
+
+  /**
+   * A rise past the anomaly threshold on a machine whose degradation evidence
+   * stands is that degradation growing when it points the same way: with
+   * residuals, the episode's feature shift agrees (cosine ≥
+   * DEGRADATION_AGREEMENT) with the shift before it; without, when the
+   * degradation was alarmed or its trend still carries a warning. A new fault
+   * on other features is an anomaly of its own and pages.
+   */
+  #continuesDegradation(evidence: Evidence): boolean {
+    const p = this.#parts;
+    const agreement = p.attribution.agreement(this.#ledger.activeId);
+    if (agreement !== null) {
+      evidence.degradationAgreement = agreement;
+      return agreement >= DEGRADATION_AGREEMENT;
+    }
+    return p.degradation.episodeAlarmed || p.degradation.strength() >= 1;
   }
 
   /** The sample's ln active score (set by step before the rules run). */
@@ -470,7 +492,7 @@ export class DecisionCore {
     if (Math.abs(check.activeLevel) < s.confirmShift) {
       // The active reference still scores the stream as normal: the change was not confirmed.
       evidence.outcome = p.settling.afterAnomaly ? "returned to normal" : "unconfirmed";
-      l.openCause = null;
+      l.openAnomaly = null;
       this.#toWatching();
       return this.#step("learn", "normal", evidence, LEARN_ONLY);
     }
@@ -614,7 +636,7 @@ export class DecisionCore {
     const p = this.#parts;
     if (l.levels[id] === undefined) throw new StateError(this.component, `reference ${id} has no calibrated level`);
     l.activeId = id;
-    l.openCause = null;
+    this.#closeEvents();
     p.change.resetBaseline();
     p.attribution.restartPresent();
     l.switches += 1;
@@ -637,14 +659,15 @@ export class DecisionCore {
     const l = this.#ledger;
     const p = this.#parts;
     if (cause === "degradation") p.degradation.alarm(lasting);
-    if (this.#sameEvent(cause)) {
+    const open = this.#openLevel(cause);
+    if (open !== null && this.#uActive < open + Math.log(this.settings.realarmFactor)) {
       // The operator has seen this event and it has not worsened by the re-alarm factor: no new page.
-      evidence.sameEvent = { cause: l.openCause, level: Math.exp(l.openLevel), realarmAt: Math.exp(l.openLevel) * this.settings.realarmFactor };
-      const held = l.openCause as Cause;
+      evidence.sameEvent = { cause, level: Math.exp(open), realarmAt: Math.exp(open) * this.settings.realarmFactor };
       p.gate.drop();
       if (l.phase === "settling") this.#toWatching();
-      return this.#step("hold", held, evidence, effects);
+      return this.#step("hold", cause, evidence, effects);
     }
+    if (cause === "degradation") p.attribution.markDegradation();
     l.phase = "latched";
     l.latchCause = cause;
     l.alarms += 1;
@@ -657,12 +680,22 @@ export class DecisionCore {
     return this.#step("alarm", cause, evidence, effects);
   }
 
-  /** An alarm of `cause` would repeat an acknowledged event of the same cause that has not worsened. */
-  #sameEvent(cause: Cause): boolean {
+  /**
+   * ln level of the acknowledged, still open event of `cause`, or null. Each
+   * cause has its own: an anomaly on a machine whose degradation was
+   * acknowledged is a new event unless it is that degradation growing.
+   */
+  #openLevel(cause: Cause): number | null {
     const l = this.#ledger;
-    // Only the same cause: a clog during an acknowledged degradation is a new event and pages.
-    if (l.openCause === null || cause !== l.openCause) return false;
-    return this.#uActive < l.openLevel + Math.log(this.settings.realarmFactor);
+    if (cause === "anomaly") return l.openAnomaly;
+    if (cause === "degradation") return l.openDegradation;
+    return null;
+  }
+
+  /** Every acknowledged event is over (a new reference, a new mode, a new commissioning). */
+  #closeEvents(): void {
+    this.#ledger.openAnomaly = null;
+    this.#ledger.openDegradation = null;
   }
 
   #step(action: Action, cause: Cause, evidence: Evidence, effects: readonly Effect[] = NO_EFFECTS): Step {
@@ -681,7 +714,7 @@ export class DecisionCore {
     if (l.phase !== "retraining") this.#refuse("modelReplaced", 'after a "retrain" decision');
     l.newestId += 1;
     l.activeId = l.newestId;
-    l.openCause = null;
+    this.#closeEvents();
     l.retrains += 1;
     this.#parts.gate.coolDownFrom(l.index);
     l.phase = "watching";
@@ -734,10 +767,8 @@ export class DecisionCore {
   acknowledge(): void {
     const l = this.#ledger;
     if (l.phase !== "latched") this.#refuse("acknowledge", "while an alarm is latched");
-    if (l.latchCause === "anomaly" || l.latchCause === "degradation") {
-      l.openCause = l.latchCause;
-      l.openLevel = l.alarmLevel;
-    }
+    if (l.latchCause === "anomaly") l.openAnomaly = l.alarmLevel;
+    if (l.latchCause === "degradation") l.openDegradation = l.alarmLevel;
     this.#clearLatch();
   }
 
@@ -773,7 +804,7 @@ export class DecisionCore {
     if (l.phase === "commissioning") this.#refuse("startCommissioning", "outside commissioning");
     l.phase = "commissioning";
     l.latchCause = null;
-    l.openCause = null;
+    this.#closeEvents();
     l.latchedAt = -1;
     l.commissioningLength = n;
     l.commissioningLeft = n;

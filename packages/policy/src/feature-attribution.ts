@@ -14,6 +14,8 @@ export interface FeatureAttributionState {
   presentWeightSquares: number;
   episode: number[];
   episodeCount: number;
+  /** The present mean shift when the standing degradation alarmed (empty when none was marked). */
+  degradationShift: number[];
 }
 
 /**
@@ -35,7 +37,7 @@ export interface FeatureAttributionState {
  */
 export class FeatureAttribution {
   static readonly kind = "leeway.policy.feature-attribution";
-  static readonly version = 1;
+  static readonly version = 2;
   readonly #alpha: number;
   #n = 0;
   #baselines: ({ mean: Float64Array; variance: Float64Array } | null)[] = [];
@@ -47,6 +49,8 @@ export class FeatureAttribution {
   #presentWeightSquares = 0;
   #episode: Float64Array = new Float64Array(0);
   #episodeCount = 0;
+  #degradationShift: Float64Array = new Float64Array(0); // the present mean when the degradation alarmed
+  #hasDegradation = false;
   // The sample being decided (not part of the state between samples).
   #raw = new Float64Array(0);
   #deviation = new Float64Array(0);
@@ -92,6 +96,7 @@ export class FeatureAttribution {
     this.#calSquares = new Float64Array(n);
     this.#present = new Float64Array(n);
     this.#episode = new Float64Array(n);
+    this.#degradationShift = new Float64Array(n);
     this.#raw = new Float64Array(n);
     this.#deviation = new Float64Array(n);
     this.#mean = new Float64Array(n);
@@ -149,6 +154,14 @@ export class FeatureAttribution {
     this.#present.fill(0);
     this.#presentWeight = 0;
     this.#presentWeightSquares = 0;
+    this.#degradationShift.fill(0);
+    this.#hasDegradation = false;
+  }
+
+  /** A degradation alarm: its direction is the present mean shift (none without one). */
+  markDegradation(): void {
+    this.#hasDegradation = this.#presentWeight > 0;
+    if (this.#hasDegradation) this.#degradationShift.set(this.#present);
   }
 
   /** Starts an episode with the sample being decided. */
@@ -180,6 +193,33 @@ export class FeatureAttribution {
     return signatureOf(this.#meanOf(this.#present, this.#presentWeight), base.variance, samples, limits);
   }
 
+  /**
+   * How far the episode points the way the degradation did when it alarmed
+   * ({@link FeatureAttribution.markDegradation}): the cosine of the two mean
+   * shifts, each feature scaled by its calibration spread (1: the same
+   * features in the same proportions, 0: unrelated). Wear growing past the
+   * anomaly threshold keeps its direction; a new fault on other features
+   * turns it. Null without a baseline, an episode or a marked degradation.
+   */
+  agreement(activeId: number): number | null {
+    const base = this.#baselines[activeId] ?? null;
+    if (base === null || this.#episodeCount === 0 || !this.#hasDegradation) return null;
+    let dot = 0;
+    let episodeNorm = 0;
+    let beforeNorm = 0;
+    for (let j = 0; j < this.#n; j++) {
+      const v = base.variance[j] as number;
+      if (!(v > 0)) continue;
+      const e = (this.#episode[j] as number) / this.#episodeCount;
+      const b = this.#degradationShift[j] as number;
+      dot += (e * b) / v;
+      episodeNorm += (e * e) / v;
+      beforeNorm += (b * b) / v;
+    }
+    if (!(episodeNorm > 0 && beforeNorm > 0)) return null;
+    return dot / Math.sqrt(episodeNorm * beforeNorm);
+  }
+
   /** sums / weight into the scratch buffer (no allocation while a warning is judged every sample). */
   #meanOf(sums: Float64Array, weight: number): Float64Array {
     for (let j = 0; j < this.#n; j++) this.#mean[j] = (sums[j] as number) / weight;
@@ -207,6 +247,7 @@ export class FeatureAttribution {
       presentWeightSquares: this.#presentWeightSquares,
       episode: toPlainArray(this.#episode),
       episodeCount: this.#episodeCount,
+      degradationShift: this.#hasDegradation ? toPlainArray(this.#degradationShift) : [],
     });
   }
 
@@ -226,6 +267,10 @@ export class FeatureAttribution {
     if ((a.#presentWeight === 0) !== (a.#presentWeightSquares === 0)) r.fail("presentWeightSquares", "must be 0 exactly when presentWeight is 0");
     a.#episode = r.numbers("episode", n);
     a.#episodeCount = r.integer("episodeCount", 0, Number.MAX_SAFE_INTEGER);
+    const shift = r.numbers("degradationShift", { max: n });
+    if (shift.length !== 0 && shift.length !== n) r.fail("degradationShift", `must have length 0 or ${n}, got length ${shift.length}`);
+    a.#hasDegradation = shift.length === n && n > 0;
+    if (a.#hasDegradation) a.#degradationShift = shift;
     return a;
   }
 }
