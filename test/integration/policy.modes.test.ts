@@ -6,10 +6,11 @@ import { ACKNOWLEDGE_AFTER, FEATURE_OPTIONS, stream, SUITE_LENGTH } from "./poli
 
 /** Drops the evidence only feature mode can have (the candidate's validation, the pool slot it took). */
 function comparable(d: Decision): unknown {
-  const { candidate, member, features, ...evidence } = d.evidence;
+  const { candidate, member, features, degradationAgreement, ...evidence } = d.evidence;
   void candidate;
   void member;
   void features; // feature mode's residual signature; score-only mode has none
+  void degradationAgreement; // the same: feature mode compares feature shifts, the decision must still agree
   return { ...d, evidence };
 }
 
