@@ -27,11 +27,13 @@ export function samplesWithTime(axis: AxisSpan, samples: number): string {
 function openItem(title: string, opened: { decision: Decision; time: string | number | null }, last: Decision, axis: AxisSpan): string {
   const d = opened.decision;
   const w = when(axis, d.index);
-  const state = last.phase === "latched" ? `Alarm latched: ${CAUSE_WORDS[last.cause]}` : `${ACTION_WORDS[last.action]} (${CAUSE_WORDS[last.cause]})`;
+  const held = (last.evidence as unknown as Record<string, unknown>).sameEvent as { realarmAt: number } | undefined;
+  const state = last.phase === "latched" ? `Alarm latched: ${CAUSE_WORDS[last.cause]}` : held !== undefined ? `Acknowledged, still open: ${CAUSE_WORDS[last.cause]}` : `${ACTION_WORDS[last.action]} (${CAUSE_WORDS[last.cause]})`;
+  const answered = held !== undefined ? `acknowledged; held as the same event until the score reaches ${formatNumber(held.realarmAt)}` : "not yet acknowledged";
   const evidence = d.evidence as unknown as Record<string, unknown>;
   const { moved, limits } = movedAndLimit(evidence);
   const lines = [
-    `<li>since ${escapeXml(w.at)}, ${escapeXml(w.before)} before the end of the record; not yet acknowledged</li>`,
+    `<li>since ${escapeXml(w.at)}, ${escapeXml(w.before)} before the end of the record; ${escapeXml(answered)}</li>`,
     `<li>live model score then ${escapeXml(formatNumber(d.evidence.liveScore))}${d.evidence.referenceScores.length > 0 ? `, commissioning reference score ${escapeXml(formatNumber(d.evidence.referenceScores[0] as number))}` : ""}</li>`,
     ...evidenceWords(evidence, d.cause, 3).map((e) => `<li>${escapeXml(e)}</li>`),
     ...moved.map((m) => `<li><strong>What moved</strong> (${escapeXml(m.label)}): ${escapeXml(m.values)}</li>`),
@@ -72,7 +74,8 @@ function keyFigures(m: ReplayMetrics): string {
 
 /**
  * The report's headline: what needs attention at the end of the record —
- * each engine with a latched alarm or a retrain waiting for confirmation,
+ * each engine with a latched alarm, a retrain waiting for confirmation or an
+ * acknowledged event it still holds,
  * its cause, since when, the evidence in words, and what moved or how long
  * remains to a limit when the evidence says so — then the record's alarms,
  * retrains and switches and, with labels, the key figures.

@@ -119,10 +119,12 @@ export class TimelineCollector {
     this.#counts.set(countKey, (this.#counts.get(countKey) ?? 0) + 1);
     this.#trace(decision.evidence as unknown as Record<string, unknown>, b);
     const last = this.#last;
-    // What opened the state that needs attention: a latched alarm, or a retrain waiting for confirmation.
-    const open = decision.phase === "latched" || decision.action === "await-confirmation";
+    // What opened the state that needs attention: a latched alarm, a retrain waiting for confirmation, or
+    // an acknowledged event the engine still holds (evidence sameEvent; it stays opened by its alarm).
+    const acknowledged = decision.evidence.sameEvent !== undefined;
+    const open = decision.phase === "latched" || decision.action === "await-confirmation" || acknowledged;
     if (!open) this.#openedBy = null;
-    else if (this.#openedBy === null || (last !== null && last.phase !== decision.phase)) this.#openedBy = { decision, time };
+    else if (this.#openedBy === null || (last !== null && last.phase !== decision.phase && !acknowledged)) this.#openedBy = { decision, time };
     this.#lastDecision = decision;
     if (last === null || last.action !== decision.action || last.cause !== decision.cause || last.phase !== decision.phase) {
       this.#last = { action: decision.action, cause: decision.cause, phase: decision.phase };
