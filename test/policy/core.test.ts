@@ -223,11 +223,26 @@ describe("anomalies", () => {
     expect(run.decisions[run.decisions.length - 1]?.action).toBe("learn");
   });
 
-  it("a short run of anomalous samples below the alarm run is held and then learning resumes, without alarm", () => {
-    const run = runHost(engineWith(), new ScoreHost(3), fault(3000, 3), 4000);
+  it("a short run of anomalous samples below the alarm run is held and then learning resumes, without alarm (anomalyExcess 0: the run alone counts)", () => {
+    const run = runHost(engineWith({ anomalyExcess: 0 }), new ScoreHost(3), fault(3000, 3), 4000);
     expect(run.alarms).toHaveLength(0);
     expect(run.decisions.slice(3000, 3003).map((d) => d.cause)).toEqual(["anomaly", "anomaly", "anomaly"]);
     expect(run.decisions[3100]?.action).toBe("learn");
+  });
+
+  it("a fault shorter than the run alarms when its samples lie far above the threshold (anomalyExcess), a weak one does not, and 0 turns it off", () => {
+    const strong = (t: number): World => ({ mode: 0, degradation: 0, fault: t === 3000 ? 3 : 0 });
+    const run = runHost(engineWith(), new ScoreHost(3), strong, 3200);
+    expect(run.alarms.map((d) => [d.index, d.cause])).toEqual([[3000, "anomaly"]]);
+    const excess = (run.alarms[0]?.evidence.anomaly as { excess: number }).excess;
+    expect(excess).toBeGreaterThanOrEqual(3);
+    // the same sample under anomalyExcess 0 is held and learning resumes (the run of 5 alone counts)
+    const runOnly = runHost(engineWith({ anomalyExcess: 0 }), new ScoreHost(3), strong, 3200);
+    expect(runOnly.alarms).toEqual([]);
+    expect(runOnly.decisions[3000]?.cause).toBe("anomaly");
+    // a one-sample fault of 0.6 (in ln score, about 3σ here) stays below the excess: held, no alarm
+    const weak = runHost(engineWith(), new ScoreHost(3), (t: number): World => ({ mode: 0, degradation: 0, fault: t === 3000 ? 0.6 : 0 }), 3200);
+    expect(weak.alarms).toEqual([]);
   });
 
   it("the alarm latch stays until acknowledge(), even when the scores are normal again", () => {

@@ -8,6 +8,9 @@ export interface AnomalyEpisodeState {
   anomalous: boolean;
   run: number;
   normalRun: number;
+  /** σ of the live level the thresholds were set from, or null before calibration. */
+  spread: number | null;
+  excess: number;
 }
 
 /**
@@ -16,7 +19,11 @@ export interface AnomalyEpisodeState {
  * calibration scores plus a margin, in σ of the live level), lasts while it
  * stays above the lower exit threshold (hysteresis in level), and ends only
  * after `needed` consecutive samples below it (hysteresis in time). Every
- * sample of an episode is held; `needed` samples above raise the alarm.
+ * sample of an episode is held; `needed` samples above raise the alarm, and
+ * so does an episode whose samples together lie far enough above the entry
+ * threshold: Σ (u − u_enter)/σ over the samples above it reaches `excess`
+ * (a strong fault shorter than the run is still reported; the run guards
+ * against weak ones, the sum against short strong ones).
  * @example
  * const e = new AnomalyEpisode();
  * e.calibrate(0, { mean: 0, spread: 1 }, 1, 0); // enter at u > 1, leave at u ≤ 0
@@ -24,18 +31,21 @@ export interface AnomalyEpisodeState {
  */
 export class AnomalyEpisode {
   static readonly kind = "leeway.policy.anomaly-episode";
-  static readonly version = 1;
+  static readonly version = 2;
   #enter: number | null = null; // on u_live
   #exit: number | null = null;
   #anomalous = false;
   #run = 0; // samples above the exit threshold in the present episode
   #normalRun = 0; // consecutive samples below it since the last one above
   #above = false;
+  #spread: number | null = null;
+  #excess = 0; // Σ (u − enter)/σ over the samples above the entry threshold in the present episode
 
   /** Sets the thresholds from the calibration's live-score quantile q (log scale) and level: q + margin·σ. */
   calibrate(quantile: number, live: ScoreLevel, enterMargin: number, exitMargin: number): void {
     this.#enter = quantile + enterMargin * live.spread;
     this.#exit = quantile + exitMargin * live.spread;
+    this.#spread = live.spread;
     this.clear();
   }
 
@@ -43,6 +53,7 @@ export class AnomalyEpisode {
   forget(): void {
     this.#enter = null;
     this.#exit = null;
+    this.#spread = null;
     this.clear();
   }
 
@@ -51,6 +62,7 @@ export class AnomalyEpisode {
     this.#anomalous = false;
     this.#run = 0;
     this.#normalRun = 0;
+    this.#excess = 0;
   }
 
   /** True when the thresholds are set. */
@@ -64,6 +76,14 @@ export class AnomalyEpisode {
   /** Samples above the exit threshold in the present episode. */
   get run(): number {
     return this.#run;
+  }
+  /** Σ (u − u_enter)/σ over the present episode's samples above the entry threshold. */
+  get excess(): number {
+    return this.#excess;
+  }
+  /** True when the episode raises the alarm: `needed` samples above, or an excess of at least `excess` σ (0: only the run). */
+  due(needed: number, excess: number): boolean {
+    return this.#run >= needed || (excess > 0 && this.#excess >= excess);
   }
   /** Whether the last observed sample was above its threshold. */
   get above(): boolean {
@@ -92,6 +112,8 @@ export class AnomalyEpisode {
       if (above) {
         this.#run += 1;
         this.#normalRun = 0;
+        const over = (uLive - (this.#enter as number)) / (this.#spread as number);
+        if (over > 0) this.#excess += over;
       } else this.#normalRun += 1;
       this.#anomalous = true;
       return true;
@@ -107,7 +129,15 @@ export class AnomalyEpisode {
   }
 
   snapshot(): Snapshot<AnomalyEpisodeState> {
-    return envelope(AnomalyEpisode.kind, AnomalyEpisode.version, { enter: this.#enter, exit: this.#exit, anomalous: this.#anomalous, run: this.#run, normalRun: this.#normalRun });
+    return envelope(AnomalyEpisode.kind, AnomalyEpisode.version, {
+      enter: this.#enter,
+      exit: this.#exit,
+      anomalous: this.#anomalous,
+      run: this.#run,
+      normalRun: this.#normalRun,
+      spread: this.#spread,
+      excess: this.#excess,
+    });
   }
 
   /** Rebuilds an episode; `needed` is the engine's anomalyRun. */
@@ -120,12 +150,19 @@ export class AnomalyEpisode {
     const anomalous = r.boolean("anomalous");
     const run = r.integer("run", 0, Number.MAX_SAFE_INTEGER);
     const normalRun = r.integer("normalRun", 0, needed);
+    const spread = r.numberOrNull("spread");
+    if ((spread === null) !== (enter === null)) r.fail("spread", "must be set exactly when enter is set");
+    if (spread !== null && !(spread > 0 && spread < 1e100)) r.fail("spread", `must be in (0, 1e100), got ${spread}`);
+    const excess = r.numberIn("excess", 0, 1e300);
+    if (excess > 0 && run === 0) r.fail("excess", `must be 0 when run is 0, got ${excess}`);
     const e = new AnomalyEpisode();
     e.#enter = enter;
     e.#exit = exit;
     e.#anomalous = anomalous;
     e.#run = run;
     e.#normalRun = normalRun;
+    e.#spread = spread;
+    e.#excess = excess;
     return e;
   }
 }

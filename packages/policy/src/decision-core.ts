@@ -232,16 +232,18 @@ export class DecisionCore {
       return this.#settlingStep(zActive, zCommissioning, zNewest, evidence);
     }
 
-    // 1. Anomaly: every sample of an episode is held; `anomalyRun` samples above raise the alarm, unless the
-    //    features say the rise is broadband (a change of conditions): then the engine settles instead.
+    // 1. Anomaly: every sample of an episode is held; `anomalyRun` samples above (or fewer far above:
+    //    `anomalyExcess`) raise the alarm, unless the features say the rise is broadband (a change of
+    //    conditions): then the engine settles instead.
     const wasAnomalous = p.anomaly.anomalous;
     if (p.anomaly.observe(uLive, s.anomalyRun)) {
       if (wasAnomalous) p.attribution.extendEpisode();
       else p.attribution.beginEpisode();
-      evidence.anomaly = { threshold: this.anomalyThreshold, run: p.anomaly.run, needed: s.anomalyRun, above: p.anomaly.above };
+      evidence.anomaly = { threshold: this.anomalyThreshold, run: p.anomaly.run, needed: s.anomalyRun, above: p.anomaly.above, excess: p.anomaly.excess };
+      const due = p.anomaly.due(s.anomalyRun, s.anomalyExcess);
       // A lone sample above the threshold does not count against a latch clearing itself; a run does.
-      if (l.phase === "latched") return this.#latchedStep(evidence, p.anomaly.run < s.anomalyRun);
-      if (p.anomaly.run >= s.anomalyRun) {
+      if (l.phase === "latched") return this.#latchedStep(evidence, !due);
+      if (due) {
         if (p.siteShift.covers(l.index) && !this.#degrading()) {
           evidence.siteShift = p.siteShift.evidence("settling instead of an anomaly alarm: the site shifted");
           return this.#settleChange(evidence, "the site shifted: settling as a change of conditions");
