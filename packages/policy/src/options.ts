@@ -50,7 +50,7 @@ export const CORE_OPTIONS = optionTable("DecisionEngine", {
   settlingOutlier: { kind: "number", default: 4, min: 0, minExclusive: true, unit: "σ of the window", doc: "While settling, a sample whose normalised score lies more than this above the window's level is an anomaly (held, left out of a retrain)." },
   confirmShift: { kind: "number", default: 1, min: 0, minExclusive: true, unit: "σ", doc: "Smallest settled level shift of the active reference that confirms a change; below it the alarm was a false one." },
   knownModeLevel: { kind: "number", default: 1, min: 0, minExclusive: true, unit: "σ", doc: "A reference whose mean settled score is within this of its own normal level scores the new data as normal (a known mode)." },
-  trendBlock: { kind: "span", default: "1m", atLeast: 60, min: 1, max: 1_000_000, doc: "Span averaged into one point of the long trend windows (decimation)." },
+  trendBlock: { kind: "span", default: "1m", atLeast: 24, min: 1, max: 1_000_000, doc: "Span averaged into one point of the long trend windows (decimation)." },
   trendWindow: { kind: "integer", default: 240, min: 10, max: 100_000, unit: "blocks", doc: "Points (blocks) in the long trend windows (4 h at 1 Hz with blocks of 1 min)." },
   trendZ: { kind: "number", default: 3.09, min: 0, minExclusive: true, unit: "z", doc: "One-sided Mann-Kendall z that raises a degradation alarm (p 0.001)." },
   trendWarnZ: { kind: "number", default: 2.33, min: 0, minExclusive: true, unit: "z", doc: "One-sided Mann-Kendall z at which learning stops and retraining is refused (degradation warning, p 0.01); at most trendZ." },
