@@ -28,11 +28,19 @@ describe("BlockTrend", () => {
     expect(t.rise).toBeCloseTo(0.002 * 49 * 10, 6);
   });
 
-  it("computes the slope only when the rise is asked for (the evidence shows NaN before)", () => {
+  it("computes the slope only when the rise is asked for (the evidence holds null before, never NaN)", () => {
     const t = new BlockTrend(2, 10);
+    expect(t.evidence).toEqual({ blocks: 0, z: 0, pValue: 1, slope: null, rise: null });
+    expect(t.rise).toBe(0);
     for (let i = 0; i < 20; i++) t.observe(i);
-    expect(Number.isNaN(t.evidence.slope)).toBe(true);
+    expect(t.evidence.slope).toBeNull();
+    expect(t.evidence.rise).toBeNull();
+    expect(t.pending).toBe(0);
+    expect(Array.from(t.means)).toEqual([0.5, 2.5, 4.5, 6.5, 8.5, 10.5, 12.5, 14.5, 16.5, 18.5]);
+    t.observe(20);
+    expect(t.pending).toBe(1);
     expect(t.rise).toBeCloseTo(18, 12);
+    expect(t.evidence.rise).toBeCloseTo(18, 12);
     expect(t.evidence.slope).toBeCloseTo(1, 12);
     expect(t.lastMean).toBe(18.5);
   });

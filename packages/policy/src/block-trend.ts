@@ -9,10 +9,10 @@ export interface TrendEvidence {
   z: number;
   /** Two-sided Mann-Kendall p-value. */
   pValue: number;
-  /** Theil-Sen slope, in σ per sample (NaN until it was needed). */
-  slope: number;
-  /** slope × the window's span in samples: the rise the trend explains, in σ (NaN until needed). */
-  rise: number;
+  /** Theil-Sen slope, in σ per sample; null until a rule needed it since the latest block (it costs O(w²)). */
+  slope: number | null;
+  /** slope × the window's span in samples: the rise the trend explains, in σ; null while the slope is. */
+  rise: number | null;
 }
 
 /** The plain state of a {@link BlockTrend}. */
@@ -94,19 +94,30 @@ export class BlockTrend {
 
   /**
    * The rise over the window in σ: Theil-Sen slope (per sample) × span in
-   * samples. Computed on first use after each block (O(w²)) and kept; NaN
-   * below two blocks.
+   * samples. Computed on first use after each block (O(w²)) and kept; 0
+   * below two blocks (a window of one point spans nothing).
    */
   get rise(): number {
-    if (this.#trend.size < 2) return Number.NaN;
+    if (this.#trend.size < 2) return 0;
     if (this.#slope === null) this.#slope = this.#trend.slope() / this.#block;
     return this.#slope * (this.#trend.size - 1) * this.#block;
   }
 
-  /** The latest evidence as a fresh plain object (slope and rise NaN unless {@link BlockTrend.rise} was needed since the last block). */
+  /** The latest evidence as a fresh plain object (slope and rise null unless {@link BlockTrend.rise} was needed since the last block). */
   get evidence(): TrendEvidence {
-    const slope = this.#slope ?? Number.NaN;
-    return { blocks: this.#trend.size, z: this.#z, pValue: this.#pValue, slope, rise: slope * Math.max(0, this.#trend.size - 1) * this.#block };
+    const slope = this.#slope;
+    const rise = slope === null ? null : slope * Math.max(0, this.#trend.size - 1) * this.#block;
+    return { blocks: this.#trend.size, z: this.#z, pValue: this.#pValue, slope, rise };
+  }
+
+  /** The block means in the window, oldest first (a fresh array), in the units of the samples. */
+  get means(): Float64Array {
+    return this.#trend.values();
+  }
+
+  /** Samples taken since the latest complete block (0 right after a block completed). */
+  get pending(): number {
+    return this.#filled;
   }
 
   /** Forgets everything (a new reference, a new mode). */

@@ -34,8 +34,8 @@ interface LimitCommon {
   /** The limit on the trend's scale: (ln(limit + floor) − μ)/σ. */
   limitSigma: number;
   confidence: number;
-  /** Mann-Kendall two-sided p-value of the window (NaN below two blocks). */
-  pValue: number;
+  /** Mann-Kendall two-sided p-value of the window (null below two blocks). */
+  pValue: number | null;
 }
 
 /** The fitted line: slope and Sen's interval for it, in σ per sample, and its level at the latest block. */
@@ -126,7 +126,7 @@ export function limitEvidence(input: LimitEvidenceInput): LimitEvidence {
   if (!Number.isFinite(limitSigma)) throw new OptionError(NAME, "limit", limit, "a score level whose normalised value (ln(limit + scoreFloor) − μ)/σ is finite");
 
   const t = timeToLimit(means, { limit: limitSigma, confidence, step: blockLength });
-  const common = { limit, limitSigma, confidence, pValue: t.pValue };
+  const common = { limit, limitSigma, confidence, pValue: Number.isFinite(t.pValue) ? t.pValue : null };
   const refuse = (reason: LimitRefusal, detail: string, lower: number | null = null, upper: number | null = null): LimitRefused => ({ status: "refused", ...common, reason, detail, slopeLower: lower, slopeUpper: upper });
   if (limitSigma >= clip) {
     return refuse("limit-beyond-clip", `the limit ${limit} lies ${limitSigma.toFixed(2)} σ above the reference's normal level, at or beyond the ±${clip} σ clip of the normalised scores: the trend cannot reach it (raise scoreClip)`);
