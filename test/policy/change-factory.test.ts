@@ -4,7 +4,7 @@ import { RandomSource } from "@leeway/core";
 import { DecisionEngine, type Decision } from "@leeway/policy";
 import { MachineSimulator, harbourLane } from "@leeway/sim";
 import { calibratedThreshold, makeChangeTest, MARTINGALE_BURN_IN, MARTINGALE_THRESHOLD } from "../../packages/policy/src/change-factory.js";
-import { throughJson } from "../support/errors.js";
+import { expectLeewayError, throughJson } from "../support/errors.js";
 
 /** In-control laws of normalised scores: symmetric, skewed, heavy-tailed, and discrete (ties). */
 const LAWS: Record<string, (r: RandomSource) => number> = {
@@ -15,6 +15,19 @@ const LAWS: Record<string, (r: RandomSource) => number> = {
 };
 
 describe("change test factory: the martingale choice", () => {
+  it("the engine's option martingaleThreshold sets the martingale's λ (default 100); a λ of 1 or less is refused", () => {
+    const threshold = (options: Record<string, unknown>): unknown => {
+      const engine = new DecisionEngine({ commissioning: 50, calibration: 50, changeTest: "martingale", seed: 1, ...options });
+      let d: Decision | null = null;
+      for (let i = 0; i < 120; i++) d = engine.observeScores(1 + 0.1 * Math.sin(i));
+      return (d?.evidence.change as { threshold: number } | undefined)?.threshold;
+    };
+    expect(threshold({})).toBe(MARTINGALE_THRESHOLD);
+    expect(threshold({ martingaleThreshold: 20 })).toBe(20);
+    expect(calibratedThreshold("martingale", new Float64Array(300).fill(0.2), 20000, 10, "s", 1000)).toBe(1000);
+    expectLeewayError(() => new DecisionEngine({ changeTest: "martingale", martingaleThreshold: 1 }), "E_OPTION", "martingaleThreshold", "1");
+  });
+
   it("makes a two-sided ConformalMartingale with threshold 100 and no calibration run, whatever the scores", () => {
     const test = makeChangeTest("martingale", MARTINGALE_THRESHOLD);
     expect(test).toBeInstanceOf(ConformalMartingale);

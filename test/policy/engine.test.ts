@@ -162,7 +162,7 @@ describe("DecisionEngine in feature mode (small)", () => {
     expect(engine.phase).not.toBe("commissioning");
     expectRefusesCorruptions((s) => DecisionEngine.restore(s), engine.snapshot(), {
       sizePaths: [["core", "state", "settings", "settling"], ["core", "state", "settings", "calibration"], ["model", "state", "inputs"]],
-      variableLengthPaths: [["core", "state", "gate", "state", "log"]],
+      variableLengthPaths: [["core", "state", "gate", "state", "log"], ["core", "state", "change", "state", "recent"]],
       numRuns: 120,
     });
   });
@@ -408,7 +408,7 @@ describe("DecisionEngine snapshots: cross-checks between fields", () => {
     }
     expectRefusesCorruptions((s) => DecisionEngine.restore(s), asked, {
       sizePaths: [["core", "state", "settings", "settling"], ["core", "state", "settings", "calibration"]],
-      variableLengthPaths: [["core", "state", "gate", "state", "log"]],
+      variableLengthPaths: [["core", "state", "gate", "state", "log"], ["core", "state", "change", "state", "recent"]],
       numRuns: 80,
     });
   });
@@ -460,7 +460,7 @@ describe("DecisionEngine snapshots in score-only mode", () => {
     runHost(engine, new ScoreHost(3), (t): World => ({ mode: t >= 900 ? 0.2 : 0, degradation: 0, fault: 0 }), 1000, { acknowledgeAfter: 10 });
     expectRefusesCorruptions((s) => DecisionEngine.restore(s), engine.snapshot(), {
       sizePaths: [["core", "state", "settings", "settling"], ["core", "state", "settings", "trendWindow"]],
-      variableLengthPaths: [["core", "state", "gate", "state", "log"]],
+      variableLengthPaths: [["core", "state", "gate", "state", "log"], ["core", "state", "change", "state", "recent"]],
       numRuns: 150,
     });
   });

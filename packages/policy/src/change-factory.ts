@@ -5,9 +5,10 @@ import type { ChangeTestChoice } from "./options.js";
 export const CHANGE_REFERENCE_VALUE = 0.5;
 
 /**
- * Threshold λ of the engine's conformal martingale: on an exchangeable
- * in-control stream it alarms between two restarts with probability at most
- * 1/λ = 1 % (Ville's inequality), whatever the scores' distribution.
+ * Default threshold λ of the engine's conformal martingale (the option
+ * `martingaleThreshold`): on an exchangeable in-control stream it alarms
+ * between two restarts with probability at most 1/λ = 1 % (Ville's
+ * inequality), whatever the scores' distribution.
  */
 export const MARTINGALE_THRESHOLD = 100;
 
@@ -41,9 +42,10 @@ export function makeChangeTest(choice: ChangeTestChoice, threshold: number): Cha
  * The threshold that gives the chosen test an in-control average run length
  * of `targetArl0` samples on streams like `normalScores` (see
  * `correlatedCusumThreshold` of @leeway/change). The martingale needs no
- * calibration: it gets {@link MARTINGALE_THRESHOLD} whatever the scores.
+ * calibration: it gets `martingaleThreshold` (default
+ * {@link MARTINGALE_THRESHOLD}) whatever the scores.
  */
-export function calibratedThreshold(choice: ChangeTestChoice, normalScores: Float64Array, targetArl0: number, replicates: number, seed: string): number {
-  if (choice === "martingale") return MARTINGALE_THRESHOLD;
+export function calibratedThreshold(choice: ChangeTestChoice, normalScores: Float64Array, targetArl0: number, replicates: number, seed: string, martingaleThreshold = MARTINGALE_THRESHOLD): number {
+  if (choice === "martingale") return martingaleThreshold;
   return correlatedCusumThreshold((threshold: number) => makeChangeTest(choice, threshold), normalScores, { targetArl0, replicates, seed, k: CHANGE_REFERENCE_VALUE });
 }

@@ -2,6 +2,7 @@ import { envelope, openSnapshot, StateError, type Snapshot } from "@leeway/core"
 import { gaussianThreshold, restoreChangeTest, type ChangeReading, type ChangeTest } from "@leeway/change";
 import type { ChangeTestChoice } from "./options.js";
 import { calibratedThreshold, makeChangeTest } from "./change-factory.js";
+import { OnsetWindow, type OnsetEvidence } from "./onset-window.js";
 
 /** The settings the change rule reads. */
 export interface ChangeWatchSettings {
@@ -9,6 +10,10 @@ export interface ChangeWatchSettings {
   targetArl0: number;
   calibrationReplicates: number;
   baselineHalfLife: number;
+  /** The martingale's λ (changeTest "martingale" only). */
+  martingaleThreshold: number;
+  /** Normalised scores are clipped to ± this (σ). */
+  scoreClip: number;
 }
 
 /** The plain state of a {@link ChangeWatch}. */
@@ -16,6 +21,8 @@ export interface ChangeWatchState {
   threshold: number | null;
   test: Snapshot | null;
   baseline: number;
+  /** The latest normalised scores tested, oldest first (at most ONSET_WINDOW). */
+  recent: number[];
 }
 
 /** What the change rule puts in a decision's evidence. */
@@ -34,9 +41,11 @@ export interface ChangeEvidence {
  * calibrated mean (a few hundred samples leave it uncertain by ~0.1 σ, enough
  * to shorten a CUSUM's in-control run length severalfold) and leaves slow
  * trends to the degradation rule. The threshold is calibrated once per
- * commissioning to the target in-control ARL by block bootstrap.
+ * commissioning to the target in-control ARL by block bootstrap. The latest
+ * scores tested are kept ({@link OnsetWindow}) so that a confirmed change can
+ * be placed where the level moved.
  * @example
- * const w = new ChangeWatch({ changeTest: "cusum", targetArl0: 500, calibrationReplicates: 10, baselineHalfLife: 100 });
+ * const w = new ChangeWatch({ changeTest: "cusum", targetArl0: 500, calibrationReplicates: 10, baselineHalfLife: 100, martingaleThreshold: 100, scoreClip: 6 });
  * w.arm(Float64Array.from({ length: 200 }, (_, i) => Math.sin(i)), "seed", true);
  * let status = "stable";
  * for (let i = 0; i < 50 && status !== "change"; i++) status = w.observe(3).status;
@@ -44,12 +53,13 @@ export interface ChangeEvidence {
  */
 export class ChangeWatch {
   static readonly kind = "leeway.policy.change-watch";
-  static readonly version = 1;
+  static readonly version = 2;
   readonly #s: ChangeWatchSettings;
   readonly #alpha: number;
   #threshold: number | null = null;
   #test: ChangeTest | null = null;
   #baseline = 0; // b, in σ
+  #recent = new OnsetWindow();
 
   constructor(settings: ChangeWatchSettings) {
     this.#s = settings;
@@ -76,7 +86,7 @@ export class ChangeWatch {
     if (recalibrate || this.#threshold === null) {
       const s = this.#s;
       try {
-        this.#threshold = calibratedThreshold(s.changeTest, z, s.targetArl0, s.calibrationReplicates, seed);
+        this.#threshold = calibratedThreshold(s.changeTest, z, s.targetArl0, s.calibrationReplicates, seed, s.martingaleThreshold);
       } catch (error) {
         if (!(error instanceof StateError)) throw error;
         this.#threshold = gaussianThreshold(s.targetArl0);
@@ -85,11 +95,13 @@ export class ChangeWatch {
     }
     this.#test = makeChangeTest(this.#s.changeTest, this.#threshold);
     this.#baseline = 0;
+    this.#recent.clear();
     return fallback;
   }
 
   /** Feeds z − b to the test, then moves the baseline toward z. */
   observe(zActive: number): ChangeReading {
+    this.#recent.push(zActive);
     const reading = (this.#test as ChangeTest).observe(zActive - this.#baseline);
     this.#baseline += this.#alpha * (zActive - this.#baseline);
     return reading;
@@ -100,6 +112,14 @@ export class ChangeWatch {
     return { test: (this.#test as ChangeTest).name, statistic: reading.statistic, threshold: reading.threshold, status: reading.status, direction: reading.direction ?? null };
   }
 
+  /**
+   * Where the change that fired at sample `index` (the latest observed) most
+   * probably began: the change-point posterior over the kept scores.
+   */
+  onset(index: number): OnsetEvidence {
+    return this.#recent.onset(index);
+  }
+
   /** Restarts the test (after it fired, or a new watching span). */
   restart(): void {
     this.#test?.restart();
@@ -108,16 +128,18 @@ export class ChangeWatch {
   /** Moves the baseline back to the calibrated level (a switch to another reference). */
   resetBaseline(): void {
     this.#baseline = 0;
+    this.#recent.clear(); // the kept scores were measured against the other reference
   }
 
   /** Forgets test and threshold (a new commissioning). */
   forget(): void {
     this.#test = null;
     this.#threshold = null;
+    this.#recent.clear();
   }
 
   snapshot(): Snapshot<ChangeWatchState> {
-    return envelope(ChangeWatch.kind, ChangeWatch.version, { threshold: this.#threshold, test: this.#test === null ? null : this.#test.snapshot(), baseline: this.#baseline });
+    return envelope(ChangeWatch.kind, ChangeWatch.version, { threshold: this.#threshold, test: this.#test === null ? null : this.#test.snapshot(), baseline: this.#baseline, recent: this.#recent.plain() });
   }
 
   static restore(snapshot: unknown, settings: ChangeWatchSettings): ChangeWatch {
@@ -127,10 +149,12 @@ export class ChangeWatch {
     const test = r.raw("test") === null ? null : restoreChangeTest(r.raw("test"));
     if (test !== null && threshold === null) r.fail("threshold", "must be set while a test runs");
     const baseline = r.number("baseline");
+    const recent = OnsetWindow.read(r, "recent", settings.scoreClip);
     const w = new ChangeWatch(settings);
     w.#threshold = threshold;
     w.#test = test;
     w.#baseline = baseline;
+    w.#recent = recent;
     return w;
   }
 }

@@ -14,8 +14,8 @@ import { SiteShiftNotice } from "./site-shift-notice.js";
 
 /** Kind and version of a decision core's snapshot. */
 export const CORE_KIND = "leeway.policy.decision-core";
-/** Version 6 added the site-shift notice and one open event per cause; older versions are refused. */
-export const CORE_VERSION = 6;
+/** Version 6 added the site-shift notice and one open event per cause, version 7 the sample period in the settings (and new states of the degradation monitor and the change watch); older versions are refused. */
+export const CORE_VERSION = 7;
 
 /** The plain state of a decision core: its settings, its ledger, and one snapshot per part. */
 export interface CoreSnapshotState extends Omit<CoreLedger, "levels" | "liveLevel"> {
@@ -36,6 +36,7 @@ export interface CoreSnapshotState extends Omit<CoreLedger, "levels" | "liveLeve
 export function writeCoreSnapshot(settings: CoreSettings, ledger: CoreLedger, parts: CoreParts): Snapshot<CoreSnapshotState> {
   const plainSettings: Record<string, unknown> = {};
   for (const key of CORE_OPTION_NAMES) plainSettings[key] = settings[key];
+  plainSettings.samplePeriod = settings.samplePeriod;
   return envelope(CORE_KIND, CORE_VERSION, {
     settings: plainSettings,
     ...ledger,
@@ -64,9 +65,12 @@ export function readCoreSnapshot(snapshot: unknown, component: string): { settin
   const settingsReader = r.object("settings");
   const raw: Record<string, unknown> = {};
   for (const key of CORE_OPTION_NAMES) raw[key] = settingsReader.raw(key);
+  const samplePeriod = settingsReader.numberOrNull("samplePeriod");
+  if (samplePeriod !== null && !(samplePeriod > 0)) settingsReader.fail("samplePeriod", `must be a number of seconds > 0 or null, got ${samplePeriod}`);
   let settings: CoreSettings;
   try {
-    settings = resolveCoreSettings(component, raw, 1);
+    // spans are stored in samples: the period only turns evidence into seconds
+    settings = resolveCoreSettings(component, raw, samplePeriod);
   } catch (error) {
     r.fail("settings", `are not valid options: ${(error as Error).message}`);
   }

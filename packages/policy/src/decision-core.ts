@@ -259,7 +259,7 @@ export class DecisionCore {
     }
 
     // 2. Degradation: long decimated trends of the active reference's score and of the reference-minus-live gap.
-    p.degradation.observe(zActive, zLive);
+    p.degradation.observe(zActive, zLive, l.index);
     if (l.phase === "latched") {
       Object.assign(evidence, p.degradation.evidence(zActive, zLive));
       return this.#latchedStep(evidence, true);
@@ -287,8 +287,11 @@ export class DecisionCore {
       // degradation; it refuses retrains only while the warning stands (a full trend alarm refuses them
       // until the next commissioning).
       if (strength >= 1) return this.#latch("degradation", evidence, strength === 2);
+      // Settling starts where the level most probably moved (the change-point posterior), not at the alarm.
       l.phase = "settling";
-      p.settling.begin(l.index);
+      const onset = p.change.onset(l.index);
+      evidence.onset = onset;
+      p.settling.begin(onset.at);
       return this.#step("hold", "concept-drift", evidence);
     }
     if (p.degradation.standing) return this.#step("hold", "degradation", evidence);
@@ -703,7 +706,16 @@ export class DecisionCore {
   #step(action: Action, cause: Cause, evidence: Evidence, effects: readonly Effect[] = NO_EFFECTS): Step {
     const notice = this.#parts.siteShift.announce();
     if (notice !== null) evidence.siteShift ??= notice;
+    if (cause === "degradation") this.#limitEvidence(evidence);
     return { decision: { index: this.#ledger.index, action, cause, phase: this.#ledger.phase, evidence }, effects };
+  }
+
+  /** A degradation decision tells the time to the user's `limit` at the current rate (when one is set). */
+  #limitEvidence(evidence: Evidence): void {
+    const l = this.#ledger;
+    const level = l.levels[l.activeId];
+    const limit = level === undefined ? null : this.#parts.degradation.limitEvidence(l.index, level);
+    if (limit !== null) evidence.limit = limit;
   }
 
   #refuse(call: string, allowed: string): never {

@@ -1,8 +1,10 @@
 import { envelope, openSnapshot, type Snapshot } from "@leeway/core";
 import { BlockTrend, type TrendEvidence } from "./block-trend.js";
+import type { ScoreLevel } from "./calibration.js";
+import { LimitWatch, type LimitDecisionEvidence, type LimitSettings } from "./limit-watch.js";
 
 /** The settings the degradation rule reads (a subset of the engine's). */
-export interface DegradationSettings {
+export interface DegradationSettings extends LimitSettings {
   trendBlock: number;
   trendWindow: number;
   trendZ: number;
@@ -24,6 +26,7 @@ export interface DegradationMonitorState {
   alarmed: boolean;
   episodeAlarmed: boolean;
   warningSince: number;
+  lastBlockAt: number;
 }
 
 /**
@@ -35,14 +38,17 @@ export interface DegradationMonitorState {
  * whole window (nothing learnt meanwhile) and clears only when both trends
  * have fallen below the clearing z and the level is back near normal. An alarm's refusal
  * of retrains lasts until the next commissioning (wear does not heal).
+ *
+ * With a `limit` it also tells how long the reference's score has until it
+ * reaches that level at the current rate ({@link LimitWatch}).
  * @example
- * const m = new DegradationMonitor({ trendBlock: 10, trendWindow: 50, trendZ: 3.09, trendWarnZ: 2.33, trendClearZ: 1.64, trendMinRise: 0.5, trendMinBlocks: 20, confirmShift: 1 });
- * for (let i = 0; i < 500; i++) m.observe(i * 0.01, 0);
+ * const m = new DegradationMonitor({ trendBlock: 10, trendWindow: 50, trendZ: 3.09, trendWarnZ: 2.33, trendClearZ: 1.64, trendMinRise: 0.5, trendMinBlocks: 20, confirmShift: 1, limit: 0, scoreFloor: 1e-12, scoreClip: 6, samplePeriod: null });
+ * for (let i = 0; i < 500; i++) m.observe(i * 0.01, 0, i);
  * m.strength(); // 2
  */
 export class DegradationMonitor {
   static readonly kind = "leeway.policy.degradation-monitor";
-  static readonly version = 1;
+  static readonly version = 2;
   readonly #s: DegradationSettings;
   #referenceTrend: BlockTrend;
   #gapTrend: BlockTrend;
@@ -50,11 +56,14 @@ export class DegradationMonitor {
   #alarmed = false; // a lasting degradation alarm was raised since the last commissioning
   #episodeAlarmed = false; // the present evidence has raised its alarm
   #warningSince = 0; // index at which the present warning began
+  #lastBlockAt = -1; // index of the sample that completed the latest trend block, −1 before one
+  readonly #limit: LimitWatch;
 
   constructor(settings: DegradationSettings) {
     this.#s = settings;
     this.#referenceTrend = new BlockTrend(settings.trendBlock, settings.trendWindow);
     this.#gapTrend = new BlockTrend(settings.trendBlock, settings.trendWindow);
+    this.#limit = new LimitWatch(settings);
   }
 
   /** True while evidence stands (learning stopped, retraining refused). */
@@ -70,10 +79,19 @@ export class DegradationMonitor {
     return this.#episodeAlarmed;
   }
 
-  /** Adds one sample's normalised active-reference and live scores. */
-  observe(zActive: number, zLive: number): void {
-    this.#referenceTrend.observe(zActive);
+  /** Adds sample `index`'s normalised active-reference and live scores. */
+  observe(zActive: number, zLive: number, index: number): void {
+    if (this.#referenceTrend.observe(zActive)) this.#lastBlockAt = index;
     this.#gapTrend.observe(zActive - zLive);
+  }
+
+  /**
+   * The time to the user's limit at sample `index` under the active
+   * reference's `level`, or null without a limit (or before a block).
+   */
+  limitEvidence(index: number, level: ScoreLevel): LimitDecisionEvidence | null {
+    if (!this.#limit.active || this.#lastBlockAt < 0) return null;
+    return this.#limit.evidence(this.#referenceTrend.means, this.#lastBlockAt, index, level);
   }
 
   /** The trend evidence of a decision: the reference's trend, and the gap with its present value. */
@@ -139,6 +157,8 @@ export class DegradationMonitor {
   restartTrends(): void {
     this.#referenceTrend.restart();
     this.#gapTrend.restart();
+    this.#lastBlockAt = -1;
+    this.#limit.forget();
   }
 
   /** A new reference level: trends restart, and a warning measured against the old one does not carry over (an alarm's refusal does). */
@@ -162,6 +182,7 @@ export class DegradationMonitor {
       alarmed: this.#alarmed,
       episodeAlarmed: this.#episodeAlarmed,
       warningSince: this.#warningSince,
+      lastBlockAt: this.#lastBlockAt,
     });
   }
 
@@ -174,6 +195,8 @@ export class DegradationMonitor {
     const episodeAlarmed = r.boolean("episodeAlarmed");
     if (episodeAlarmed && !standing) r.fail("episodeAlarmed", "can be true only while evidence stands");
     const warningSince = r.integer("warningSince", 0, Number.MAX_SAFE_INTEGER);
+    const lastBlockAt = r.integer("lastBlockAt", -1, Number.MAX_SAFE_INTEGER);
+    if ((lastBlockAt < 0) !== (referenceTrend.blocks === 0)) r.fail("lastBlockAt", `must be −1 exactly while the trend holds no block, got ${lastBlockAt} with ${referenceTrend.blocks} blocks`);
     const m = new DegradationMonitor(settings);
     m.#referenceTrend = referenceTrend;
     m.#gapTrend = gapTrend;
@@ -181,6 +204,7 @@ export class DegradationMonitor {
     m.#alarmed = alarmed;
     m.#episodeAlarmed = episodeAlarmed;
     m.#warningSince = warningSince;
+    m.#lastBlockAt = lastBlockAt;
     return m;
   }
 }

@@ -11,6 +11,8 @@ export { ScriptedOperator } from "./scripted-operator.js";
 export type { OperatorAction } from "./scripted-operator.js";
 export { limitEvidence } from "./limit-evidence.js";
 export type { LimitEvidence, LimitEvidenceInput, LimitEstimate, LimitReached, LimitRefused, LimitRefusal } from "./limit-evidence.js";
+export type { LimitDecisionEvidence, LimitSeconds } from "./limit-watch.js";
+export type { TrendEvidence } from "./block-trend.js";
 export { changeOnset } from "./change-onset.js";
 export type { ChangeOnset, ChangeOnsetOptions } from "./change-onset.js";
 export { FeatureAttribution } from "./feature-attribution.js";

@@ -38,7 +38,8 @@ export const CORE_OPTIONS = optionTable("DecisionEngine", {
   anomalyExitMargin: { kind: "number", default: 0, min: 0, unit: "σ", doc: "Margin below which the anomaly state is left again (hysteresis); at most anomalyMargin." },
   anomalyRun: { kind: "integer", default: 5, min: 1, max: 100_000, unit: "samples", doc: "Consecutive anomalous samples that raise an alarm with cause anomaly." },
   anomalyExcess: { kind: "number", default: 3, min: 0, max: 1000, unit: "σ", doc: "An episode also raises the alarm before anomalyRun samples when its samples together lie this far above the entry threshold: Σ (u − u_enter)/σ (one sample 3σ past it, or three 1σ past it); 0: only the run counts." },
-  changeTest: { kind: "choice", default: "cusum", choices: ["cusum", "page-hinkley", "martingale"], doc: "The change test on the active reference's normalised score: cusum or page-hinkley (two-sided, reference value 0.5 σ, threshold calibrated to targetArl0), or martingale (a two-sided conformal test martingale with threshold 100: on an exchangeable in-control stream a false alarm between two restarts has probability at most 1 %, with no calibration run; slower to detect)." },
+  changeTest: { kind: "choice", default: "cusum", choices: ["cusum", "page-hinkley", "martingale"], doc: "The change test on the active reference's normalised score: cusum or page-hinkley (two-sided, reference value 0.5 σ, threshold calibrated to targetArl0), or martingale (a two-sided conformal test martingale with threshold martingaleThreshold: on an exchangeable in-control stream a false alarm between two restarts has probability at most 1/martingaleThreshold, with no calibration run; slower to detect)." },
+  martingaleThreshold: { kind: "number", default: 100, min: 1, max: 1e12, minExclusive: true, unit: "ratio", doc: "changeTest martingale only: the level λ of the martingale that signals a change; by Ville's inequality a false alarm between two restarts has probability at most 1/λ (100: 1 %). Higher is slower to detect." },
   targetArl0: { kind: "number", default: 20000, min: 100, max: 1e7, unit: "samples", doc: "Target in-control average run length of the change test; its threshold is calibrated to it at the end of commissioning (not used by the martingale)." },
   calibrationReplicates: { kind: "integer", default: 100, min: 10, max: 10_000, unit: "replicates", doc: "Bootstrap replicates of that calibration (cost grows with replicates; not used by the martingale)." },
   baselineHalfLife: { kind: "span", default: "30m", atLeast: 30, min: 1, max: MAX_SAMPLES, doc: "Half-life of the slowly following baseline the change test measures from." },
@@ -57,7 +58,7 @@ export const CORE_OPTIONS = optionTable("DecisionEngine", {
   trendClearZ: { kind: "number", default: 1.64, min: 0, unit: "z", doc: "z below which standing degradation evidence clears (hysteresis); at most trendWarnZ." },
   trendMinRise: { kind: "number", default: 0.5, min: 0, unit: "σ", doc: "Smallest rise over the window (Theil-Sen slope × window span) that counts as degradation." },
   trendMinBlocks: { kind: "integer", default: 20, min: 3, max: MAX_SAMPLES, unit: "blocks", doc: "Smallest window filling before a trend can raise anything; at most trendWindow." },
-  limit: { kind: "number", default: 0, min: 0, unit: "score units", doc: "A score level of the active reference whose time to be reached is estimated from the degradation trend window (limitEvidence: expected samples and a 90 % interval, or why not); 0: no limit. The decision core does not read it yet." },
+  limit: { kind: "number", default: 0, min: 0, unit: "score units", doc: "A score level of the active reference whose time to be reached is estimated from the degradation trend window, once per trend block, and put in the evidence of every degradation decision (evidence.limit: expected samples and a 90 % interval from the current sample, in seconds too when samplePeriod is given, or the reason for refusing); 0: no limit. It changes no decision." },
   retrain: { kind: "choice", default: "auto", choices: ["auto", "confirm", "never"], doc: "What a confirmed drift that no known mode explains leads to: retrain at once, ask an operator, or never (a concept-drift alarm instead)." },
   persistentAnomaly: { kind: "choice", default: "confirm", choices: ["confirm", "as-drift"], doc: "After an acknowledged anomaly alarm whose level persists through settling: confirm asks the operator even under retrain auto; as-drift retrains on it like on any drift (it would learn an hour-long clog acknowledged while it lasts as normal)." },
   attendance: { kind: "choice", default: "attended", choices: ["attended", "unattended"], doc: "attended: someone answers alarms (acknowledge) and questions; unattended: nobody does, so an alarm is reported once, an anomaly's latch clears itself after latchClear of normal scores, a concept-drift latch accepts the level after latchClear, a degradation latch holds until the next commissioning, and no question is asked (a settled change without a fault's signature retrains by itself, one with it raises an anomaly alarm). Refused with retrain confirm." },
@@ -88,8 +89,12 @@ export const FEATURE_OPTIONS = optionTable("DecisionEngine", {
   validationTolerance: { kind: "number", default: 2, min: 1, unit: "ratio", doc: "Feature mode only: a candidate passes when its held-out loss is at most this multiple of its training loss (and below the active reference's)." },
 });
 
-/** The validated, complete option set of the core (plain data; it travels in snapshots); spans in samples. */
-export type CoreSettings = ResolvedOptions<typeof CORE_OPTIONS.rows> & { changeTest: ChangeTestChoice; retrain: RetrainMode; persistentAnomaly: PersistentAnomalyMode; attendance: Attendance; featureSignature: "evidence" | "rules"; nonFinite: "refuse" | "skip" };
+/**
+ * The validated, complete option set of the core (plain data; it travels in
+ * snapshots); spans in samples. `samplePeriod` is the engine's, in seconds,
+ * or null when it was not given (evidence then counts in samples only).
+ */
+export type CoreSettings = ResolvedOptions<typeof CORE_OPTIONS.rows> & { changeTest: ChangeTestChoice; retrain: RetrainMode; persistentAnomaly: PersistentAnomalyMode; attendance: Attendance; featureSignature: "evidence" | "rules"; nonFinite: "refuse" | "skip"; samplePeriod: number | null };
 
 /** The options the core accepts: each as in {@link CORE_OPTIONS}; spans as a count of samples or a duration such as "15m". */
 export type DecisionCoreOptions = { [K in keyof CoreSettings]?: CoreSettings[K] | (K extends SpanName ? string : never) };
@@ -102,11 +107,11 @@ export type FeatureOptionSettings = ResolvedOptions<typeof FEATURE_OPTIONS.rows>
 /** Options of the feature mode (ignored keys are refused in score-only mode); see {@link FEATURE_OPTIONS}. */
 export type FeatureModelOptions = Partial<FeatureOptionSettings>;
 
-/** The option names of the core, in table order. */
+/** The option names of the core, in table order (`samplePeriod` is the engine's own, kept beside them). */
 export const CORE_OPTION_NAMES = CORE_OPTIONS.names;
 
 /** The core's defaults at one sample per second. */
-export const CORE_DEFAULTS: Readonly<CoreSettings> = Object.freeze(CORE_OPTIONS.defaults() as CoreSettings);
+export const CORE_DEFAULTS: Readonly<CoreSettings> = Object.freeze({ ...(CORE_OPTIONS.defaults() as Omit<CoreSettings, "samplePeriod">), samplePeriod: null });
 
 /** Every engine option as plain rows (the two tables and `inputs`, `samplePeriod`), for docs and config schemas. */
 export function describeEngineOptions(): OptionDescription[] {
@@ -117,9 +122,12 @@ export function describeEngineOptions(): OptionDescription[] {
   ];
 }
 
-/** Validates the core's options (missing ones take their defaults at `samplePeriod`); throws OptionError naming the option. */
-export function resolveCoreSettings(component: string, options: Readonly<Record<string, unknown>>, samplePeriod: number): CoreSettings {
-  const s = CORE_OPTIONS.resolve(options, { samplePeriod }) as CoreSettings;
+/**
+ * Validates the core's options (missing ones take their defaults at
+ * `samplePeriod`, 1 s when null: not given); throws OptionError naming the option.
+ */
+export function resolveCoreSettings(component: string, options: Readonly<Record<string, unknown>>, samplePeriod: number | null): CoreSettings {
+  const s = { ...(CORE_OPTIONS.resolve(options, { samplePeriod: samplePeriod ?? 1 }) as Omit<CoreSettings, "samplePeriod">), samplePeriod };
   if (s.anomalyExitMargin > s.anomalyMargin) throw new OptionError(component, "anomalyExitMargin", s.anomalyExitMargin, `a number in [0, anomalyMargin = ${s.anomalyMargin}]`);
   if (s.settlingLimit < s.settling) throw new OptionError(component, "settlingLimit", s.settlingLimit, `an integer >= settling = ${s.settling}`);
   if (s.trendWarnZ > s.trendZ) throw new OptionError(component, "trendWarnZ", s.trendWarnZ, `a number in (0, trendZ = ${s.trendZ}]`);
@@ -129,7 +137,7 @@ export function resolveCoreSettings(component: string, options: Readonly<Record<
   return s;
 }
 
-/** Reads `samplePeriod` (seconds or a duration; default 1). */
-export function resolveSamplePeriod(component: string, value: unknown): number {
-  return value === undefined ? 1 : samplePeriodOption(component, "samplePeriod", value);
+/** Reads `samplePeriod` (seconds or a duration), or null when it is not given. */
+export function resolveSamplePeriod(component: string, value: unknown): number | null {
+  return value === undefined ? null : samplePeriodOption(component, "samplePeriod", value);
 }

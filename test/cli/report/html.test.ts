@@ -81,6 +81,32 @@ describe("renderReport", () => {
     expect(html).toContain("<strong>What moved</strong> (degradation: moved bands): 37, 38, 112");
     expect(html).toContain("<strong>Time to the limit</strong> (degradation: samples to limit): 1800 samples (≈ 5 h)");
   });
+  it("the headline tells the engine's time to its limit at the current rate: for an open alarm from the latest decision, else per engine", () => {
+    const n = 400;
+    const limit = (i: number) => ({ status: "estimated", limit: 0.25, limitSigma: 5, confidence: 0.9, pValue: 0.001, slope: 1e-4, slopeLower: 5e-5, slopeUpper: 2e-4, levelSigma: 2, expected: 2000 - i, earliest: 1000 - i, latest: 4000 - i, crossingIndex: 2000, seconds: null });
+    const open = new ReportCollector();
+    for (let i = 0; i < n; i++) {
+      const d = handMadeDecision(i, n);
+      if (d.phase === "latched") d.evidence.limit = limit(i);
+      open.add(d, null);
+    }
+    const a = open.result();
+    const html = renderReport({ title: "t", timeline: a.all, lanes: a.lanes, samplePeriod: 10, version: "0" });
+    // the last decision (sample 399) tells 601 to 3601 samples of 10 s
+    expect(html).toContain("<strong>Time to the limit</strong>: limit 0.25 (score) reached in 1.7 h to 10 h at the current rate (expected 4.4 h; 90 % interval, 601 to 3601 samples)");
+    expect(html).not.toContain("(time to the limit: limit)");
+    const closed = new ReportCollector();
+    for (let i = 0; i < n; i++) {
+      const d = handMadeDecision(i, n);
+      if (d.phase === "latched") d.phase = "watching";
+      if (d.cause === "degradation") d.evidence.limit = i < 390 ? limit(i) : { status: "refused", limit: 0.25, limitSigma: 5, confidence: 0.9, pValue: 0.4, reason: "no-significant-trend", detail: "no trend at α = 0.1", slopeLower: null, slopeUpper: null, seconds: null };
+      closed.add(d, null);
+    }
+    const c = closed.result();
+    const calm = renderReport({ title: "t", timeline: c.all, lanes: c.lanes, samplePeriod: 10, version: "0" });
+    expect(calm).toContain("Time to the limit at the latest degradation evidence");
+    expect(calm).toMatch(/limit 0\.25 \(score\): no time estimated — no trend at α = 0\.1 \(as of /);
+  });
   it("the time axis is wall-clock time from the time column, or from a sample period, or sample numbers", () => {
     const clock = report(1000, { time: (i) => new Date(Date.UTC(2026, 2, 2, 6) + i * 60_000).toISOString() });
     expect(clock).toMatch(/class="tick">2026-03-02 1\d:00<\/text>/);

@@ -1,6 +1,7 @@
 import type { Cause } from "@leeway/policy";
 import { fieldLabel, sectionLabel, testLabel } from "./glossary.js";
 import { formatNumber } from "./scale.js";
+import { isLimitEvidence } from "./limit-words.js";
 
 /** Evidence sections that explain each cause, most telling first. */
 const SECTIONS_OF: Readonly<Partial<Record<Cause, readonly string[]>>> = {
@@ -79,7 +80,8 @@ function rank(order: readonly string[], key: string): number {
  * Fields of a decision's evidence that name what moved or how long remains,
  * found by their names wherever they sit: a list of features or bands that
  * moved (`moved`, `movedFeatures`, `bands`, …) and an estimate of the time to
- * a limit (`timeToLimit`, `samplesToLimit`, …, in samples).
+ * a limit (`timeToLimit`, `samplesToLimit`, …, in samples). The engine's own
+ * `limit` section (a time-to-limit answer) is left to the headline's sentence.
  * @example
  * movedAndLimit({ liveScore: 1, referenceScores: [], degradation: { movedBands: [12, 13], samplesToLimit: 4000 } });
  * // { moved: [{ label: "degradation: moved bands", values: "12, 13" }], limits: [{ label: "degradation: samples to limit", samples: 4000 }] }
@@ -91,6 +93,7 @@ export function movedAndLimit(evidence: Record<string, unknown>): { moved: { lab
     if (depth > 4 || typeof value !== "object" || value === null) return;
     for (const [k, v] of Object.entries(value as Record<string, unknown>)) {
       const p = path === "" ? k : `${path}.${k}`;
+      if (path === "" && k === "limit" && isLimitEvidence(v)) continue;
       if (/moved|bands|features/i.test(k) && Array.isArray(v) && v.length > 0) {
         const w = valueWords(v.map((x) => (typeof x === "object" && x !== null ? (x as Record<string, unknown>).name ?? (x as Record<string, unknown>).index ?? null : x)));
         if (w !== null) moved.push({ label: fieldLabel(p), values: w });

@@ -1,6 +1,7 @@
 import type { ReplayMetrics } from "@leeway/eval";
 import type { Decision } from "@leeway/policy";
 import { evidenceWords, movedAndLimit } from "./evidence-words.js";
+import { isLimitEvidence, limitSentence } from "./limit-words.js";
 import { ACTION_WORDS, CAUSE_WORDS, CAUSE_SHORT } from "./glossary.js";
 import type { Lane } from "./lanes.js";
 import type { AxisSpan } from "./plots.js";
@@ -32,14 +33,33 @@ function openItem(title: string, opened: { decision: Decision; time: string | nu
   const answered = held !== undefined ? `acknowledged; held as the same event until the score reaches ${formatNumber(held.realarmAt)}` : "not yet acknowledged";
   const evidence = d.evidence as unknown as Record<string, unknown>;
   const { moved, limits } = movedAndLimit(evidence);
+  // the time to the user's limit at the current rate: from the latest decision when it still tells it
+  const limit = [last.evidence.limit, evidence.limit].find(isLimitEvidence);
   const lines = [
     `<li>since ${escapeXml(w.at)}, ${escapeXml(w.before)} before the end of the record; ${escapeXml(answered)}</li>`,
     `<li>live model score then ${escapeXml(formatNumber(d.evidence.liveScore))}${d.evidence.referenceScores.length > 0 ? `, commissioning reference score ${escapeXml(formatNumber(d.evidence.referenceScores[0] as number))}` : ""}</li>`,
     ...evidenceWords(evidence, d.cause, 3).map((e) => `<li>${escapeXml(e)}</li>`),
     ...moved.map((m) => `<li><strong>What moved</strong> (${escapeXml(m.label)}): ${escapeXml(m.values)}</li>`),
+    ...(limit === undefined ? [] : [`<li><strong>Time to the limit</strong>: ${escapeXml(limitSentence(limit, axis))}</li>`]),
     ...limits.map((l) => `<li><strong>Time to the limit</strong> (${escapeXml(l.label)}): ${escapeXml(samplesWithTime(axis, l.samples))}</li>`),
   ];
   return `<div class="attention" role="region" aria-label="${escapeXml(`${title}: ${state}`)}"><h3>${escapeXml(title)} — ${escapeXml(state)}</h3><ul>${lines.join("")}</ul></div>`;
+}
+
+/**
+ * "Time to the limit" per engine whose latest degradation decision told it
+ * (`evidence.limit`) and whose open alarm does not show it already.
+ */
+function limitItems(lanes: readonly Lane[], laneTitle: (name: string) => string, axis: AxisSpan): string {
+  const items: string[] = [];
+  for (const lane of lanes) {
+    const at = lane.timeline.lastLimit;
+    if (at === null || lane.timeline.openedBy !== null) continue;
+    const limit = at.decision.evidence.limit;
+    if (!isLimitEvidence(limit)) continue;
+    items.push(`<li><strong>${escapeXml(laneTitle(lane.name))}</strong>: ${escapeXml(limitSentence(limit, axis))} (as of ${escapeXml(when(axis, at.decision.index).at)})</li>`);
+  }
+  return items.length === 0 ? "" : `<div class="attention limits" role="region" aria-label="Time to the limit"><h3>Time to the limit at the latest degradation evidence</h3><ul>${items.join("")}</ul></div>`;
 }
 
 /** Alarms, retrains and mode switches of the record, counted from its decision changes. */
@@ -77,7 +97,8 @@ function keyFigures(m: ReplayMetrics): string {
  * each engine with a latched alarm, a retrain waiting for confirmation or an
  * acknowledged event it still holds,
  * its cause, since when, the evidence in words, and what moved or how long
- * remains to a limit when the evidence says so — then the record's alarms,
+ * remains to a limit when the evidence says so — then, per engine with a
+ * limit, the time to it at the latest degradation decision, the record's alarms,
  * retrains and switches and, with labels, the key figures.
  */
 export function headline(content: { timeline: ReportTimeline; metrics?: ReplayMetrics }, lanes: readonly Lane[], laneTitle: (name: string) => string, axis: AxisSpan): string {
@@ -86,7 +107,8 @@ export function headline(content: { timeline: ReportTimeline; metrics?: ReplayMe
     const tl = lane.timeline;
     if (tl.openedBy !== null && tl.last !== null) open.push(openItem(laneTitle(lane.name), tl.openedBy, tl.last, axis));
   }
+  const limits = limitItems(lanes, laneTitle, axis);
   const calm = open.length === 0 ? `<div class="attention calm"><h3>Nothing is open at the end of the record</h3><p>No alarm is latched and no retrain waits for confirmation.</p></div>` : "";
   const metrics = content.metrics === undefined ? "" : keyFigures(content.metrics);
-  return `<section aria-labelledby="h-attention"><h2 id="h-attention">What needs attention</h2>${open.join("")}${calm}<p>${escapeXml(episodes(content.timeline))}</p>${metrics}</section>`;
+  return `<section aria-labelledby="h-attention"><h2 id="h-attention">What needs attention</h2>${open.join("")}${calm}${limits}<p>${escapeXml(episodes(content.timeline))}</p>${metrics}</section>`;
 }

@@ -80,6 +80,7 @@ export class TimelineCollector {
   #lastTime: string | number | null = null;
   #lastDecision: Decision | null = null;
   #openedBy: { decision: Decision; time: string | number | null } | null = null;
+  #lastLimit: { decision: Decision; time: string | number | null } | null = null;
 
   constructor(options: TimelineCollectorOptions = {}) {
     const o = optionsObject<TimelineCollectorOptions>("TimelineCollector", options, ["columns", "transitions", "series", "origin"]);
@@ -126,6 +127,7 @@ export class TimelineCollector {
     if (!open) this.#openedBy = null;
     else if (this.#openedBy === null || (last !== null && last.phase !== decision.phase && !acknowledged)) this.#openedBy = { decision, time };
     this.#lastDecision = decision;
+    if (typeof decision.evidence.limit === "object" && decision.evidence.limit !== null) this.#lastLimit = { decision, time };
     if (last === null || last.action !== decision.action || last.cause !== decision.cause || last.phase !== decision.phase) {
       this.#last = { action: decision.action, cause: decision.cause, phase: decision.phase };
       if (this.#transitions.length < this.#maxTransitions) {
@@ -238,6 +240,7 @@ export class TimelineCollector {
       lastTime: this.#lastTime,
       last: this.#lastDecision,
       openedBy: this.#openedBy,
+      lastLimit: this.#lastLimit,
       firstIndex: this.#firstDecisionIndex,
       lastIndex: this.#lastDecisionIndex,
       bucketWidth: this.#width,
@@ -266,6 +269,8 @@ export interface ReportTimeline {
   last: Decision | null;
   /** The decision (and its time) that opened the state the last decision is in, when that state needs attention (a latched alarm, a retrain awaiting confirmation); else null. */
   openedBy: { decision: Decision; time: string | number | null } | null;
+  /** The latest decision (and its time) whose evidence tells the time to the engine's limit (`evidence.limit`), or null. */
+  lastLimit: { decision: Decision; time: string | number | null } | null;
   /** `index` of the first and last decision. */
   firstIndex: number;
   lastIndex: number;
