@@ -1,14 +1,13 @@
 import { describe, expect, it } from "vitest";
 import { DecisionEngine, ModeRouter, type LimitDecisionEvidence } from "@leeway/policy";
 import { harbourLane, MachineSimulator } from "@leeway/sim";
-import { DEMO_LIMIT, demoEngineOptions } from "../../packages/cli/src/commands/demo.js";
+import { DEMO_LIMIT, DEMO_SCALE, demoEngineOptions } from "../../packages/cli/src/commands/demo.js";
 import { nonFinitePaths } from "../fuzz/probe.js";
 
 // Issue 16, item 5: a quantity not yet computed is absent or null, never NaN. The demo's own run (the
-// Harbour Lane week, one feature-mode engine per speed, the demo's scripted operator) at half its default
-// rate (one sample every 20 s: half the cost) goes through commissioning, calibration, watching, settling,
-// a retrain and latched alarms of every cause.
-const SCALE = 180;
+// Harbour Lane week at its default rate, one feature-mode engine per speed, the demo's scripted operator)
+// goes through commissioning, calibration, watching, settling, retrains and latched alarms of every cause.
+const SCALE = DEMO_SCALE;
 describe("decisions over the demo scenario", () => {
   it("carry no NaN or ±Infinity anywhere in their evidence, and every degradation decision tells the time to the demo's limit", () => {
     const sim = new MachineSimulator(harbourLane({ scale: SCALE, seed: "harbour-lane" }));
@@ -40,8 +39,7 @@ describe("decisions over the demo scenario", () => {
     expect(degradation).toBeGreaterThan(1000);
     // a degradation decision before the trend's first block has no line to extend: none here
     expect(withoutLimit).toBe(0);
-    // a line that reaches the limit (estimated or already there); the estimate's arithmetic is checked in limit-watch.test.ts
-    expect((limits.get("estimated") ?? 0) + (limits.get("reached") ?? 0)).toBeGreaterThan(0);
+    expect(limits.get("estimated")).toBeGreaterThan(0);
     expect(disordered).toBe(0);
   });
 });
