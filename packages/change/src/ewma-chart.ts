@@ -322,7 +322,7 @@ function ewmaLoop(xs: Float64Array, from: number, s: Float64Array, zs: Float64Ar
   let q = s[LOOP.q] as number;
   const n = xs.length;
   const block = zs.length;
-  let j = from;
+  let j = from | 0; // an int32 index: a double here turned every index into a float and boxed it each sample
   let found = -1;
   for (;;) {
     const blockStart = j;
@@ -346,6 +346,6 @@ function ewmaLoop(xs: Float64Array, from: number, s: Float64Array, zs: Float64Ar
     s[LOOP.q] = q;
     const length = j - blockStart;
     if (endBlock(s, xs, blockStart, j, end, found, findLastNonPositive(zs, length), findLastNonNegative(zs, length))) return found;
-    j = s[SCAN.j] as number;
+    j = (s[SCAN.j] as number) | 0;
   }
 }

@@ -296,7 +296,7 @@ function pageHinkleyLoop(xs: Float64Array, from: number, s: Float64Array, upSums
   let lo = s[LOOP.lo] as number;
   const n = xs.length;
   const block = upSums.length;
-  let j = from;
+  let j = from | 0; // an int32 index: a double here turned every index into a float and boxed it each sample
   let found = -1;
   for (;;) {
     const blockStart = j;
@@ -330,6 +330,6 @@ function pageHinkleyLoop(xs: Float64Array, from: number, s: Float64Array, upSums
     s[LOOP.lo] = lo;
     const length = j - blockStart;
     if (endBlock(s, xs, blockStart, j, end, found, findLastZero(upSums, length), findLastZero(lowSums, length))) return found;
-    j = s[SCAN.j] as number;
+    j = (s[SCAN.j] as number) | 0;
   }
 }
