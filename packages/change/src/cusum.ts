@@ -10,10 +10,11 @@ import {
   type Snapshot,
 } from "@leeway/core";
 import { acceptSample, MAX_SAMPLE_MAGNITUDE } from "@leeway/stats";
-import type { ChangeDirection, ChangeReading, ChangeSides, ChangeTest } from "./change-test.js";
+import type { ChangeReading, ChangeSides, ChangeTest } from "./change-test.js";
 import { burnInSigma, burnInStep, inControlOptions, readInControlLevel, type BurnIn } from "./burn-in.js";
 import { scanStart, sidesOption, warningFractionOption } from "./options.js";
 import { buildFromSnapshot, definedOnly, readLevelTestFields } from "./restore-support.js";
+import { sumsReading, SumsScratch } from "./sums-reading.js";
 import { closeBlock, finishScan, lastZero, openScan, SCAN, SCAN_BLOCK, scanPosition } from "./scan-block.js";
 
 /** Options of {@link Cusum}. Give `mean` and `sigma`, or `burnIn` to estimate them. */
@@ -104,6 +105,7 @@ export class Cusum implements ChangeTest {
   #loop: Float64Array | null = null; // scan's state in and out of cusumLoop
   #upSums: Float64Array | null = null; // scan's per-block C⁺ (allocated by the first scan), to find the last zero
   #lowSums: Float64Array | null = null;
+  readonly #scratch = new SumsScratch(); // observe's reading chooses its side through it
 
   constructor(options: CusumOptions = {}) {
     const o = optionsObject<CusumOptions>(NAME, options, KNOWN);
@@ -174,8 +176,9 @@ export class Cusum implements ChangeTest {
     const up = (upRaw + Math.abs(upRaw)) * 0.5; // max(0, ·) without a branch
     const loRaw = this.#lower + (-z - this.#k);
     const lo = (loRaw + Math.abs(loRaw)) * 0.5; // max(0, ·) without a branch
-    if (up === 0) this.#upperZero = i;
-    if (lo === 0) this.#lowerZero = i;
+    // the last zeros move to i when a sum is 0, by arithmetic (on in-control scores a branch here is a coin toss)
+    this.#upperZero += (i - this.#upperZero) * +(up === 0);
+    this.#lowerZero += (i - this.#lowerZero) * +(lo === 0);
     this.#upper = up;
     this.#lower = lo;
     return this.#reading(i);
@@ -279,19 +282,12 @@ export class Cusum implements ChangeTest {
 
   #reading(i: number): ChangeReading {
     if (this.#burnIn !== null) return { index: i, status: "stable", statistic: 0, threshold: this.#h, skipped: this.#skipped };
-    const watchUp = this.#direction !== "down";
-    const watchDown = this.#direction !== "up";
-    const up = watchUp ? this.#upper : 0;
-    const lo = watchDown ? this.#lower : 0;
-    const statistic = up >= lo ? up : lo;
+    const up = this.#direction !== "down" ? this.#upper : 0;
+    const lo = this.#direction !== "up" ? this.#lower : 0;
     const change = this.#upper > this.#hUp || this.#lower > this.#hDown;
-    const status = change ? "change" : statistic > this.#warningFraction * this.#h ? "warning" : "stable";
     // One object shape for every reading (direction and onset undefined while the statistic is 0), so
     // that in-control data, where the sums hit zero at random, does not flip between two shapes.
-    const active = statistic > 0;
-    const direction: ChangeDirection | undefined = active ? (up >= lo ? "up" : "down") : undefined;
-    const onset = active ? (direction === "up" ? this.#upperZero : this.#lowerZero) + 1 : undefined;
-    return { index: i, status, statistic, threshold: this.#h, direction, onset, skipped: this.#skipped };
+    return makeReading(this.#scratch, i, change, this.#warningFraction * this.#h, up, lo, this.#upperZero, this.#lowerZero, this.#h, this.#skipped);
   }
 }
 
@@ -301,6 +297,7 @@ const LOOP = { mu: SCAN.own, inv: SCAN.own + 1, k: SCAN.own + 2, hUp: SCAN.own +
 // Module-local copies: under the test runner's module loader an imported binding is a getter on a
 // module object, which the loop's engine code would call (and not inline) after every block.
 const findLastZero = lastZero;
+const makeReading = sumsReading;
 const endBlock = closeBlock;
 const accept = acceptSample;
 const LIMIT = MAX_SAMPLE_MAGNITUDE;

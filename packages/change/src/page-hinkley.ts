@@ -11,9 +11,10 @@ import {
   type Snapshot,
 } from "@leeway/core";
 import { acceptSample, MAX_SAMPLE_MAGNITUDE } from "@leeway/stats";
-import type { ChangeDirection, ChangeReading, ChangeSides, ChangeTest } from "./change-test.js";
+import type { ChangeReading, ChangeSides, ChangeTest } from "./change-test.js";
 import { scanStart, sidesOption, warningFractionOption } from "./options.js";
 import { buildFromSnapshot, definedOnly, readLevelTestFields } from "./restore-support.js";
+import { sumsReading, SumsScratch } from "./sums-reading.js";
 import { closeBlock, finishScan, lastZero, openScan, SCAN, SCAN_BLOCK, scanPosition } from "./scan-block.js";
 
 /** Options of {@link PageHinkley}. */
@@ -98,6 +99,7 @@ export class PageHinkley implements ChangeTest {
   #loop: Float64Array | null = null; // scan's state in and out of pageHinkleyLoop
   #upSums: Float64Array | null = null; // scan's per-block sums, to find the last zero
   #lowSums: Float64Array | null = null;
+  readonly #scratch = new SumsScratch(); // observe's reading chooses its side through it
 
   constructor(options: PageHinkleyOptions) {
     const o = optionsObject<PageHinkleyOptions>(NAME, options, KNOWN);
@@ -156,8 +158,8 @@ export class PageHinkley implements ChangeTest {
     const up = (upRaw + Math.abs(upRaw)) * 0.5; // max(0, ·) without a branch
     const loRaw = this.#lower + (-d - this.#tolerance);
     const lo = (loRaw + Math.abs(loRaw)) * 0.5; // max(0, ·) without a branch
-    if (up === 0) this.#upperZero = i;
-    if (lo === 0) this.#lowerZero = i;
+    this.#upperZero += (i - this.#upperZero) * +(up === 0);
+    this.#lowerZero += (i - this.#lowerZero) * +(lo === 0);
     this.#upper = up;
     this.#lower = lo;
     return this.#reading(i);
@@ -253,14 +255,9 @@ export class PageHinkley implements ChangeTest {
   #reading(i: number): ChangeReading {
     const up = this.#direction !== "down" ? this.#upper : 0;
     const lo = this.#direction !== "up" ? this.#lower : 0;
-    const statistic = up >= lo ? up : lo;
     const armed = this.#count >= this.#armAfter;
     const change = armed && (this.#upper > this.#lambdaUp || this.#lower > this.#lambdaDown);
-    const status = change ? "change" : statistic > this.#warningFraction * this.#threshold ? "warning" : "stable";
-    if (!(statistic > 0)) return { index: i, status, statistic, threshold: this.#threshold, skipped: this.#skipped };
-    const direction: ChangeDirection = up >= lo ? "up" : "down";
-    const onset = (direction === "up" ? this.#upperZero : this.#lowerZero) + 1;
-    return { index: i, status, statistic, threshold: this.#threshold, direction, onset, skipped: this.#skipped };
+    return makeReading(this.#scratch, i, change, this.#warningFraction * this.#threshold, up, lo, this.#upperZero, this.#lowerZero, this.#threshold, this.#skipped);
   }
 }
 
@@ -273,6 +270,7 @@ const LOOP = {
 // Module-local copies: under the test runner's module loader an imported binding is a getter on a
 // module object, which the loop's engine code would call (and not inline) after every block.
 const findLastZero = lastZero;
+const makeReading = sumsReading;
 const endBlock = closeBlock;
 const accept = acceptSample;
 const LIMIT = MAX_SAMPLE_MAGNITUDE;
