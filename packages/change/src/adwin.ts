@@ -344,7 +344,9 @@ export class Adwin implements ChangeTest {
   /**
    * Takes the finite samples xs[from], xs[from + 1], … before `stop` (at most up to the next check),
    * each as a new bucket of size 1 followed by the histogram's merges; returns where it stopped (at
-   * `stop` or at the first non-finite sample). The state stays in locals while it runs.
+   * `stop` or at the first non-finite sample). The state stays in locals while it runs, level 0's
+   * count and head too: that level changes at every sample, and kept in its typed array each sample's
+   * count waited for the previous sample's store.
    */
   #insertRun(xs: Float64Array, from: number, stop: number): number {
     const cap = this.#cap;
@@ -357,42 +359,39 @@ export class Adwin implements ChangeTest {
     let total = this.#total;
     let width = this.#width;
     let levels = this.#levels;
+    let c0 = counts[0] as number;
+    let h0 = heads[0] as number;
     let j = from;
     for (; j < stop; j++) {
       const x = xs[j] as number;
       if (!(Math.abs(x) <= ADWIN_LIMIT)) break; // NaN, ±Infinity or beyond the accepted range
       total += x;
       width += 1;
-      const c0 = counts[0] as number;
-      const at = ((heads[0] as number) + c0) & mask;
+      const at = (h0 + c0) & mask;
       totals[at] = x;
       m2s[at] = 0;
-      counts[0] = c0 + 1;
-      if (levels === 0) levels = 1;
-      if (c0 < m) continue;
-      // n = 2^l and its reciprocal (exact): d = (t₀ − t₁)·(1/n) equals (t₀ − t₁)/n bit for bit
-      for (let l = 0, n = 1, inverse = 1; (counts[l] as number) > m; l++, n *= 2, inverse *= 0.5) {
-        // merge the two oldest buckets of level l (each of n = 2^l samples) into one of level l + 1
-        if (l + 1 >= MAX_LEVELS) throw new RangeError("Adwin: window too long for the histogram");
-        const base = l * cap;
-        const h = heads[l] as number;
-        const i0 = base + h;
-        const i1 = base + ((h + 1) & mask);
-        const t0 = totals[i0] as number;
-        const t1 = totals[i1] as number;
-        const d = (t0 - t1) * inverse;
-        const mergedTotal = t0 + t1;
-        const mergedM2 = (m2s[i0] as number) + (m2s[i1] as number) + d * d * n * 0.5; // M₂,₀ + M₂,₁ + n·d²/2
-        heads[l] = (h + 2) & mask;
-        counts[l] = (counts[l] as number) - 2;
-        const cn = counts[l + 1] as number;
-        const next = (l + 1) * cap + (((heads[l + 1] as number) + cn) & mask);
-        totals[next] = mergedTotal;
-        m2s[next] = mergedM2;
-        counts[l + 1] = cn + 1;
-        if (l + 2 > levels) levels = l + 2;
-      }
+      c0 += 1;
+      if (c0 <= m) continue;
+      // merge the two oldest buckets of level 0 (one sample each) into one of level 1:
+      // d = (t₀ − t₁)·(1/n) and M₂ = M₂,₀ + M₂,₁ + d²·n/2 with n = 1, as #cascade writes them for the levels above
+      const i1 = (h0 + 1) & mask;
+      const t0 = totals[h0] as number;
+      const t1 = totals[i1] as number;
+      const d = (t0 - t1) * 1;
+      const mergedM2 = (m2s[h0] as number) + (m2s[i1] as number) + d * d * 1 * 0.5;
+      h0 = (h0 + 2) & mask;
+      c0 -= 2;
+      const c1 = counts[1] as number;
+      const next = cap + (((heads[1] as number) + c1) & mask);
+      totals[next] = t0 + t1;
+      m2s[next] = mergedM2;
+      counts[1] = c1 + 1;
+      if (levels < 2) levels = 2;
+      if (c1 + 1 > m) levels = this.#cascade(levels);
     }
+    if (j > from && levels === 0) levels = 1;
+    counts[0] = c0;
+    heads[0] = h0;
     const taken = j - from;
     this.#total = total;
     this.#width = width;
@@ -400,6 +399,40 @@ export class Adwin implements ChangeTest {
     this.#count += taken;
     this.#sinceCheck += taken;
     return j;
+  }
+
+  /** The merges from level 1 upward after level 1 gained a bucket; returns the levels in use. */
+  #cascade(levels: number): number {
+    const cap = this.#cap;
+    const mask = this.#mask;
+    const m = this.#m;
+    const counts = this.#levelCounts;
+    const heads = this.#heads;
+    const totals = this.#totals;
+    const m2s = this.#m2s;
+    // n = 2^l and its reciprocal (exact): d = (t₀ − t₁)·(1/n) equals (t₀ − t₁)/n bit for bit
+    for (let l = 1, n = 2, inverse = 0.5; (counts[l] as number) > m; l++, n *= 2, inverse *= 0.5) {
+      // merge the two oldest buckets of level l (each of n = 2^l samples) into one of level l + 1
+      if (l + 1 >= MAX_LEVELS) throw new RangeError("Adwin: window too long for the histogram");
+      const base = l * cap;
+      const h = heads[l] as number;
+      const i0 = base + h;
+      const i1 = base + ((h + 1) & mask);
+      const t0 = totals[i0] as number;
+      const t1 = totals[i1] as number;
+      const d = (t0 - t1) * inverse;
+      const mergedTotal = t0 + t1;
+      const mergedM2 = (m2s[i0] as number) + (m2s[i1] as number) + d * d * n * 0.5; // M₂,₀ + M₂,₁ + n·d²/2
+      heads[l] = (h + 2) & mask;
+      counts[l] = (counts[l] as number) - 2;
+      const cn = counts[l + 1] as number;
+      const next = (l + 1) * cap + (((heads[l + 1] as number) + cn) & mask);
+      totals[next] = mergedTotal;
+      m2s[next] = mergedM2;
+      counts[l + 1] = cn + 1;
+      if (l + 2 > levels) levels = l + 2;
+    }
+    return levels;
   }
 
   /** Drops the oldest bucket (the head of the highest level) and updates the window's moments. */
@@ -437,18 +470,21 @@ export class Adwin implements ChangeTest {
     const cap = this.#cap;
     const mask = this.#mask;
     const aw = a * w;
+    const counts = this.#levelCounts;
+    const heads = this.#heads;
+    const totals = this.#totals;
     let best = 0;
     let bestSquared = 0; // best²·a·W·(1 − 10⁻⁶)
     let n0 = 0;
     let s0 = 0;
     let size = this.#levels > 0 ? (BUCKET_SIZES[this.#levels - 1] as number) : 0.5;
     for (let l = this.#levels - 1; l >= 0; l--, size /= 2) {
-      const c = this.#levelCounts[l] as number;
+      const c = counts[l] as number;
       const base = l * cap;
-      const h = this.#heads[l] as number;
+      const h = heads[l] as number;
       for (let b = 0; b < c; b++) {
         n0 += size;
-        s0 += this.#totals[base + ((h + b) & mask)] as number;
+        s0 += totals[base + ((h + b) & mask)] as number;
         const n1 = w - n0;
         if (n1 < minSub) {
           this.#statistic = best;
@@ -492,17 +528,22 @@ export class Adwin implements ChangeTest {
     const mean = this.#total / w;
     const cap = this.#cap;
     const mask = this.#mask;
+    const levels = this.#levels;
+    const counts = this.#levelCounts;
+    const heads = this.#heads;
+    const totals = this.#totals;
+    const m2s = this.#m2s;
     let m2 = 0;
     let size = 1;
-    for (let l = 0; l < this.#levels; l++, size *= 2) {
+    for (let l = 0; l < levels; l++, size *= 2) {
       const inv = 1 / size; // a power of two: exact
-      const c = this.#levelCounts[l] as number;
+      const c = counts[l] as number;
       const base = l * cap;
-      const h = this.#heads[l] as number;
+      const h = heads[l] as number;
       for (let b = 0; b < c; b++) {
         const at = base + ((h + b) & mask);
-        const d = (this.#totals[at] as number) * inv - mean;
-        m2 += (this.#m2s[at] as number) + size * d * d;
+        const d = (totals[at] as number) * inv - mean;
+        m2 += (m2s[at] as number) + size * d * d;
       }
     }
     return m2;
