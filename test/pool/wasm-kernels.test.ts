@@ -50,6 +50,22 @@ describe("WebAssembly SIMD kernels", () => {
     expect(new OselmAutoencoder({ inputs: 4, hidden: 2, seed: 1, dtype: "float32" }).snapshot().state.kernel).toBe("typescript");
   });
 
+  it("a chunk's β update in the kernel equals the TypeScript loop bit for bit (blocks of four rows, rows left over, an odd input count)", () => {
+    const data = rows(21, 120, 33);
+    const options = { inputs: 33, hidden: 16, seed: "PS-2/chunk" };
+    const reference = new OselmAutoencoder({ ...options, kernel: "typescript" });
+    const simd = new OselmAutoencoder({ ...options, kernel: "wasm-simd" });
+    reference.fit(data.slice(0, 40));
+    simd.fit(data.slice(0, 40));
+    // 16·33/(16 + 33) = 10 rows fit the kernel's buffers: 7 and 10 run there, 23 runs the TypeScript loop
+    for (const [from, to] of [[40, 47], [47, 57], [57, 80], [80, 82], [82, 87]]) {
+      expect(simd.learnChunk(data.slice(from, to))).toBe(reference.learnChunk(data.slice(from, to)));
+      expect(simd.outputWeights()).toEqual(reference.outputWeights());
+      expect(simd.inverseGram()).toEqual(reference.inverseGram());
+    }
+    for (const x of data.slice(87)) expect(simd.score(x)).toBe(reference.score(x));
+  });
+
   it("the kernel is recorded in the snapshot, a restored model continues on it bit for bit", () => {
     const data = rows(3, 80, 16);
     const model = new OselmAutoencoder({ inputs: 16, hidden: 6, seed: 3, kernel: "wasm-simd" });

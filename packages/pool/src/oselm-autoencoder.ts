@@ -497,10 +497,10 @@ export class OselmAutoencoder {
       hRows.set(this.#h, r * L);
       eRows.set(this.#e, r * n);
     }
-    let refusal = woodburyChunk(this.#p, this.#beta, hRows, eRows, k, L, n, this.#forgetting, this.#limits, this.#betaBound, this.#moved);
+    let refusal = woodburyChunk(this.#p, this.#beta, hRows, eRows, k, L, n, this.#forgetting, this.#limits, this.#betaBound, this.#moved, this.#wasm);
     if (refusal === "beta-overflow" && !this.#betaBoundExact) {
       this.#measureBeta();
-      refusal = woodburyChunk(this.#p, this.#beta, hRows, eRows, k, L, n, this.#forgetting, this.#limits, this.#betaBound, this.#moved);
+      refusal = woodburyChunk(this.#p, this.#beta, hRows, eRows, k, L, n, this.#forgetting, this.#limits, this.#betaBound, this.#moved, this.#wasm);
     }
     if (refusal === "gain-unsafe" || refusal === "hPh-not-positive") {
       // row by row, so that every row gets the single-row guards and the recovery

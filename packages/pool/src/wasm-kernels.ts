@@ -10,6 +10,15 @@ export const KERNELS: readonly Kernel[] = ["typescript", "wasm-simd"];
 type Forward = (w: number, b: number, z: number, h: number, L: number, n: number) => void;
 type Residual = (beta: number, h: number, z: number, e: number, L: number, n: number) => number;
 type RankOne = (beta: number, k: number, e: number, L: number, n: number) => void;
+type GainUpdate = (beta: number, gt: number, e: number, sum: number, k: number, L: number, n: number) => void;
+
+/**
+ * Most rows of a chunk whose β update runs in the f64x2 kernel: 64, or fewer so that the chunk's
+ * rows take no more memory than β (L·n values). Longer chunks run the TypeScript loop.
+ */
+export function kernelChunkRows(L: number, n: number): number {
+  return Math.min(64, Math.floor((L * n) / (L + n)));
+}
 
 interface Exports {
   forward: Forward;
@@ -18,6 +27,7 @@ interface Exports {
   forward32: Forward;
   residual32: Residual;
   rankOne32: RankOne;
+  gainUpdate: GainUpdate;
 }
 
 // The library's compile target has no DOM or Node types: the little of the
@@ -79,17 +89,21 @@ export class WasmKernels {
   readonly h: Vector;
   readonly e: Vector;
   readonly k: Vector;
-  readonly #at: { w: number; b: number; beta: number; z: number; h: number; e: number; k: number };
+  readonly #at: { w: number; b: number; beta: number; z: number; h: number; e: number; k: number; gt: number; eRows: number; sum: number };
   readonly #forward: Forward;
   readonly #residual: Residual;
   readonly #rankOne: RankOne;
+  readonly #gainUpdate: GainUpdate;
+  readonly #gt: Float64Array; // a chunk's Gᵀ rows (float64 state only; empty for float32)
+  readonly #eRows: Float64Array; // a chunk's residual rows
   readonly #L: number;
   readonly #n: number;
 
   constructor(L: number, n: number, weights: ArrayLike<number>, biases: ArrayLike<number>, dtype: Dtype = "float64") {
     const bytes = dtype === "float32" ? 4 : 8;
-    const sizes = { w: L * n, b: L, beta: L * n, z: n, h: L, e: n, k: L };
-    const at = { w: 0, b: 0, beta: 0, z: 0, h: 0, e: 0, k: 0 };
+    const chunk = dtype === "float32" ? 0 : kernelChunkRows(L, n); // float32 chunks keep the TypeScript β update
+    const sizes = { w: L * n, b: L, beta: L * n, z: n, h: L, e: n, k: L, gt: chunk * L, eRows: chunk * n, sum: chunk === 0 ? 0 : n };
+    const at = { w: 0, b: 0, beta: 0, z: 0, h: 0, e: 0, k: 0, gt: 0, eRows: 0, sum: 0 };
     let offset = 0;
     for (const key of Object.keys(sizes) as (keyof typeof sizes)[]) {
       at[key] = offset;
@@ -106,6 +120,9 @@ export class WasmKernels {
     this.h = view("h");
     this.e = view("e");
     this.k = view("k");
+    this.#gt = new Float64Array(memory.buffer, at.gt, sizes.gt);
+    this.#eRows = new Float64Array(memory.buffer, at.eRows, sizes.eRows);
+    this.#gainUpdate = run.gainUpdate;
     this.weights.set(weights);
     this.biases.set(biases);
     this.#forward = this.float32 ? run.forward32 : run.forward;
@@ -126,6 +143,19 @@ export class WasmKernels {
   residual(): number {
     const a = this.#at;
     return this.#residual(a.beta, a.h, a.z, a.e, this.#L, this.#n);
+  }
+
+  /**
+   * β += G·E for a chunk of k rows (Gᵀ: k × L, E: k × n), as addGainTimesResiduals in woodbury.ts,
+   * bit for bit; false (nothing done) for float32 state or more than {@link kernelChunkRows} rows.
+   */
+  gainUpdate(gt: Float64Array, eRows: Float64Array, k: number): boolean {
+    if (k * this.#n > this.#eRows.length) return false;
+    this.#gt.set(gt.subarray(0, k * this.#L));
+    this.#eRows.set(eRows.subarray(0, k * this.#n));
+    const a = this.#at;
+    this.#gainUpdate(a.beta, a.gt, a.eRows, a.sum, k, this.#L, this.#n);
+    return true;
   }
 
   /** β += k eᵀ with k in `this.k`; for float64 as addOuterProduct. */

@@ -3,6 +3,11 @@ import { gainIsSafe, type NumericLimits } from "./numeric-limits.js";
 import type { Refusal } from "./sherman-morrison.js";
 import type { Vector } from "./vector.js";
 
+/** A kernel that does β += G·E exactly as {@link addGainTimesResiduals}, or declines (false). */
+export interface GainKernel {
+  gainUpdate(gt: Float64Array, eRows: Float64Array, k: number): boolean;
+}
+
 /**
  * The k-row OS-ELM update by the Woodbury identity (Liang et al. 2006, chunk
  * form; from memory), with exponential forgetting λ applied row by row so that
@@ -19,7 +24,8 @@ import type { Vector } from "./vector.js";
  * of the first step that later rows, meeting a smaller P, only approximate —
  * the periodic Cholesky check covers the rest), and no entry of β (at most `betaBound` in size now) or of
  * P could leave the dtype's range. Returns the refusal, or null and the most
- * any entry of β moved (in `moved[0]`).
+ * any entry of β moved (in `moved[0]`). `addGain` (the model's SIMD kernels) may
+ * do the β update instead of the TypeScript loop, with the same result.
  */
 export function woodburyChunk(
   p: Vector,
@@ -33,6 +39,7 @@ export function woodburyChunk(
   limits: NumericLimits,
   betaBound: number,
   moved: Float64Array,
+  addGain: GainKernel | null = null,
 ): Refusal {
   // As in the Sherman–Morrison step, the checks and the long loops live in
   // separate small functions, which V8 compiles to much faster loops.
@@ -55,7 +62,7 @@ export function woodburyChunk(
   for (let i = 0; i < L; i++) trace += p[i * L + i] as number;
   if (!(a * trace + gSum * uSum <= limits.stateLimit)) return "p-overflow";
   moved[0] = increment;
-  addGainTimesResiduals(beta, gt, eRows, k, L, n);
+  if (addGain === null || !addGain.gainUpdate(gt, eRows, k)) addGainTimesResiduals(beta, gt, eRows, k, L, n);
   chunkDowndate(p, gt, ut, k, L, a);
   return null;
 }

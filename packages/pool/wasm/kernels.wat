@@ -135,7 +135,113 @@
               (f64.mul (local.get $ki) (f64.load (i32.add (local.get $e) (local.get $o))))))))
       (local.set $i (i32.add (local.get $i) (i32.const 1)))
       (br $rows))))
-  ;; float32 state (f32x4 lanes, arithmetic in float32): h[i] = b[i] + Σ_j W[i,j] z[j],
+;; β += G·E for a chunk of k rows, as addGainTimesResiduals in src/woodbury.ts:
+  ;; for each row i of β, sum[j] = 0, then for each block of four rows r
+  ;; sum[j] += ((g_r e_rj + g_r+1 e_r+1,j) + g_r+2 e_r+2,j) + g_r+3 e_r+3,j, then the
+  ;; rows left one by one (sum[j] += g_r e_rj), then β[i,j] += sum[j]; lanes over j.
+  ;; gt: Gᵀ (k × L), e: the residual rows (k × n), sum: n scratch values.
+  (func (export "gainUpdate") (param $beta i32) (param $gt i32) (param $e i32) (param $sum i32) (param $k i32) (param $L i32) (param $n i32)
+    (local $i i32) (local $r i32) (local $j i32) (local $o i32) (local $n2 i32) (local $nb i32) (local $row i32)
+    (local $e0 i32) (local $e1 i32) (local $e2 i32) (local $e3 i32)
+    (local $g0 f64) (local $g1 f64) (local $g2 f64) (local $g3 f64)
+    (local $v0 v128) (local $v1 v128) (local $v2 v128) (local $v3 v128)
+    (local.set $n2 (i32.and (local.get $n) (i32.const -2)))
+    (local.set $nb (i32.shl (local.get $n) (i32.const 3)))
+    (block $done (loop $rows
+      (br_if $done (i32.ge_u (local.get $i) (local.get $L)))
+      ;; sum = 0
+      (local.set $j (i32.const 0))
+      (block $zd (loop $zero
+        (br_if $zd (i32.ge_u (local.get $j) (local.get $n)))
+        (f64.store (i32.add (local.get $sum) (i32.shl (local.get $j) (i32.const 3))) (f64.const 0))
+        (local.set $j (i32.add (local.get $j) (i32.const 1)))
+        (br $zero)))
+      ;; blocks of four rows
+      (local.set $r (i32.const 0))
+      (block $bd (loop $blocks
+        (br_if $bd (i32.ge_s (i32.add (local.get $r) (i32.const 3)) (local.get $k)))
+        (local.set $g0 (f64.load (i32.add (local.get $gt) (i32.shl (i32.add (i32.mul (local.get $r) (local.get $L)) (local.get $i)) (i32.const 3)))))
+        (local.set $g1 (f64.load (i32.add (local.get $gt) (i32.shl (i32.add (i32.mul (i32.add (local.get $r) (i32.const 1)) (local.get $L)) (local.get $i)) (i32.const 3)))))
+        (local.set $g2 (f64.load (i32.add (local.get $gt) (i32.shl (i32.add (i32.mul (i32.add (local.get $r) (i32.const 2)) (local.get $L)) (local.get $i)) (i32.const 3)))))
+        (local.set $g3 (f64.load (i32.add (local.get $gt) (i32.shl (i32.add (i32.mul (i32.add (local.get $r) (i32.const 3)) (local.get $L)) (local.get $i)) (i32.const 3)))))
+        (local.set $v0 (f64x2.splat (local.get $g0)))
+        (local.set $v1 (f64x2.splat (local.get $g1)))
+        (local.set $v2 (f64x2.splat (local.get $g2)))
+        (local.set $v3 (f64x2.splat (local.get $g3)))
+        (local.set $e0 (i32.add (local.get $e) (i32.mul (local.get $r) (local.get $nb))))
+        (local.set $e1 (i32.add (local.get $e0) (local.get $nb)))
+        (local.set $e2 (i32.add (local.get $e1) (local.get $nb)))
+        (local.set $e3 (i32.add (local.get $e2) (local.get $nb)))
+        (local.set $j (i32.const 0))
+        (block $cd (loop $cols
+          (br_if $cd (i32.ge_u (local.get $j) (local.get $n2)))
+          (local.set $o (i32.shl (local.get $j) (i32.const 3)))
+          (v128.store (i32.add (local.get $sum) (local.get $o))
+            (f64x2.add (v128.load (i32.add (local.get $sum) (local.get $o)))
+              (f64x2.add
+                (f64x2.add
+                  (f64x2.add
+                    (f64x2.mul (local.get $v0) (v128.load (i32.add (local.get $e0) (local.get $o))))
+                    (f64x2.mul (local.get $v1) (v128.load (i32.add (local.get $e1) (local.get $o)))))
+                  (f64x2.mul (local.get $v2) (v128.load (i32.add (local.get $e2) (local.get $o)))))
+                (f64x2.mul (local.get $v3) (v128.load (i32.add (local.get $e3) (local.get $o)))))))
+          (local.set $j (i32.add (local.get $j) (i32.const 2)))
+          (br $cols)))
+        (if (i32.lt_u (local.get $j) (local.get $n))
+          (then
+            (local.set $o (i32.shl (local.get $j) (i32.const 3)))
+            (f64.store (i32.add (local.get $sum) (local.get $o))
+              (f64.add (f64.load (i32.add (local.get $sum) (local.get $o)))
+                (f64.add
+                  (f64.add
+                    (f64.add
+                      (f64.mul (local.get $g0) (f64.load (i32.add (local.get $e0) (local.get $o))))
+                      (f64.mul (local.get $g1) (f64.load (i32.add (local.get $e1) (local.get $o)))))
+                    (f64.mul (local.get $g2) (f64.load (i32.add (local.get $e2) (local.get $o)))))
+                  (f64.mul (local.get $g3) (f64.load (i32.add (local.get $e3) (local.get $o)))))))))
+        (local.set $r (i32.add (local.get $r) (i32.const 4)))
+        (br $blocks)))
+      ;; the rows left, one by one
+      (block $ld (loop $left
+        (br_if $ld (i32.ge_s (local.get $r) (local.get $k)))
+        (local.set $g0 (f64.load (i32.add (local.get $gt) (i32.shl (i32.add (i32.mul (local.get $r) (local.get $L)) (local.get $i)) (i32.const 3)))))
+        (local.set $v0 (f64x2.splat (local.get $g0)))
+        (local.set $e0 (i32.add (local.get $e) (i32.mul (local.get $r) (local.get $nb))))
+        (local.set $j (i32.const 0))
+        (block $cd1 (loop $cols1
+          (br_if $cd1 (i32.ge_u (local.get $j) (local.get $n2)))
+          (local.set $o (i32.shl (local.get $j) (i32.const 3)))
+          (v128.store (i32.add (local.get $sum) (local.get $o))
+            (f64x2.add (v128.load (i32.add (local.get $sum) (local.get $o)))
+              (f64x2.mul (local.get $v0) (v128.load (i32.add (local.get $e0) (local.get $o))))))
+          (local.set $j (i32.add (local.get $j) (i32.const 2)))
+          (br $cols1)))
+        (if (i32.lt_u (local.get $j) (local.get $n))
+          (then
+            (local.set $o (i32.shl (local.get $j) (i32.const 3)))
+            (f64.store (i32.add (local.get $sum) (local.get $o))
+              (f64.add (f64.load (i32.add (local.get $sum) (local.get $o)))
+                (f64.mul (local.get $g0) (f64.load (i32.add (local.get $e0) (local.get $o))))))))
+        (local.set $r (i32.add (local.get $r) (i32.const 1)))
+        (br $left)))
+      ;; β[i] += sum
+      (local.set $row (i32.add (local.get $beta) (i32.mul (local.get $i) (local.get $nb))))
+      (local.set $j (i32.const 0))
+      (block $ad (loop $add
+        (br_if $ad (i32.ge_u (local.get $j) (local.get $n2)))
+        (local.set $o (i32.shl (local.get $j) (i32.const 3)))
+        (v128.store (i32.add (local.get $row) (local.get $o))
+          (f64x2.add (v128.load (i32.add (local.get $row) (local.get $o))) (v128.load (i32.add (local.get $sum) (local.get $o)))))
+        (local.set $j (i32.add (local.get $j) (i32.const 2)))
+        (br $add)))
+      (if (i32.lt_u (local.get $j) (local.get $n))
+        (then
+          (local.set $o (i32.shl (local.get $j) (i32.const 3)))
+          (f64.store (i32.add (local.get $row) (local.get $o))
+            (f64.add (f64.load (i32.add (local.get $row) (local.get $o))) (f64.load (i32.add (local.get $sum) (local.get $o)))))))
+      (local.set $i (i32.add (local.get $i) (i32.const 1)))
+      (br $rows))))
+    ;; float32 state (f32x4 lanes, arithmetic in float32): h[i] = b[i] + Σ_j W[i,j] z[j],
   ;; lane l summing j ≡ l (mod 4), the lanes added as (l0 + l1) + (l2 + l3), the
   ;; last n mod 4 inputs added one by one after them.
   (func (export "forward32") (param $w i32) (param $b i32) (param $z i32) (param $h i32) (param $L i32) (param $n i32)
