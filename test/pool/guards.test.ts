@@ -20,9 +20,9 @@ function positiveDefinite(p: Float64Array, L: number): boolean {
 }
 
 describe("OselmAutoencoder: guards sized to the dtype", () => {
-  it("float32: one row with x[3] = 1e45 after 50 normal rows is refused (β would leave float32's range), the state is kept, learning and restore go on", () => {
+  it("float32, TypeScript kernel: one row with x[3] = 1e45 after 50 normal rows is refused (β would leave float32's range), the state is kept, learning and restore go on", () => {
     const random = new RandomSource(1);
-    const model = new OselmAutoencoder({ inputs: 16, hidden: 8, seed: 1, dtype: "float32", forgetting: 0.99 });
+    const model = new OselmAutoencoder({ inputs: 16, hidden: 8, seed: 1, dtype: "float32", forgetting: 0.99, kernel: "typescript" });
     for (let i = 0; i < 50; i++) model.learn(normalRow(random, 16));
     const spike = normalRow(random, 16);
     spike[3] = 1e45;
@@ -34,6 +34,19 @@ describe("OselmAutoencoder: guards sized to the dtype", () => {
     const copy = OselmAutoencoder.restore(throughJson(model.snapshot()));
     const x = normalRow(random, 16);
     expect(copy.score(x)).toBe(model.score(x));
+  });
+
+  it("float32, default f32x4 kernel: a row with x[3] = 1e45 (beyond float32) is refused as a sample before anything changes, and learning goes on", () => {
+    const random = new RandomSource(1);
+    const model = new OselmAutoencoder({ inputs: 16, hidden: 8, seed: 1, dtype: "float32", forgetting: 0.99 });
+    for (let i = 0; i < 50; i++) model.learn(normalRow(random, 16));
+    const spike = normalRow(random, 16);
+    spike[3] = 1e45;
+    const before = stateOf(model);
+    expectLeewayError(() => model.learn(spike), "E_SAMPLE", "x");
+    expect(stateOf(model)).toBe(before);
+    expect(model.health()).toMatchObject({ refused: 0, finite: true, ok: true });
+    for (let i = 0; i < 500; i++) expect(Number.isFinite(model.learn(normalRow(random, 16)))).toBe(true);
   });
 
   it("float64, identity, λ = 0.99: one row with an entry of 1e150 among N(0,1) rows is refused as an unsafe gain and no later row is refused", () => {

@@ -42,8 +42,6 @@ const LAYER = Symbol("hidden layer");
 export const SCORE_SHARED = Symbol("score from a shared hidden layer");
 /** Largest WebAssembly memory (bytes of W and β) the default SIMD kernels use; larger models run the TypeScript kernels. */
 const MAX_WASM_BYTES = 256 * 2 ** 20;
-/** The dtype whose models run the SIMD kernels by default (the others opt in with kernel: "wasm-simd"). */
-const DEFAULT_SIMD_DTYPE: Dtype = "float64";
 /** Accepted updates between two Cholesky checks that P is still positive definite. */
 export const CHECK_INTERVAL = 256;
 /** Consecutive refused updates after which the next refused one re-anchors P. */
@@ -75,13 +73,14 @@ export interface OselmAutoencoderOptions {
   /** "refuse" (default) or "skip" non-finite samples in learn, learnChunk and fit; score always refuses them. */
   nonFinite?: NonFinitePolicy;
   /**
-   * The code of the forward pass and of β's rank-one update: "wasm-simd"
-   * (WebAssembly SIMD kernels: f64x2 for float64 state, 2.8–3.3× faster, the
-   * default with L·n up to 2²⁴; f32x4 for float32 state, opt-in) or
-   * "typescript" (the reference; the default for float32 state and larger
-   * models). The f64x2 kernels do the reference's operations in the same
-   * order, so readings agree bit for bit; the f32x4 ones compute in float32
-   * (losses within about 1e-4 of the mean squared input of the reference's).
+   * The code of the forward pass and of β's updates: "wasm-simd"
+   * (WebAssembly SIMD kernels: f64x2 for float64 state, 2.8–3.3× faster;
+   * f32x4 for float32 state, about 4× faster; the default with L·n up to
+   * 2²⁴) or "typescript" (the reference; the default for larger models).
+   * The f64x2 kernels do the reference's operations in the same order, so
+   * readings agree bit for bit; the f32x4 ones compute in float32 (losses
+   * within about 1e-4 of the mean squared input of the reference's) and
+   * refuse inputs beyond float32's range as samples (E_SAMPLE).
    * Chosen at construction and kept in the snapshot.
    */
   kernel?: Kernel;
@@ -257,10 +256,10 @@ export class OselmAutoencoder {
     this.#scaling = scalingOption(COMPONENT, o.scaling, this.#n);
     this.#fitted = this.#scaling.mode !== "standardize";
     this.#layer = o[LAYER] ?? drawHiddenLayer(this.#seed, this.#n, this.#L, this.#dtype, this.#activation !== "identity");
-    // default: the SIMD kernels for float64 state (≥ 2× faster, same readings) whose arrays fit a modest WebAssembly memory
+    // default: the SIMD kernels (float64: ≥ 2× faster, same readings; float32: faster than float64) where the arrays fit a modest WebAssembly memory
     const bytes = bytesPerElement(this.#dtype);
     const simdFits = 2 * this.#L * this.#n * bytes <= MAX_WASM_BYTES;
-    const kernel = o.kernel === undefined ? (simdFits && this.#dtype === DEFAULT_SIMD_DTYPE ? "wasm-simd" : "typescript") : oneOf(COMPONENT, "kernel", o.kernel, KERNELS);
+    const kernel = o.kernel === undefined ? (simdFits ? "wasm-simd" : "typescript") : oneOf(COMPONENT, "kernel", o.kernel, KERNELS);
     if (kernel === "wasm-simd" && !simdFits) throw new OptionError(COMPONENT, "kernel", kernel, `"typescript" for L·n above ${MAX_WASM_BYTES / (2 * bytes)} with ${this.#dtype} state (the SIMD kernels keep W and β in one WebAssembly memory of at most ${MAX_WASM_BYTES} bytes)`);
     const wasm = kernel === "wasm-simd" ? new WasmKernels(this.#L, this.#n, this.#layer.weights, this.#layer.biases, this.#dtype) : null;
     this.#wasm = wasm;
