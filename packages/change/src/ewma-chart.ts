@@ -173,9 +173,9 @@ export class EwmaChart implements ChangeTest {
     this.#z = z;
     // (1 − λ)^{2i} is flushed to 0 once 1 − q is exactly 1, before it turns subnormal (and slow)
     this.#decay = this.#decay > 1e-20 ? this.#decay * this.#decayStep : 0;
-    // the last sign changes move to i by arithmetic (on in-control scores a branch here is a coin toss)
-    this.#upperZero += (i - this.#upperZero) * +(z <= 0);
-    this.#lowerZero += (i - this.#lowerZero) * +(z >= 0);
+    // (branches here measured faster than moving the last sign changes by arithmetic, as CUSUM does)
+    if (z <= 0) this.#upperZero = i;
+    if (z >= 0) this.#lowerZero = i;
     return this.#reading(i);
   }
 
