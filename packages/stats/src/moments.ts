@@ -260,6 +260,7 @@ export class Moments {
    * one is not changed.
    */
   merge(other: Moments): this {
+    if (!(other instanceof Moments)) throw new SampleError("Moments", "other", other, "a Moments to merge");
     this.#flush();
     const n = other.count;
     if (n === 0) {
