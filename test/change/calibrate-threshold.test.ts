@@ -68,12 +68,12 @@ describe("calibrateThreshold", () => {
     expectLeewayError(() => calibrateThreshold(always, new Float64Array(100).fill(50), { targetArl0: 1000, seed: 1, replicates: 10 }), "E_STATE", "no threshold up to");
   });
 
-  it("refuses bad arguments with E_OPTION naming them", () => {
+  it("refuses bad arguments naming them: E_OPTION for options, E_NON_FINITE or E_SAMPLE for a score", () => {
     const make = (h: number): ChangeTest => new Cusum({ mean, sigma, h });
     const base = { targetArl0: 100, seed: 1 };
     expectLeewayError(() => calibrateThreshold(null as unknown as typeof make, scores, base), "E_OPTION", "makeTest");
     expectLeewayError(() => calibrateThreshold(make, [1, 2, 3], base), "E_OPTION", "referenceScores");
-    expectLeewayError(() => calibrateThreshold(make, [...scores, Number.NaN], base), "E_OPTION", "referenceScores[400]");
+    expectLeewayError(() => calibrateThreshold(make, [...scores, Number.NaN], base), "E_NON_FINITE", "referenceScores[400]");
     expectLeewayError(() => calibrateThreshold(make, scores, { ...base, targetArl0: 1 }), "E_OPTION", "targetArl0");
     expectLeewayError(() => calibrateThreshold(make, scores, { targetArl0: 100 } as typeof base), "E_OPTION", "seed");
     expectLeewayError(() => calibrateThreshold(make, scores, { ...base, replicates: 5 }), "E_OPTION", "replicates");

@@ -9,6 +9,8 @@ describe("error classes", () => {
     expect(option.code).toBe("E_OPTION");
     expect(option.name).toBe("OptionError");
     expect(option.message).toBe("Cusum: option h must be a finite number > 0, got -1");
+    expect(new OptionError("Cusum", "h", "5", "a finite number > 0").message).toBe('Cusum: option h must be a finite number > 0, got "5" (string)');
+    expect(new OptionError("Cusum", "h", false, "a finite number > 0").message).toBe("Cusum: option h must be a finite number > 0, got false (boolean)");
     expect(new NonFiniteError("Moments", "x", Number.NaN).message).toBe("Moments: x must be a finite number, got NaN");
     expect(new NonFiniteError("Moments", "x", Infinity).code).toBe("E_NON_FINITE");
     const dim = new DimensionError("Pool", "x", 256, 255);

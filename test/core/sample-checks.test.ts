@@ -1,6 +1,6 @@
 import fc from "fast-check";
 import { describe, expect, it } from "vitest";
-import { SampleError, isNumber, requireNumber, requireNumbers, sampleWithin } from "@leeway/core";
+import { SampleError, finiteSamples, isNumber, requireNumber, requireNumbers, sampleWithin } from "@leeway/core";
 import { expectLeewayError } from "../support/errors.js";
 
 const notNumbers: [unknown, string][] = [
@@ -37,6 +37,19 @@ describe("sample checks (no sample is coerced to a number)", () => {
     expectLeewayError(() => requireNumbers("AE", "x", "12"), "E_SAMPLE", "x must be a Float64Array, a Float32Array or an array of numbers");
     expectLeewayError(() => requireNumbers("AE", "x", new Int32Array(2)), "E_SAMPLE", "Int32Array");
     expectLeewayError(() => requireNumbers("AE", "x", [1, 2], 3), "E_DIMENSION", "length 3", "length 2");
+  });
+
+  it("finiteSamples copies a series of finite numbers and refuses non-numbers (E_SAMPLE, by index) and NaN/±Infinity (E_NON_FINITE)", () => {
+    const given = [1, 2.5, -3];
+    const copy = finiteSamples("mannKendall", "values", given);
+    expect(Array.from(copy)).toEqual(given);
+    copy[0] = 9;
+    expect(given[0]).toBe(1);
+    expect(Array.from(finiteSamples("f", "values", Float32Array.of(0.5)))).toEqual([0.5]);
+    for (const [value, shown] of notNumbers) expectLeewayError(() => finiteSamples("f", "values", [1, value]), "E_SAMPLE", "f: values[1] must be a finite number", `got ${shown}`);
+    expectLeewayError(() => finiteSamples("f", "values", [1, Number.NaN]), "E_NON_FINITE", "values[1]", "NaN");
+    expectLeewayError(() => finiteSamples("f", "values", "12"), "E_SAMPLE", "values must be", "(string)");
+    expectLeewayError(() => finiteSamples("f", "values", new Int16Array(2)), "E_SAMPLE", "Int16Array");
   });
 
   it("sampleWithin passes finite numbers up to the limit and refuses the rest: beyond the range E_SAMPLE stating it, NaN/±Infinity E_NON_FINITE", () => {

@@ -120,7 +120,7 @@ describe("RealFft", () => {
     for (const bad of [0, 1, 3, 6, 1000, 1023, -8, 2.5, Number.NaN, 2 ** 25]) expectLeewayError(() => new RealFft(bad), "E_OPTION", "RealFft", "size", "power of two");
     expectLeewayError(() => new RealFft(8).forward(new Float64Array(7)), "E_DIMENSION", "data", "length 8", "length 7");
     expectLeewayError(() => new RealFft(8).inverse(new Float64Array(16)), "E_DIMENSION", "data", "length 8");
-    expectLeewayError(() => new RealFft(8).forward([1, 2, 3, 4, 5, 6, 7, 8] as never), "E_OPTION", "data", "Float64Array");
+    expectLeewayError(() => new RealFft(8).forward([1, 2, 3, 4, 5, 6, 7, 8] as never), "E_SAMPLE", "data", "Float64Array", "(array)");
   });
   it("the documented example: eight ones give X_0 = 8 and zeros, and invert back", () => {
     const fft = new RealFft(8);

@@ -27,6 +27,18 @@ describe("scenario levels (every frame and spectrum finite)", () => {
     expect(() => defineScenario(base({ events: [shift(0, 3), shift(3, 6)] }))).not.toThrow();
   });
 
+  it("refuses a sensor gain above 1e6, alone or as the product of overlapping shifts (regression: a simulator snapshot with an environment gain of 1e308 was restored, then refused its own frames)", () => {
+    expectLeewayError(() => defineScenario(base({ events: [{ type: "environment-shift", start: 1, gain: 1e308 }] })), "E_OPTION", "events[0].gain", "1000000");
+    const gained = (start: number, end: number) => ({ type: "environment-shift" as const, start, end, gain: 1e3 });
+    expectLeewayError(() => defineScenario(base({ events: [gained(0, 6), gained(2, 4), gained(3, 5)] })), "E_OPTION", "events[2].gain", "sensor gains overlapping");
+    expect(() => defineScenario(base({ events: [gained(0, 3), gained(3, 6)] }))).not.toThrow();
+    const sim = new MachineSimulator(defineScenario(base({ events: [{ type: "environment-shift", start: 1, gain: 2 }] })));
+    sim.next();
+    const snapshot = JSON.parse(JSON.stringify(sim.snapshot()));
+    snapshot.state.scenario.events[0].gain = 1e308;
+    expectLeewayError(() => MachineSimulator.restore(snapshot), "E_SNAPSHOT", "gain");
+  });
+
   it("with impacts, refuses a shaft rate above the Nyquist frequency (a frame would need more impacts than samples)", () => {
     const impacts = [{ type: "fault" as const, start: 1, duration: 2, fault: "impacts" as const }];
     expectLeewayError(() => defineScenario(base({ sampleRate: 10, events: impacts })), "E_OPTION", "schedule[0].rpm", "Nyquist");

@@ -184,4 +184,17 @@ describe("EwMoments", () => {
     a.state.alpha = 0;
     expectLeewayError(() => EwMoments.restore(a), "E_SNAPSHOT", "alpha");
   });
+
+  it("refuses a snapshot whose mean or spread lies beyond what samples within ±1e100 can give (regression: a mean of 1e308 was accepted and read an infinite variance)", () => {
+    const ew = new EwMoments({ halfLife: 5 });
+    for (let i = 0; i < 40; i++) ew.observe(Math.sin(i));
+    for (const [field, value] of [["mean", 1e308], ["mean", -1e101], ["s", 1e300]] as const) {
+      const bad = throughJson(ew.snapshot()) as unknown as { state: Record<string, number> };
+      bad.state[field] = value;
+      expectLeewayError(() => EwMoments.restore(bad), "E_SNAPSHOT", `state.${field}`);
+    }
+    const edge = new EwMoments({ halfLife: 5 });
+    for (let i = 0; i < 100; i++) edge.observe(i % 2 === 0 ? 1e100 : -1e100);
+    expect(EwMoments.restore(throughJson(edge.snapshot())).observe(0)).toEqual(edge.observe(0));
+  });
 });

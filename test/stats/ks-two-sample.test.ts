@@ -46,8 +46,8 @@ describe("ksTwoSample", () => {
   it("refuses empty and non-finite samples", () => {
     expectLeewayError(() => ksTwoSample([], [1]), "E_OPTION", "a", "non-empty");
     expectLeewayError(() => ksTwoSample([1], [2, Number.NaN]), "E_NON_FINITE", "b[1]", "NaN");
-    expectLeewayError(() => ksTwoSample([1, "2" as unknown as number], [2]), "E_OPTION", "a[1]");
-    expectLeewayError(() => ksTwoSample(null as unknown as number[], [2]), "E_OPTION", "a");
+    expectLeewayError(() => ksTwoSample([1, "2" as unknown as number], [2]), "E_SAMPLE", "a[1]", "(string)");
+    expectLeewayError(() => ksTwoSample(null as unknown as number[], [2]), "E_SAMPLE", "a", "(null)");
   });
 });
 

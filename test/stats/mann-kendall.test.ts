@@ -41,6 +41,6 @@ describe("mannKendall and theilSenSlope", () => {
 
   it("refuses non-finite values and non-arrays", () => {
     expectLeewayError(() => theilSenSlope([1, Infinity]), "E_NON_FINITE", "values[1]");
-    expectLeewayError(() => mannKendall(3 as never), "E_OPTION", "values");
+    expectLeewayError(() => mannKendall(3 as never), "E_SAMPLE", "values", "got 3");
   });
 });

@@ -228,4 +228,18 @@ describe("Moments", () => {
     swapped.state.min = 5;
     expectLeewayError(() => Moments.restore(swapped), "E_SNAPSHOT", "min");
   });
+
+  it("refuses a snapshot whose mean, spread, block sums or extremes lie beyond what samples within ±1e100 can give (regression: 1e308 was accepted and read NaN)", () => {
+    const m = new Moments();
+    for (let i = 0; i < 40; i++) m.observe(Math.sin(i));
+    for (const [part, field, value] of [["merged", "mean", 1e308], ["merged", "m2", 1e250], ["block", "shift", -1e308], ["block", "sum", 1e200], ["block", "sumSquares", 1e300], [null, "min", -1e101], [null, "max", 1e308]] as const) {
+      const bad = throughJson(m.snapshot()) as unknown as { state: Record<string, Record<string, number> | number> };
+      if (part === null) bad.state[field] = value;
+      else (bad.state[part] as Record<string, number>)[field] = value;
+      expectLeewayError(() => Moments.restore(bad), "E_SNAPSHOT", field, "1e+100");
+    }
+    const edge = new Moments();
+    for (let i = 0; i < 300; i++) edge.observe(i % 2 === 0 ? 1e100 : -1e100);
+    expect(Moments.restore(throughJson(edge.snapshot())).observe(0)).toEqual(edge.observe(0));
+  });
 });

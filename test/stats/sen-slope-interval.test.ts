@@ -94,7 +94,7 @@ describe("senSlopeInterval", () => {
     expectLeewayError(() => senSlopeInterval([1]), "E_OPTION", "values");
     expectLeewayError(() => senSlopeInterval([1, Number.NaN, 2]), "E_NON_FINITE", "values[1]");
     expectLeewayError(() => senSlopeInterval([1, 2, 3], { confidence: 1 }), "E_OPTION", "confidence", "1");
-    expectLeewayError(() => senSlopeInterval("abc" as never), "E_OPTION", "values");
+    expectLeewayError(() => senSlopeInterval("abc" as never), "E_SAMPLE", "values", "(string)");
     expectLeewayError(() => senSlopeInterval(new Float64Array(4097)), "E_OPTION", "values", "4096");
   });
 });

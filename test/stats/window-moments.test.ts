@@ -165,4 +165,23 @@ describe("WindowMoments", () => {
     lying.state.count = 5;
     expectLeewayError(() => WindowMoments.restore(lying), "E_SNAPSHOT", "window", "length 5");
   });
+
+  it("refuses a snapshot whose window values, shift or sums lie beyond what samples within ±1e100 can give (regression: a window value of 1e308 was accepted and read NaN)", () => {
+    const w = new WindowMoments({ width: 6 });
+    for (let i = 0; i < 20; i++) w.observe(Math.sin(i));
+    const damage: [string, (s: { state: Record<string, unknown> }) => void][] = [
+      ["window[1]", (s) => ((s.state.window as number[])[1] = 1e308)],
+      ["shift", (s) => (s.state.shift = -1e308)],
+      ["sum", (s) => (s.state.sum = 1e200)],
+      ["sumSquares", (s) => (s.state.sumSquares = 1e300)],
+    ];
+    for (const [field, apply] of damage) {
+      const bad = throughJson(w.snapshot()) as unknown as { state: Record<string, unknown> };
+      apply(bad);
+      expectLeewayError(() => WindowMoments.restore(bad), "E_SNAPSHOT", field);
+    }
+    const edge = new WindowMoments({ width: 6 });
+    for (let i = 0; i < 50; i++) edge.observe(i % 2 === 0 ? 1e100 : -1e100);
+    expect(WindowMoments.restore(throughJson(edge.snapshot())).observe(0)).toEqual(edge.observe(0));
+  });
 });

@@ -191,9 +191,9 @@ export class Adwin implements ChangeTest {
   }
 
   scan(xs: Float64Array, from = 0): number {
+    let j = scanStart(NAME, xs, from);
     const n = xs.length;
     const refuse = this.#nonFinite === "refuse";
-    let j = scanStart(NAME, xs, from);
     while (j < n) {
       // the samples up to the next check go in as one run
       const room = this.#checkPeriod - this.#sinceCheck;

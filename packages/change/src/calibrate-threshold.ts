@@ -1,5 +1,5 @@
 import {
-  finiteArray,
+  finiteSamples,
   integerInRange,
   numberInRange,
   optionsObject,
@@ -103,7 +103,8 @@ export function calibrateThreshold(
   const o = optionsObject<CalibrationOptions>(NAME, options, KNOWN);
   const target = numberInRange(NAME, "targetArl0", o.targetArl0, { min: 2, max: 1e9 });
   const seed = seedOption(NAME, "seed", o.seed);
-  const reference = finiteArray(NAME, "referenceScores", referenceScores, { atLeast: 10 });
+  const reference = finiteSamples(NAME, "referenceScores", referenceScores);
+  if (reference.length < 10) throw new OptionError(NAME, "referenceScores", referenceScores, "an array of at least 10 finite numbers");
   const replicates = o.replicates === undefined ? 200 : integerInRange(NAME, "replicates", o.replicates, 10, 1e6);
   const n = reference.length;
   const blockLength = o.blockLength === undefined ? Math.max(1, Math.round(Math.cbrt(n))) : integerInRange(NAME, "blockLength", o.blockLength, 1, Math.floor(n / 2));

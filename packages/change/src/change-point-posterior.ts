@@ -15,6 +15,7 @@ import {
   type NonFinitePolicy,
   type Snapshot,
 } from "@leeway/core";
+import { requireBatch } from "@leeway/stats";
 import { logGamma } from "./log-gamma.js";
 import { buildFromSnapshot, definedOnly } from "./restore-support.js";
 
@@ -239,6 +240,7 @@ export class ChangePointPosterior {
 
   /** Takes every sample of `xs`; the same state as `observe` on each. */
   observeMany(xs: Float64Array): void {
+    requireBatch(NAME, xs);
     for (let i = 0; i < xs.length; i++) this.observe(xs[i] as number);
   }
 

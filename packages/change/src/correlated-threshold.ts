@@ -1,6 +1,9 @@
+import { finiteSamples, nonNegativeNumber, numberInRange, optionsObject, positiveInteger } from "@leeway/core";
 import type { ChangeTest } from "./change-test.js";
 import { calibrateThreshold } from "./calibrate-threshold.js";
 import { cusumArl } from "./cusum-arl.js";
+
+const NAME = "correlatedCusumThreshold";
 
 /** The in-control run length the bootstrap calibration works at before scaling to the target, in samples. */
 export const PILOT_ARL0 = 1000;
@@ -40,7 +43,11 @@ export interface CorrelatedThresholdOptions {
  * h >= gaussianThreshold(20000); // true: never below the white-noise threshold
  */
 export function correlatedCusumThreshold(make: (threshold: number) => ChangeTest, normalScores: Float64Array, options: CorrelatedThresholdOptions): number {
-  const { targetArl0, replicates, seed, k } = options;
+  const o = optionsObject<CorrelatedThresholdOptions>(NAME, options, ["targetArl0", "replicates", "seed", "k"]);
+  const targetArl0 = numberInRange(NAME, "targetArl0", o.targetArl0, { min: 2, max: 1e9 });
+  const k = nonNegativeNumber(NAME, "k", o.k);
+  const { replicates, seed } = o;
+  finiteSamples(NAME, "normalScores", normalScores);
   const pilot = Math.min(targetArl0, PILOT_ARL0);
   const gaussianPilot = gaussianThreshold(pilot, k);
   const result = calibrateThreshold(make, normalScores, {
@@ -71,6 +78,18 @@ export function correlatedCusumThreshold(make: (threshold: number) => ChangeTest
  * simulation output analysis). 1 when there are fewer than 5 batches.
  */
 export function batchMeansSpread(xs: Float64Array, m: number): number {
+  checkBatchMeans("batchMeansSpread", xs, m);
+  return spreadOfBatchMeans(xs, m);
+}
+
+/** Refuses a series that is not all finite numbers and a batch length that is not a positive integer. */
+function checkBatchMeans(component: string, xs: unknown, m: unknown): void {
+  finiteSamples(component, "xs", xs);
+  positiveInteger(component, "m", m);
+}
+
+/** ν of {@link batchMeansSpread}, on checked arguments. */
+function spreadOfBatchMeans(xs: Float64Array, m: number): number {
   const batches = Math.floor(xs.length / m);
   if (batches < 5) return 1;
   let sum = 0;
@@ -96,12 +115,13 @@ export function batchMeansSpread(xs: Float64Array, m: number): number {
  * threshold on the safe side.
  */
 export function batchMeansSpreadUpper(xs: Float64Array, m: number): number {
+  checkBatchMeans("batchMeansSpreadUpper", xs, m);
   const batches = Math.floor(xs.length / m);
   if (batches < 5) return 1;
   const df = batches - 1;
   const c = 2 / (9 * df);
   const chi = df * (1 - c - 1.2815515655446004 * Math.sqrt(c)) ** 3; // χ² quantile at 0.1
-  return batchMeansSpread(xs, m) * Math.sqrt(df / chi);
+  return spreadOfBatchMeans(xs, m) * Math.sqrt(df / chi);
 }
 
 
@@ -110,6 +130,8 @@ export const CALIBRATION_BLOCK = 20;
 
 /** The two-sided CUSUM decision interval h (reference value k, default 0.5) whose ARL0 on independent N(0, 1) scores is `targetArl0` (Siegmund, 1985), by bisection. */
 export function gaussianThreshold(targetArl0: number, k = 0.5): number {
+  numberInRange("gaussianThreshold", "targetArl0", targetArl0, { min: 1, max: 1e12 });
+  nonNegativeNumber("gaussianThreshold", "k", k);
   let lo = 0.01;
   let hi = 200;
   for (let i = 0; i < 60; i++) {

@@ -183,9 +183,10 @@ export class SlidingKsTest implements ChangeTest {
   }
 
   scan(xs: Float64Array, from = 0): number {
+    const start = scanStart(NAME, xs, from);
     const n = xs.length;
     const refuse = this.#nonFinite === "refuse";
-    for (let j = scanStart(NAME, xs, from); j < n; j++) {
+    for (let j = start; j < n; j++) {
       const x = xs[j] as number;
       if (!(x - x === 0)) {
         if (refuse) throw new NonFiniteError(NAME, `xs[${j}]`, x);

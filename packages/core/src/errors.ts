@@ -16,15 +16,18 @@ export class LeewayError extends Error {
 
 /**
  * An option (or a function argument that acts as one) is missing or out of range.
+ * A value that is not a number is shown with its type.
  * @example
  * new OptionError("Cusum", "h", -1, "a finite number > 0").message;
  * // "Cusum: option h must be a finite number > 0, got -1"
+ * new OptionError("Cusum", "h", "5", "a finite number > 0").message;
+ * // 'Cusum: option h must be a finite number > 0, got "5" (string)'
  */
 export class OptionError extends LeewayError {
   readonly component: string;
   readonly option: string;
   constructor(component: string, option: string, value: unknown, allowed: string) {
-    super("E_OPTION", `${component}: option ${option} must be ${allowed}, got ${describeValue(value)}`);
+    super("E_OPTION", `${component}: option ${option} must be ${allowed}, got ${describeValue(value)}${typeNote(value)}`);
     this.component = component;
     this.option = option;
   }
@@ -52,7 +55,7 @@ export class NonFiniteError extends LeewayError {
  */
 export class SampleError extends LeewayError {
   constructor(component: string, parameter: string, value: unknown, allowed: string) {
-    super("E_SAMPLE", `${component}: ${parameter} must be ${allowed}, got ${describeValue(value)}${typeof value === "number" ? "" : ` (${typeOf(value)})`}`);
+    super("E_SAMPLE", `${component}: ${parameter} must be ${allowed}, got ${describeValue(value)}${typeNote(value)}`);
   }
 }
 
@@ -88,6 +91,11 @@ export class StateError extends LeewayError {
   constructor(component: string, message: string) {
     super("E_STATE", `${component}: ${message}`);
   }
+}
+
+/** " (string)", " (null)", ...: the type a message adds after a value that is not a number. */
+function typeNote(value: unknown): string {
+  return typeof value === "number" ? "" : ` (${typeOf(value)})`;
 }
 
 /** The type of a value as a message names it: "null", "array", "Float32Array", "string", ... */

@@ -18,6 +18,7 @@ export {
   isNumber,
   requireNumber,
   requireNumbers,
+  finiteSamples,
   sampleWithin,
 } from "./validate.js";
 export type { RangeBounds, NonFinitePolicy } from "./validate.js";

@@ -1,5 +1,6 @@
 import seedrandom from "seedrandom";
-import { seedOption } from "./validate.js";
+import { integerInRange, seedOption } from "./validate.js";
+import { NonFiniteError, SampleError } from "./errors.js";
 import { envelope, openSnapshot, type Snapshot } from "./snapshot.js";
 
 /** The plain state of a {@link RandomSource}: the Alea generator's four words and a cached normal deviate. */
@@ -45,16 +46,26 @@ export class RandomSource {
 
   /** A uniform number in [low, high). */
   uniform(low: number, high: number): number {
+    finiteArgument("low", low);
+    finiteArgument("high", high);
     return low + (high - low) * this.#prng.double();
   }
 
   /** A uniform integer in [0, n) for an integer n ≥ 1. */
   integer(n: number): number {
+    integerInRange("RandomSource", "n", n, 1, Number.MAX_SAFE_INTEGER);
     return Math.floor(this.#prng.double() * n);
   }
 
   /** A normal deviate with the given mean and standard deviation (Box–Muller). */
   normal(mean = 0, sd = 1): number {
+    finiteArgument("mean", mean);
+    finiteArgument("sd", sd);
+    return this.#normal(mean, sd);
+  }
+
+  /** {@link normal} on checked arguments. */
+  #normal(mean: number, sd: number): number {
     if (this.#spareNormal !== null) {
       const z = this.#spareNormal;
       this.#spareNormal = null;
@@ -71,6 +82,7 @@ export class RandomSource {
 
   /** An exponential deviate with the given rate (mean 1/rate), by inversion. */
   exponential(rate = 1): number {
+    if (!(typeof rate === "number" && rate > 0 && rate < Infinity)) throw new SampleError("RandomSource", "rate", rate, "a finite number > 0");
     let u = this.#prng.double();
     while (u === 0) u = this.#prng.double();
     return -Math.log(u) / rate;
@@ -78,12 +90,16 @@ export class RandomSource {
 
   /** Fills `out` with normal deviates and returns it. */
   fillNormal(out: Float64Array, mean = 0, sd = 1): Float64Array {
-    for (let i = 0; i < out.length; i++) out[i] = this.normal(mean, sd);
+    outArgument(out);
+    finiteArgument("mean", mean);
+    finiteArgument("sd", sd);
+    for (let i = 0; i < out.length; i++) out[i] = this.#normal(mean, sd);
     return out;
   }
 
   /** Fills `out` with uniforms in [0, 1) and returns it. */
   fillUniform(out: Float64Array): Float64Array {
+    outArgument(out);
     for (let i = 0; i < out.length; i++) out[i] = this.#prng.double();
     return out;
   }
@@ -120,4 +136,15 @@ export class RandomSource {
     source.#spareNormal = spareNormal;
     return source;
   }
+}
+
+/** A numeric argument of a draw: a number (else E_SAMPLE naming it and its type) and finite (else E_NON_FINITE). */
+function finiteArgument(parameter: string, x: unknown): void {
+  if (typeof x !== "number") throw new SampleError("RandomSource", parameter, x, "a finite number");
+  if (x - x !== 0) throw new NonFiniteError("RandomSource", parameter, x);
+}
+
+/** The array a fill writes into: a Float64Array (else E_SAMPLE naming out and its type). */
+function outArgument(out: unknown): void {
+  if (!(out instanceof Float64Array)) throw new SampleError("RandomSource", "out", out, "a Float64Array");
 }

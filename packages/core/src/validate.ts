@@ -107,10 +107,8 @@ export function finiteArray(
   const out = new Float64Array(items.length);
   for (let i = 0; i < items.length; i++) {
     const v = items[i];
-    if (typeof v !== "number" && typeof v !== "bigint") throw new OptionError(component, `${option}[${i}]`, v, "a finite number");
-    const n = Number(v);
-    if (!Number.isFinite(n)) throw new OptionError(component, `${option}[${i}]`, v, "a finite number");
-    out[i] = n;
+    if (typeof v !== "number" || !Number.isFinite(v)) throw new OptionError(component, `${option}[${i}]`, v, "a finite number");
+    out[i] = v;
   }
   return out;
 }
@@ -183,6 +181,31 @@ export function requireNumbers(component: string, parameter: string, xs: unknown
   }
   if (length !== undefined && xs.length !== length) throw new DimensionError(component, parameter, length, xs.length);
   return xs as ArrayLike<number>;
+}
+
+/**
+ * A series of samples given to a whole-series function (a trend test, a
+ * calibration), copied into a fresh Float64Array. Anything but an array or a
+ * typed array of numbers is a {@link SampleError} (`E_SAMPLE`) naming the
+ * parameter (or the element, by index) and the type received; NaN or
+ * ±Infinity is a {@link NonFiniteError} (`E_NON_FINITE`) naming its index.
+ * @example
+ * finiteSamples("mannKendall", "values", [1, 2, 3]).length; // 3
+ * finiteSamples("mannKendall", "values", [1, false]); // throws: mannKendall: values[1] must be a finite number, got false (boolean)
+ */
+export function finiteSamples(component: string, parameter: string, values: unknown): Float64Array {
+  if (values instanceof Float64Array || values instanceof Float32Array || Array.isArray(values)) {
+    const items = values as ArrayLike<unknown>;
+    const out = new Float64Array(items.length);
+    for (let i = 0; i < items.length; i++) {
+      const v = items[i];
+      if (typeof v !== "number") throw new SampleError(component, `${parameter}[${i}]`, v, "a finite number");
+      if (v - v !== 0) throw new NonFiniteError(component, `${parameter}[${i}]`, v);
+      out[i] = v;
+    }
+    return out;
+  }
+  throw new SampleError(component, parameter, values, "a Float64Array, a Float32Array or an array of finite numbers");
 }
 
 /**

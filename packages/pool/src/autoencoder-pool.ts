@@ -3,6 +3,7 @@ import {
   NonFiniteError,
   OptionError,
   SnapshotError,
+  SampleError,
   StateError,
   checkedSize,
   envelope,
@@ -351,9 +352,10 @@ export class AutoencoderPool {
   addMember(source: readonly ArrayLike<number>[] | FrozenModel, label: string | null = null): number {
     if (label !== null && typeof label !== "string") throw new OptionError(COMPONENT, "label", label, "a string or null");
     if (this.#members.length >= this.#maxMembers) throw new StateError(COMPONENT, `addMember: the pool is full (${this.#maxMembers} members)`);
+    if (!(source instanceof FrozenModel)) return this.#addFitted(this.#sourceRows(source), label);
+    const model = this.#thawed(source);
     this.#scored = false;
-    if (!(source instanceof FrozenModel)) return this.#addFitted(source, label);
-    this.#members.push({ model: this.#thawed(source), label, nearest: 0, lastUsed: this.#calls });
+    this.#members.push({ model, label, nearest: 0, lastUsed: this.#calls });
     this.#losses = new Float64Array(this.#members.length);
     return this.#members.length - 1;
   }
@@ -380,14 +382,14 @@ export class AutoencoderPool {
   replaceMember(member: number, source: readonly ArrayLike<number>[] | FrozenModel, label: string | null = null): number {
     this.#member(member);
     if (label !== null && typeof label !== "string") throw new OptionError(COMPONENT, "label", label, "a string or null");
-    this.#scored = false;
     let model: OselmAutoencoder;
     if (source instanceof FrozenModel) model = this.#thawed(source);
     else {
       model = new OselmAutoencoder({ ...this.#memberOptions, seed: this.#memberSeed() });
-      model.fit(source);
+      model.fit(this.#sourceRows(source));
       this.#spawned++;
     }
+    this.#scored = false;
     this.#members[member] = { model, label, nearest: 0, lastUsed: this.#calls };
     return member;
   }
@@ -533,10 +535,18 @@ export class AutoencoderPool {
   #addFitted(rows: readonly ArrayLike<number>[], label: string | null): number {
     const model = new OselmAutoencoder({ ...this.#memberOptions, seed: this.#memberSeed() });
     model.fit(rows);
+    this.#scored = false;
     this.#spawned++;
     this.#members.push({ model, label, nearest: 0, lastUsed: this.#calls });
     this.#losses = new Float64Array(this.#members.length);
     return this.#members.length - 1;
+  }
+
+  /** Rows to fit a member on: an array of vectors of the pool's length holding numbers only (E_SAMPLE or E_DIMENSION naming source[r]). */
+  #sourceRows(source: unknown): readonly ArrayLike<number>[] {
+    if (!Array.isArray(source)) throw new SampleError(COMPONENT, "source", source, "an array of input vectors or a FrozenModel");
+    for (let r = 0; r < source.length; r++) requireNumbers(COMPONENT, `source[${r}]`, source[r], this.#n);
+    return source;
   }
 
   /** A learning copy of a frozen model; E_OPTION unless it has the pool's member options. */
@@ -602,9 +612,7 @@ export class AutoencoderPool {
 
   /** Length and finiteness of x; false for a non-finite sample when not refusing. */
   #check(x: ArrayLike<number>, refuse: boolean): boolean {
-    if (x === null || typeof x !== "object" || typeof x.length !== "number") throw new DimensionError(COMPONENT, "x", this.#n, 0);
-    if (x.length !== this.#n) throw new DimensionError(COMPONENT, "x", this.#n, x.length);
-    requireNumbers(COMPONENT, "x", x);
+    requireNumbers(COMPONENT, "x", x, this.#n);
     for (let j = 0; j < this.#n; j++) {
       const v = x[j] as number;
       if (!Number.isFinite(v)) {

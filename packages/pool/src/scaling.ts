@@ -62,9 +62,7 @@ export function standardizeFrom(rows: readonly Float64Array[], inputs: number): 
  */
 export function scaleInto(component: string, parameter: string, x: ArrayLike<number>, z: Float64Array, scaling: Scaling, refuse: boolean): boolean {
   const n = z.length;
-  if (x === null || typeof x !== "object" || typeof x.length !== "number") throw new DimensionError(component, parameter, n, 0);
-  if (x.length !== n) throw new DimensionError(component, parameter, n, x.length);
-  requireNumbers(component, parameter, x);
+  requireNumbers(component, parameter, x, n);
   const offset = scaling.offset;
   const scale = scaling.scale;
   let check = 0;

@@ -1,4 +1,4 @@
-import { NonFiniteError, OptionError, integerInRange, numberInRange, optionsObject } from "@leeway/core";
+import { OptionError, finiteSamples, integerInRange, numberInRange, optionsObject } from "@leeway/core";
 
 /** How {@link decimate} filters before it keeps every `factor`-th sample. */
 export interface DecimateOptions {
@@ -65,14 +65,9 @@ export function decimate(signal: ArrayLike<number>, factor: number, options?: De
   const taps = opts.taps === undefined ? 64 * m + 1 : integerInRange("decimate", "taps", opts.taps, 3, 1 << 20);
   if (taps % 2 === 0) throw new OptionError("decimate", "taps", opts.taps, "an odd integer >= 3");
   const cutoff = opts.cutoff === undefined ? 0.9 : numberInRange("decimate", "cutoff", opts.cutoff, { min: 0, max: 1, minExclusive: true });
-  const n = signal.length;
+  const x = finiteSamples("decimate", "signal", signal);
+  const n = x.length;
   if (n === 0) return new Float64Array(0);
-  const x = new Float64Array(n);
-  for (let i = 0; i < n; i++) {
-    const v = signal[i] as number;
-    if (typeof v !== "number" || !Number.isFinite(v)) throw new NonFiniteError("decimate", `signal[${i}]`, v);
-    x[i] = v;
-  }
   // f_c in cycles per input sample: cutoff × (½ / factor)
   const h = lowPassKernel((cutoff * 0.5) / m, taps);
   const half = (taps - 1) / 2;

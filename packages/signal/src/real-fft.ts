@@ -1,4 +1,4 @@
-import { DimensionError, OptionError } from "@leeway/core";
+import { DimensionError, OptionError, SampleError } from "@leeway/core";
 
 /** The largest transform size accepted (2^24 points). */
 export const MAX_FFT_SIZE = 2 ** 24;
@@ -110,7 +110,7 @@ export class RealFft {
   }
 
   #checkLength(data: Float64Array): void {
-    if (!(data instanceof Float64Array)) throw new OptionError("RealFft", "data", data, `a Float64Array of length ${this.size}`);
+    if (!(data instanceof Float64Array)) throw new SampleError("RealFft", "data", data, `a Float64Array of length ${this.size}`);
     if (data.length !== this.size) throw new DimensionError("RealFft", "data", this.size, data.length);
   }
 

@@ -1,4 +1,4 @@
-import { DimensionError, OptionError, integerInRange, oneOf } from "@leeway/core";
+import { DimensionError, OptionError, SampleError, integerInRange, oneOf } from "@leeway/core";
 import { frameArgument, refuseNonFiniteResult } from "./sample-checks.js";
 
 /** How {@link reduceBins} combines the values of one group: their mean or their sum. */
@@ -13,15 +13,17 @@ export type BinReduction = "mean" | "sum";
  * Method: common practice (bin averaging), no source.
  * @param values the L input values
  * @param bins B, 1 ≤ B ≤ L
- * @param out B output values (allocated when omitted)
+ * @param given B output values (allocated when omitted)
  * @param how `"mean"` (default) or `"sum"`
  * @example
  * reduceBins(Float64Array.from([1, 3, 5, 7]), 2); // Float64Array [2, 6]
  */
-export function reduceBins(values: Float64Array, bins: number, out: Float64Array = new Float64Array(bins), how: BinReduction = "mean"): Float64Array {
+export function reduceBins(values: Float64Array, bins: number, given?: Float64Array, how: BinReduction = "mean"): Float64Array {
   const length = frameArgument("reduceBins", "values", values).length;
   if (length === 0) throw new OptionError("reduceBins", "values", values, "a non-empty Float64Array");
   const b = integerInRange("reduceBins", "bins", bins, 1, length);
+  const out = given ?? new Float64Array(b);
+  if (!(out instanceof Float64Array)) throw new SampleError("reduceBins", "out", out, "a Float64Array");
   if (out.length !== b) throw new DimensionError("reduceBins", "out", b, out.length);
   const mean = oneOf("reduceBins", "how", how, ["mean", "sum"] as const) === "mean";
   let check = 0;

@@ -1,4 +1,4 @@
-import { DimensionError, OptionError, oneOf, optionsObject, positiveNumber } from "@leeway/core";
+import { DimensionError, OptionError, oneOf, optionsObject, positiveNumber, requireNumber } from "@leeway/core";
 import { frameArgument, refuseNonFiniteResult } from "./sample-checks.js";
 import { RealFft, isPowerOfTwo, MAX_FFT_SIZE } from "./real-fft.js";
 import { makeWindow, WINDOW_NAMES, type Window, type WindowName } from "./window.js";
@@ -66,7 +66,7 @@ export class SpectrumAnalyzer {
 
   /** The frequency of bin k in Hz, k·Δf. */
   frequency(k: number): number {
-    return k * this.binWidth;
+    return requireNumber("SpectrumAnalyzer", "k", k) * this.binWidth;
   }
 
   /**

@@ -1,4 +1,4 @@
-import { LeewayError, OptionError, RandomSource, SnapshotError, envelope, openSnapshot, type RandomSourceState, type Snapshot } from "@leeway/core";
+import { LeewayError, OptionError, RandomSource, SnapshotError, envelope, openSnapshot, requireNumber, type RandomSourceState, type Snapshot } from "@leeway/core";
 import { SpectrumAnalyzer, reduceBins } from "@leeway/signal";
 import { bearingOrders, type BearingOrders } from "./bearing.js";
 import { defineScenario, type DegradationEvent, type Scenario, type ScenarioEvent, type ScenarioSpec } from "./scenario.js";
@@ -350,6 +350,7 @@ function sameData(a: unknown, b: unknown): boolean {
  * degradationSeverity({ start: 0, end: 10, growth: "linear", rate: 4 }, 4); // 0.5
  */
 export function degradationSeverity(e: Pick<DegradationEvent, "start" | "end" | "growth" | "rate">, i: number): number {
+  requireNumber("degradationSeverity", "i", i);
   if (i < e.start || i >= e.end) return 0;
   const u = (i - e.start + 1) / (e.end - e.start);
   return e.growth === "linear" ? u : Math.expm1(e.rate * u) / Math.expm1(e.rate);

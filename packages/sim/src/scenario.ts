@@ -17,9 +17,9 @@ export const MAX_SCENARIO_LENGTH = 100_000_000;
 
 /**
  * The largest level a scenario takes: every amplitude (m/s²), noise standard
- * deviation (m/s²), fault gain and noise factor, the speeds in rpm, the speed
+ * deviation (m/s²), fault gain, sensor gain and noise factor, the speeds in rpm, the speed
  * gain (rpm / referenceRpm)^speedExponent of every scheduled speed, and the
- * products of the clog gains and of the noise factors of events that overlap.
+ * products of the clog gains, of the sensor gains and of the noise factors of events that overlap.
  * Within these bounds (and sampleRate ≥ 1 Hz, reference ≥ 1e-9 m/s²) every
  * frame and spectrum is finite: frames stay below about 10^21 m/s².
  */
@@ -283,7 +283,7 @@ function validateEvent(item: unknown, i: number, length: number): ScenarioEvent 
     const e = optionsObject<Extract<EventSpec, { type: "environment-shift" }>>(C, item, ["type", "start", "end", "duration", "noiseFactor", "tones", "gain", "ramp", "label"]);
     const { start, end } = span(path, e, length, length);
     const noiseFactor = e.noiseFactor === undefined ? 1 : level(`${path}.noiseFactor`, e.noiseFactor, false);
-    const gain = e.gain === undefined ? 1 : positiveNumber(C, `${path}.gain`, e.gain);
+    const gain = e.gain === undefined ? 1 : level(`${path}.gain`, e.gain, true);
     const ramp = e.ramp === undefined ? 0 : integerInRange(C, `${path}.ramp`, e.ramp, 0, end - start);
     const tones = (e.tones ?? []).map((t, k) => {
       const tone = optionsObject<InterferenceTone>(C, t, ["frequency", "amplitude"]);
@@ -364,6 +364,8 @@ function checkLevels(machine: MachineSpec, schedule: ModeSegment[], events: Scen
   const shifts = events.map((e, i) => ({ e, i })).filter((x) => x.e.type === "environment-shift");
   const noise = largestOverlapProduct(shifts.map(({ e, i }) => ({ start: e.start, end: e.end, factor: (e as EnvironmentShiftEvent).noiseFactor, index: i })));
   if (noise !== null) throw new OptionError(C, `events[${noise.index}].noiseFactor`, noise.factor, `a factor whose product with the noise factors overlapping it is at most ${MAX_SCENARIO_LEVEL}`);
+  const sensor = largestOverlapProduct(shifts.map(({ e, i }) => ({ start: e.start, end: e.end, factor: (e as EnvironmentShiftEvent).gain, index: i })));
+  if (sensor !== null) throw new OptionError(C, `events[${sensor.index}].gain`, sensor.factor, `a sensor gain whose product with the sensor gains overlapping it is at most ${MAX_SCENARIO_LEVEL}`);
 }
 
 /** The first interval at whose start the product of the factors in force passes MAX_SCENARIO_LEVEL (a sweep over starts and ends in log space), or null. */

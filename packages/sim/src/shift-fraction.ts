@@ -1,3 +1,4 @@
+import { requireNumber } from "@leeway/core";
 import type { EnvironmentShiftEvent } from "./scenario.js";
 
 /**
@@ -11,6 +12,7 @@ import type { EnvironmentShiftEvent } from "./scenario.js";
  * shiftFraction({ start: 10, end: 100, ramp: 4 }, 11); // 0.5
  */
 export function shiftFraction(e: Pick<EnvironmentShiftEvent, "start" | "end" | "ramp">, i: number): number {
+  requireNumber("shiftFraction", "i", i);
   if (i < e.start || i >= e.end) return 0;
   if (e.ramp <= 0) return 1;
   return Math.min(1, (i - e.start + 1) / e.ramp);

@@ -265,8 +265,10 @@ export class EwMoments {
     const skipped = r.integer("skipped", 0, Number.MAX_SAFE_INTEGER);
     // W = Σ λ^k over the samples seen: 0 before the first, then in [1, 1/α].
     const weight = r.numberIn("weight", 0, (1 / alpha) * (1 + 1e-9));
-    const mean = r.number("mean");
-    const s = r.numberIn("s", 0, Number.MAX_VALUE);
+    // samples lie in ±L, so does their mean, and S ≤ (2L)²·W (slack for rounding)
+    const L = SAMPLE_LIMIT;
+    const mean = r.numberIn("mean", -L, L);
+    const s = r.numberIn("s", 0, 5 * L * L * Math.max(weight, 1));
     if ((count === 0) !== (weight === 0) || (count > 0 && weight < 1)) {
       throw new SnapshotError(EwMoments.kind, "state.weight", `must be 0 before the first sample and at least 1 after it, got ${weight} for count ${count}`);
     }

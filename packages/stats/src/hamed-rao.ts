@@ -1,5 +1,5 @@
-import { OptionError, integerInRange, numberInRange, oneOf } from "@leeway/core";
-import { finiteCopy, mannKendallVariance, mannKendallZ, theilSenOfSeries, tieSum } from "./mann-kendall.js";
+import { finiteSamples, OptionError, integerInRange, numberInRange, oneOf } from "@leeway/core";
+import { mannKendallVariance, mannKendallZ, theilSenOfSeries, tieSum } from "./mann-kendall.js";
 import { normalSurvival } from "./normal-tail.js";
 
 /** Options of {@link mannKendallHamedRao}. */
@@ -78,9 +78,9 @@ const MIN_FACTOR = 1e-3;
  * [r.s, r.lagsUsed]; // [25, []]: no significant autocorrelation, so z is the plain test's
  */
 export function mannKendallHamedRao(values: ArrayLike<number>, options: HamedRaoOptions = {}): HamedRaoResult {
-  const xs = finiteCopy(NAME, values);
+  const xs = finiteSamples(NAME, "values", values);
   const n = xs.length;
-  if (n < 4) throw new OptionError(NAME, "values", `${n} points`, "a series of at least 4 points");
+  if (n < 4) throw new OptionError(NAME, "values", n, "a series of at least 4 points");
   const maxLag = options.maxLag === undefined ? n - 1 : integerInRange(NAME, "maxLag", options.maxLag, 1, n - 1);
   const significance = options.significance === undefined ? 0.05 : numberInRange(NAME, "significance", options.significance, { min: 0, max: 1, minExclusive: true, maxExclusive: true });
   const lags = options.lags === undefined ? "significant" : oneOf(NAME, "lags", options.lags, ["significant", "leading", "all"] as const);

@@ -1,4 +1,4 @@
-import { NonFiniteError, OptionError } from "@leeway/core";
+import { finiteSamples, OptionError } from "@leeway/core";
 
 /** What {@link ksTwoSample} returns. */
 export interface KsResult {
@@ -98,16 +98,7 @@ export function ksStatisticSorted(xs: ArrayLike<number>, ys: ArrayLike<number>):
 }
 
 function sortedCopy(name: string, values: ArrayLike<number>): Float64Array {
-  if (values === null || typeof values !== "object" || typeof values.length !== "number") {
-    throw new OptionError("ksTwoSample", name, values, "an array of finite numbers");
-  }
-  if (values.length === 0) throw new OptionError("ksTwoSample", name, values, "a non-empty array of finite numbers");
-  const out = new Float64Array(values.length);
-  for (let i = 0; i < values.length; i++) {
-    const v = values[i];
-    if (typeof v !== "number") throw new OptionError("ksTwoSample", `${name}[${i}]`, v, "a finite number");
-    if (!Number.isFinite(v)) throw new NonFiniteError("ksTwoSample", `${name}[${i}]`, v);
-    out[i] = v;
-  }
+  const out = finiteSamples("ksTwoSample", name, values);
+  if (out.length === 0) throw new OptionError("ksTwoSample", name, values, "a non-empty array of finite numbers");
   return out.sort();
 }

@@ -1,4 +1,4 @@
-import { NonFiniteError, OptionError } from "@leeway/core";
+import { finiteSamples } from "@leeway/core";
 import { medianInPlace } from "./select.js";
 import { normalSurvival } from "./normal-tail.js";
 
@@ -47,7 +47,7 @@ export function tieTerm(t: number): number {
  * mannKendall([1, 2, 3, 4, 5]).s; // 10
  */
 export function mannKendall(values: ArrayLike<number>): MannKendallResult {
-  const xs = finiteCopy("mannKendall", values);
+  const xs = finiteSamples("mannKendall", "values", values);
   const n = xs.length;
   let s = 0;
   for (let i = 0; i < n; i++) {
@@ -67,7 +67,7 @@ export function mannKendall(values: ArrayLike<number>): MannKendallResult {
  * theilSenSlope([1, 3, 5, 100, 9]); // 2
  */
 export function theilSenSlope(values: ArrayLike<number>): number {
-  return theilSenOfSeries(finiteCopy("theilSenSlope", values));
+  return theilSenOfSeries(finiteSamples("theilSenSlope", "values", values));
 }
 
 /** Theil–Sen slope of an already validated series. */
@@ -99,17 +99,3 @@ export function tieSum(xs: Float64Array): number {
   return ties;
 }
 
-/** A Float64Array copy of a series; a non-number or non-finite value is refused naming its index. */
-export function finiteCopy(component: string, values: ArrayLike<number>): Float64Array {
-  if (values === null || typeof values !== "object" || typeof values.length !== "number") {
-    throw new OptionError(component, "values", values, "an array of finite numbers");
-  }
-  const out = new Float64Array(values.length);
-  for (let i = 0; i < values.length; i++) {
-    const v = values[i];
-    if (typeof v !== "number") throw new OptionError(component, `values[${i}]`, v, "a finite number");
-    if (!Number.isFinite(v)) throw new NonFiniteError(component, `values[${i}]`, v);
-    out[i] = v;
-  }
-  return out;
-}

@@ -260,6 +260,7 @@ export class Moments {
    * one is not changed.
    */
   merge(other: Moments): this {
+    if (!(other instanceof Moments)) throw new SampleError("Moments", "other", other, "a Moments to merge");
     this.#flush();
     const n = other.count;
     if (n === 0) {
@@ -317,6 +318,19 @@ export class Moments {
     const empty = n + bCount === 0;
     if (empty !== (min === null) || empty !== (max === null)) throw new SnapshotError(kind, "state.min", "and state.max must be null exactly when no sample was taken");
     if (min !== null && max !== null && min > max) throw new SnapshotError(kind, "state.min", `must not exceed state.max, got ${min} > ${max}`);
+    // Samples lie in ±L, so do means, shifts and extremes; a weighted sum of squared deviations
+    // from a point in ±L is at most (2L)² times its weight (bounds with slack for rounding).
+    const L = SAMPLE_LIMIT;
+    const within = (reader: typeof r, name: string, value: number, limit: number): void => {
+      if (!(Math.abs(value) <= limit)) reader.fail(name, `must be within ±${limit}, what samples within ±${L} can give, got ${value}`);
+    };
+    within(merged, "mean", mean, L);
+    within(merged, "m2", m2, 5 * L * L * w);
+    within(block, "shift", bShift, L);
+    within(block, "sum", bSum, 3 * L * bWeight);
+    within(block, "sumSquares", bSq, 5 * L * L * bWeight);
+    within(r, "min", min ?? 0, L);
+    within(r, "max", max ?? 0, L);
     const m = new Moments({ weighted, nonFinite: policy });
     m.#n = n;
     m.#w = w;

@@ -1,15 +1,19 @@
+import { requireNumber } from "@leeway/core";
+
 /**
  * The complementary error function erfc(x) = (2/√π) ∫ₓ^∞ e^{−t²} dt, to
  * about 1e-14 relative. Method: for |x| < 2.5 the everywhere-positive series
  * erf(x) = (2/√π) e^{−x²} Σ 2ⁿ x^{2n+1} / (1·3···(2n+1)) (Abramowitz &
  * Stegun, 1964, 7.1.6); beyond it the continued fraction
  * erfc(x) = (e^{−x²}/√π) · 1/(x + (1/2)/(x + 1/(x + (3/2)/(x + …)))) (A&S 7.1.14),
- * evaluated by the modified Lentz method.
+ * evaluated by the modified Lentz method. NaN gives NaN; a value that is not
+ * a number is refused with `SampleError` (as in the two functions below).
  *
  * @example
  * erfc(0); // 1
  */
 export function erfc(x: number): number {
+  requireNumber("erfc", "x", x);
   if (Number.isNaN(x)) return Number.NaN;
   if (x < 0) return 2 - erfc(-x);
   if (x === Infinity) return 0;
@@ -52,6 +56,7 @@ export function erfc(x: number): number {
  * normalSurvival(1.959963984540054).toFixed(4); // "0.0250"
  */
 export function normalSurvival(z: number): number {
+  requireNumber("normalSurvival", "z", z);
   return 0.5 * erfc(z / Math.SQRT2);
 }
 
@@ -63,5 +68,6 @@ export function normalSurvival(z: number): number {
  * normalCdf(0); // 0.5
  */
 export function normalCdf(x: number): number {
+  requireNumber("normalCdf", "x", x);
   return 0.5 * erfc(-x / Math.SQRT2);
 }

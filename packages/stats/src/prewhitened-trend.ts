@@ -1,5 +1,5 @@
-import { OptionError } from "@leeway/core";
-import { finiteCopy, mannKendallVariance, mannKendallZ, theilSenOfSeries, tieSum } from "./mann-kendall.js";
+import { finiteSamples, OptionError } from "@leeway/core";
+import { mannKendallVariance, mannKendallZ, theilSenOfSeries, tieSum } from "./mann-kendall.js";
 import { normalSurvival } from "./normal-tail.js";
 
 /** The Mann–Kendall test of a pre-whitened series. */
@@ -49,9 +49,9 @@ const MAX_PHI = 0.99;
  * [r.n, r.s > 0, r.phi > 0]; // [10, true, true]: the rise itself raises r1, so part of it is whitened away
  */
 export function mannKendallPrewhitened(values: ArrayLike<number>): PrewhitenedTrendResult {
-  const xs = finiteCopy(NAME, values);
+  const xs = finiteSamples(NAME, "values", values);
   const n = xs.length;
-  if (n < 5) throw new OptionError(NAME, "values", `${n} points`, "a series of at least 5 points");
+  if (n < 5) throw new OptionError(NAME, "values", n, "a series of at least 5 points");
   const slope = theilSenOfSeries(xs);
   const r1 = lagOneAutocorrelation(xs);
   const phi = Math.min(MAX_PHI, Math.max(0, (n * r1 + 1) / (n - 3)));

@@ -9,6 +9,7 @@ import {
   OptionError,
   RandomSource,
   seedOption,
+  SampleError,
   SnapshotError,
   StateError,
   toPlainArray,
@@ -257,6 +258,7 @@ export class QuantileSketch {
    * describes both streams. The other one is not changed.
    */
   merge(other: QuantileSketch): this {
+    if (!(other instanceof QuantileSketch)) throw new SampleError("QuantileSketch", "other", other, "a QuantileSketch to merge");
     if (other.#k !== this.#k) throw new StateError("QuantileSketch", `merge needs sketches of the same k; this has k = ${this.#k}, the other k = ${other.#k}`);
     if (other === this) throw new StateError("QuantileSketch", "cannot merge a sketch into itself");
     while (this.#levels.length < other.#levels.length) this.#setLevels(this.#levels.length + 1);

@@ -1,6 +1,5 @@
-import { numberInRange, OptionError } from "@leeway/core";
+import { finiteSamples, numberInRange, OptionError } from "@leeway/core";
 import { kendallUpperTail } from "./kendall-distribution.js";
-import { finiteSeries } from "./finite-series.js";
 import { mannKendallVariance, tieSum } from "./mann-kendall.js";
 import { normalQuantile } from "./normal-quantile.js";
 
@@ -52,7 +51,7 @@ export interface SenSlopeInterval {
  */
 export function senSlopeInterval(values: ArrayLike<number>, options: SenSlopeIntervalOptions = {}): SenSlopeInterval {
   const confidence = confidenceOption("senSlopeInterval", options);
-  const xs = finiteSeries("senSlopeInterval", values);
+  const xs = finiteSamples("senSlopeInterval", "values", values);
   const n = xs.length;
   if (n < 2) throw new OptionError("senSlopeInterval", "values", `${n} values`, "a series of at least 2 finite numbers");
   if (n > SEN_INTERVAL_MAX_N) throw new OptionError("senSlopeInterval", "values", `${n} values`, `a series of at most ${SEN_INTERVAL_MAX_N} values`);

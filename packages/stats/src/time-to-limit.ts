@@ -1,5 +1,4 @@
-import { finiteNumber, oneOf, OptionError, positiveNumber } from "@leeway/core";
-import { finiteSeries } from "./finite-series.js";
+import { finiteNumber, finiteSamples, oneOf, OptionError, positiveNumber } from "@leeway/core";
 import { mannKendall } from "./mann-kendall.js";
 import { normalQuantile } from "./normal-quantile.js";
 import { confidenceOption, senSlopeInterval } from "./sen-slope-interval.js";
@@ -98,7 +97,7 @@ export function timeToLimit(values: ArrayLike<number>, options: TimeToLimitOptio
   const confidence = confidenceOption(C, options);
   const step = options.step === undefined ? 1 : positiveNumber(C, "step", options.step);
   const above = (options.side === undefined ? "above" : oneOf(C, "side", options.side, ["above", "below"] as const)) === "above";
-  const xs = finiteSeries(C, values);
+  const xs = finiteSamples(C, "values", values);
   const n = xs.length;
   const alpha = 1 - confidence;
   const refuse = (reason: TimeToLimitRefusal, detail: string, pValue: number): TimeToLimitRefused => ({ status: "refused", limit, confidence, reason, detail, pValue });

@@ -248,9 +248,12 @@ export class WindowMoments {
     const skipped = r.integer("skipped", 0, Number.MAX_SAFE_INTEGER);
     const size = Math.min(count, width);
     const window = r.numbers("window", size);
-    const shift = r.number("shift");
-    const sum = r.number("sum");
-    const sumSq = r.numberIn("sumSquares", 0, Number.MAX_VALUE);
+    // samples lie in ±L, so does the shift; sums over the window of (x − shift) and its square are bounded by it (slack for rounding)
+    const L = SAMPLE_LIMIT;
+    for (let i = 0; i < size; i++) if (!(Math.abs(window[i] as number) <= L)) r.fail(`window[${i}]`, `must be a sample within ±${L}, got ${window[i]}`);
+    const shift = r.numberIn("shift", -L, L);
+    const sum = r.numberIn("sum", -3 * L * size, 3 * L * size);
+    const sumSq = r.numberIn("sumSquares", 0, 5 * L * L * size);
     const sinceRebuild = r.integer("sinceRebuild", 0, Math.min(width, count));
     if (size === 0 && (shift !== 0 || sum !== 0 || sumSq !== 0)) {
       throw new SnapshotError(WindowMoments.kind, "state.sum", "and state.shift, state.sumSquares must be 0 for an empty window");

@@ -37,7 +37,9 @@ function operate(engine: DecisionEngine, step: EngineStep): unknown {
     case "scores":
       return engine.observeScores(step.live, step.references);
     case "features":
-      return engine.observe(Float64Array.from(step.x));
+      // a vector of numbers travels as the Float64Array the engine takes; anything else goes as it is,
+      // so that the engine, not Float64Array.from, meets a non-number (from(["5", false]) would be [5, 0])
+      return engine.observe(Array.isArray(step.x) && step.x.every((v) => typeof v === "number") ? Float64Array.from(step.x) : (step.x as never));
     case "acknowledge":
       if (engine.phase === "latched") engine.acknowledge();
       return engine.phase;
