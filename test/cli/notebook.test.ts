@@ -26,13 +26,23 @@ describe("docs/harbour-lane.ipynb", () => {
     mkdirSync(join(work, "kernels", "deno"), { recursive: true });
     writeFileSync(join(work, "kernels", "deno", "kernel.json"), JSON.stringify({ argv: [deno, "jupyter", "--kernel", "--conn", "{connection_file}"], display_name: "Deno", language: "typescript" }));
     const executed = join(work, "executed.ipynb");
-    execFileSync("jupyter-nbconvert", ["--to", "notebook", "--execute", "--ExecutePreprocessor.kernel_name=deno", "--ExecutePreprocessor.timeout=240", "--ExecutePreprocessor.startup_timeout=180", "--ExecutePreprocessor.iopub_timeout=60", "--output", executed, "harbour-lane.ipynb"], {
-      cwd: docs,
-      env: { ...process.env, JUPYTER_PATH: work, DENO_NO_UPDATE_CHECK: "1" },
-      stdio: ["ignore", "pipe", "pipe"],
-    });
-    const notebook = JSON.parse(readFileSync(executed, "utf8")) as { cells: { cell_type: string; outputs?: Output[] }[] };
-    const outputs = notebook.cells.filter((c) => c.cell_type === "code").map((c) => c.outputs ?? []);
+    const execute = (): Output[][] => {
+      execFileSync("jupyter-nbconvert", ["--to", "notebook", "--execute", "--ExecutePreprocessor.kernel_name=deno", "--ExecutePreprocessor.timeout=240", "--ExecutePreprocessor.startup_timeout=180", "--ExecutePreprocessor.iopub_timeout=60", "--output", executed, "harbour-lane.ipynb"], {
+        cwd: docs,
+        env: { ...process.env, JUPYTER_PATH: work, DENO_NO_UPDATE_CHECK: "1" },
+        stdio: ["ignore", "pipe", "pipe"],
+      });
+      const notebook = JSON.parse(readFileSync(executed, "utf8")) as { cells: { cell_type: string; outputs?: Output[] }[] };
+      return notebook.cells.filter((c) => c.cell_type === "code").map((c) => c.outputs ?? []);
+    };
+    // On a loaded machine the kernel's result of a cell sometimes reaches nbconvert after it stopped
+    // listening, and the cell comes back without output (no error). Such a run is repeated, at most
+    // twice, and said in the log; every assertion below applies to the run that kept its outputs.
+    let outputs = execute();
+    for (let attempt = 2; attempt <= 3 && outputs.some((o) => o.length === 0); attempt++) {
+      console.log(`notebook: a cell came back without output (outputs per cell ${outputs.map((o) => o.length).join(", ")}); executing again (attempt ${attempt} of 3)`);
+      outputs = execute();
+    }
     expect(outputs.flat().filter((o) => o.output_type === "error"), "a cell failed").toEqual([]);
     const text = (o: Output | undefined): string => [o?.data?.["text/plain"] ?? o?.text ?? ""].flat().join("");
     expect(text(outputs[0]?.[0])).toContain("2016 samples from 2026-03-02T00:00:00Z to 2026-03-08T23:55:00Z; speeds low, mid, high");
